@@ -1,0 +1,53 @@
+package org.rungs.cli;
+
+import java.nio.file.Path;
+import java.util.concurrent.Callable;
+import org.rungs.examples.Demo;
+import org.rungs.models.survey.SurveyInputException;
+import org.rungs.sampler.run.FitJob;
+import org.rungs.sampler.run.FitOutcome;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
+import picocli.CommandLine.Option;
+
+/** {@code rungs demo}: fits the built-in invented survey and compares the estimates with the truth. */
+@Command(name = "demo", mixinStandardHelpOptions = true, sortOptions = false,
+        description = {"Fit the built-in demo: an invented 0..10 survey of 12 fictional regions with income and age.",
+                "Writes the demo data, its true parameters and the fit's files to the output folder."})
+final class DemoCommand implements Callable<Integer> {
+    @Option(names = "--out", defaultValue = "rungs-demo", paramLabel = "DIR", description = "Output folder. Default: ${DEFAULT-VALUE}.")
+    Path out;
+
+    @Option(names = "--overwrite", defaultValue = "true", negatable = true,
+            description = "Replace the files of an earlier demo run in the output folder. Default: ${DEFAULT-VALUE}.")
+    boolean overwrite;
+
+    @Mixin
+    SamplingOptions sampling;
+
+    @Override
+    public Integer call() {
+        if (sampling.seed == null) {
+            sampling.seed = 1L;
+        }
+        Demo.Prepared demo;
+        try {
+            demo = Demo.prepare(out, overwrite, sampling.model(), sampling.settings());
+        } catch (IllegalArgumentException e) {
+            System.err.println("rungs demo: " + e.getMessage());
+            return Main.INPUT_ERROR;
+        }
+        System.err.println("rungs: demo data written to " + out.resolve(Demo.SURVEY_FILE) + " (true values in "
+                + Demo.TRUTH_FILE + ")");
+        try (Interruption interruption = new Interruption()) {
+            FitOutcome outcome = FitJob.run(demo.request(), System.out, System.err, interruption.flag());
+            System.out.println();
+            System.out.println("Estimates against the values the demo data were drawn from:");
+            System.out.print(Demo.compare(outcome, demo.truth()));
+            return outcome.result().interrupted() ? Main.INTERRUPTED : 0;
+        } catch (SurveyInputException | IllegalArgumentException e) {
+            System.err.println("rungs demo: " + e.getMessage());
+            return Main.INPUT_ERROR;
+        }
+    }
+}

@@ -1,0 +1,50 @@
+package org.rungs.cli;
+
+import java.security.SecureRandom;
+import java.util.ArrayList;
+import java.util.List;
+import org.rungs.models.ModelSpec;
+import org.rungs.models.ThresholdMode;
+import org.rungs.priors.Priors;
+import org.rungs.sampler.SamplerSettings;
+import picocli.CommandLine.Option;
+
+/** Options shared by every command that fits: the model's switches, priors and the sampler. */
+final class SamplingOptions {
+    @Option(names = "--thresholds", paramLabel = "MODE", defaultValue = "by-group",
+            description = "Threshold mode: by-group (common thresholds plus group spacing deviations) or shared. Default: ${DEFAULT-VALUE}.")
+    String thresholds;
+
+    @Option(names = "--prior", paramLabel = "NAME=DIST",
+            description = "Replace a default prior, e.g. level=normal(0,2.5) or group_sd=half-normal(0.5). Names: " + Priors.NAMES + ".")
+    List<String> priors = new ArrayList<>();
+
+    @Option(names = "--chains", defaultValue = "4", description = "Number of chains. Default: ${DEFAULT-VALUE}.")
+    int chains;
+
+    @Option(names = "--warmup", defaultValue = "1000", description = "Warm-up iterations per chain. Default: ${DEFAULT-VALUE}.")
+    int warmup;
+
+    @Option(names = "--draws", defaultValue = "1000", description = "Kept iterations per chain. Default: ${DEFAULT-VALUE}.")
+    int draws;
+
+    @Option(names = "--seed", description = "Random seed; with none, one is chosen, printed and recorded in run.json.")
+    Long seed;
+
+    @Option(names = "--threads", description = "Worker threads (never changes the draws). Default: the number of cores, at most the chains.")
+    Integer threads;
+
+    ModelSpec model() {
+        Priors p = Priors.defaults();
+        for (String assignment : priors) {
+            p = p.with(assignment);
+        }
+        return new ModelSpec(ThresholdMode.parse(thresholds), p);
+    }
+
+    SamplerSettings settings() {
+        long s = seed != null ? seed : new SecureRandom().nextLong() >>> 1;
+        int t = threads != null ? threads : Math.max(1, Math.min(chains, Runtime.getRuntime().availableProcessors()));
+        return new SamplerSettings(chains, warmup, draws, s, t);
+    }
+}

@@ -1,0 +1,45 @@
+package org.rungs.cli;
+
+import java.io.IOException;
+import java.nio.file.Path;
+import java.util.concurrent.Callable;
+import org.rungs.examples.DemoScenario;
+import org.rungs.examples.SimulatedSurvey;
+import org.rungs.examples.Simulator;
+import org.rungs.sampler.run.OutputFolder;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Option;
+
+/** {@code rungs simulate}: writes a simulated survey and its true parameter values. */
+@Command(name = "simulate", mixinStandardHelpOptions = true, sortOptions = false,
+        description = {"Write a survey drawn from the demo scenario (invented regions) and its true parameter values,",
+                "for anyone to fit: survey.csv (region, rating, income, age) and truth.csv (parameter, value)."})
+final class SimulateCommand implements Callable<Integer> {
+    @Option(names = "--out", required = true, paramLabel = "DIR", description = "Output folder.")
+    Path out;
+
+    @Option(names = "--seed", defaultValue = "" + DemoScenario.SEED, description = "Seed of the respondents drawn. Default: ${DEFAULT-VALUE}.")
+    long seed;
+
+    @Option(names = "--overwrite", description = "Replace files in a non-empty output folder.")
+    boolean overwrite;
+
+    @Override
+    public Integer call() throws IOException {
+        OutputFolder folder;
+        try {
+            folder = OutputFolder.check(out, overwrite);
+        } catch (IllegalArgumentException e) {
+            System.err.println("rungs simulate: " + e.getMessage());
+            return Main.INPUT_ERROR;
+        }
+        SimulatedSurvey data = Simulator.simulate(DemoScenario.scenario(), seed);
+        folder.write("survey.csv", data::writeCsv);
+        folder.write("truth.csv", data::writeTruth);
+        System.out.println("Wrote " + data.size() + " respondents in " + data.groupLabels().size() + " regions to "
+                + folder.resolve("survey.csv") + " and the true values to " + folder.resolve("truth.csv"));
+        System.out.println("Fit it with: ./rungs fit " + folder.resolve("survey.csv") + " --rating rating --group region --level "
+                + String.join(",", data.covariateNames()) + " --out DIR");
+        return 0;
+    }
+}

@@ -1,0 +1,90 @@
+package org.rungs.examples;
+
+import java.nio.file.Path;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import org.rungs.models.ModelSpec;
+import org.rungs.models.survey.Scale;
+import org.rungs.models.survey.SurveySpec;
+import org.rungs.posteriors.ParameterSummary;
+import org.rungs.sampler.SamplerSettings;
+import org.rungs.sampler.run.FitOutcome;
+import org.rungs.sampler.run.FitRequest;
+import org.rungs.sampler.run.OutputFolder;
+
+/**
+ * The built-in demo: draws the invented survey of {@link DemoScenario}, writes it and its true
+ * parameters into the output folder, and prepares the fit of that file, so the demo exercises
+ * the same path as a user's own file.
+ */
+public final class Demo {
+    /** Name of the demo's survey file in the output folder. */
+    public static final String SURVEY_FILE = "demo-survey.csv";
+    /** Name of the file of the demo's true parameter values. */
+    public static final String TRUTH_FILE = "demo-truth.csv";
+
+    /** A prepared demo fit and the values it should recover. */
+    public record Prepared(FitRequest request, Map<String, Double> truth) {
+    }
+
+    private Demo() {
+    }
+
+    /**
+     * Writes the demo survey and truth to {@code out} and returns the fit request.
+     *
+     * @throws IllegalArgumentException if {@code out} holds another run and overwriting was not asked for
+     */
+    public static Prepared prepare(Path out, boolean overwrite, ModelSpec model, SamplerSettings settings) {
+        OutputFolder folder = OutputFolder.check(out, overwrite);
+        SimulatedSurvey data = Simulator.simulate(DemoScenario.scenario(), DemoScenario.SEED);
+        Path file = folder.write(SURVEY_FILE, data::writeCsv);
+        folder.write(TRUTH_FILE, data::writeTruth);
+        SurveySpec spec = SurveySpec.builder(SimulatedSurvey.RATING_COLUMN, new Scale(0, 10))
+                .group(SimulatedSurvey.GROUP_COLUMN)
+                .level(data.covariateNames().toArray(new String[0]))
+                .build();
+        Map<String, Object> options = new LinkedHashMap<>();
+        options.put("demo", "invented survey of " + data.groupLabels().size() + " fictional regions, seed " + DemoScenario.SEED);
+        options.put("thresholds", model.thresholdMode().label());
+        options.put("chains", settings.chains());
+        options.put("warmup", settings.warmup());
+        options.put("draws", settings.draws());
+        options.put("seed", settings.seed());
+        options.put("threads", settings.threads());
+        return new Prepared(new FitRequest(file, spec, model, settings, out, true, options), data.truth());
+    }
+
+    /**
+     * A table of the true values beside the posterior of the main parameters, and how many true
+     * values fall inside their 90% intervals.
+     */
+    public static String compare(FitOutcome outcome, Map<String, Double> truth) {
+        StringBuilder sb = new StringBuilder();
+        sb.append(String.format(Locale.ROOT, "%-34s %9s %9s %20s%n", "parameter", "true", "mean", "90% interval"));
+        int inside = 0;
+        int total = 0;
+        List<ParameterSummary> rows = outcome.summaries();
+        for (ParameterSummary s : rows) {
+            Double t = truth.get(s.name());
+            if (t == null) {
+                continue;
+            }
+            total++;
+            boolean covered = s.q05() <= t && t <= s.q95();
+            if (covered) {
+                inside++;
+            }
+            if (!s.name().startsWith("threshold.") || s.name().chars().filter(c -> c == '.').count() == 1) {
+                sb.append(String.format(Locale.ROOT, "%-34s %9.3f %9.3f   [%7.3f, %7.3f]%s%n", s.name(), t, s.mean(),
+                        s.q05(), s.q95(), covered ? "" : "  outside"));
+            }
+        }
+        sb.append(String.format(Locale.ROOT,
+                "%d of %d true values lie inside their 90%% intervals (about 90%% expected; group thresholds counted, not all shown).%n",
+                inside, total));
+        return sb.toString();
+    }
+}

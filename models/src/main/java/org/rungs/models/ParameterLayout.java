@@ -1,0 +1,143 @@
+package org.rungs.models;
+
+import java.util.ArrayList;
+import java.util.Collections;
+import java.util.List;
+import org.rungs.models.survey.Covariates;
+import org.rungs.models.survey.Scale;
+import org.rungs.models.survey.Survey;
+
+/**
+ * The named scalar parameters of a fit, in the column order of {@code draws.csv}. Names follow
+ * the README: {@code level.<covariate>} (per internal unit), {@code group_mean}, {@code group_sd},
+ * {@code group.<label>}, {@code threshold.<k>} (the latent value above which the answer is at
+ * least k), {@code threshold_sd}, {@code threshold.<label>.<k>}, and the derived
+ * {@code level.<covariate>.per_unit} on the user's scale of each numeric covariate.
+ */
+public final class ParameterLayout {
+    private final List<String> names;
+    private final int levelOffset;
+    private final int levelCount;
+    private final int groupMeanIndex;
+    private final int groupSdIndex;
+    private final int groupOffset;
+    private final int thresholdOffset;
+    private final int thresholdSdIndex;
+    private final int groupThresholdOffset;
+    private final int perUnitOffset;
+    private final int[] perUnitColumns;
+
+    private ParameterLayout(Survey survey, ThresholdMode mode) {
+        List<String> n = new ArrayList<>();
+        Covariates level = survey.level();
+        Scale scale = survey.scale();
+        int groups = survey.groupCount();
+        levelOffset = n.size();
+        levelCount = level.count();
+        for (int j = 0; j < levelCount; j++) {
+            n.add("level." + level.name(j));
+        }
+        groupMeanIndex = n.size();
+        n.add("group_mean");
+        if (groups > 1) {
+            groupSdIndex = n.size();
+            n.add("group_sd");
+            groupOffset = n.size();
+            for (String label : survey.groupLabels()) {
+                n.add("group." + label);
+            }
+        } else {
+            groupSdIndex = -1;
+            groupOffset = -1;
+        }
+        thresholdOffset = n.size();
+        for (int k = scale.lowest() + 1; k <= scale.highest(); k++) {
+            n.add("threshold." + k);
+        }
+        if (mode == ThresholdMode.BY_GROUP && groups > 1) {
+            thresholdSdIndex = n.size();
+            n.add("threshold_sd");
+            groupThresholdOffset = n.size();
+            for (String label : survey.groupLabels()) {
+                for (int k = scale.lowest() + 1; k <= scale.highest(); k++) {
+                    n.add("threshold." + label + "." + k);
+                }
+            }
+        } else {
+            thresholdSdIndex = -1;
+            groupThresholdOffset = -1;
+        }
+        perUnitOffset = n.size();
+        List<Integer> numeric = new ArrayList<>();
+        for (int j = 0; j < levelCount; j++) {
+            if (!level.isIndicator(j)) {
+                numeric.add(j);
+                n.add("level." + level.name(j) + ".per_unit");
+            }
+        }
+        perUnitColumns = numeric.stream().mapToInt(Integer::intValue).toArray();
+        names = Collections.unmodifiableList(n);
+    }
+
+    public static ParameterLayout of(Survey survey, ModelSpec spec) {
+        return new ParameterLayout(survey, spec.effectiveThresholdMode(survey.groupCount()));
+    }
+
+    public List<String> names() {
+        return names;
+    }
+
+    public int size() {
+        return names.size();
+    }
+
+    public int levelOffset() {
+        return levelOffset;
+    }
+
+    public int levelCount() {
+        return levelCount;
+    }
+
+    public int groupMeanIndex() {
+        return groupMeanIndex;
+    }
+
+    /** -1 with a single group. */
+    public int groupSdIndex() {
+        return groupSdIndex;
+    }
+
+    /** -1 with a single group. */
+    public int groupOffset() {
+        return groupOffset;
+    }
+
+    public int thresholdOffset() {
+        return thresholdOffset;
+    }
+
+    /** -1 unless thresholds vary by group. */
+    public int thresholdSdIndex() {
+        return thresholdSdIndex;
+    }
+
+    /** -1 unless thresholds vary by group; group g's k-th threshold is at offset + g*(M-1) + k-1. */
+    public int groupThresholdOffset() {
+        return groupThresholdOffset;
+    }
+
+    public int perUnitOffset() {
+        return perUnitOffset;
+    }
+
+    /** How many level covariates have a per-unit coefficient (the numeric ones). */
+    public int perUnitCount() {
+        return perUnitColumns.length;
+    }
+
+    /** The level covariate (by index) of the u-th per-unit coefficient. */
+    public int perUnitColumn(int u) {
+        return perUnitColumns[u];
+    }
+}

@@ -1,0 +1,51 @@
+package org.rungs.models.survey;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertNull;
+import static org.junit.jupiter.api.Assertions.assertThrows;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.util.List;
+import java.util.Map;
+import org.junit.jupiter.api.Test;
+
+class SurveySpecTest {
+
+    private static final Scale ZERO_TEN = new Scale(0, 10);
+
+    @Test
+    void defaultsToNoGroupNoCovariatesNoWeights() {
+        SurveySpec spec = SurveySpec.of("rating", null, ZERO_TEN);
+        assertNull(spec.groupColumn());
+        assertNull(spec.weightColumn());
+        assertEquals(List.of(), spec.levelColumns());
+        assertEquals(List.of(), spec.missingCodes());
+        assertEquals(Map.of(), spec.missingCodesByColumn());
+        assertEquals(List.of("rating"), spec.usedColumns());
+    }
+
+    @Test
+    void listsUsedColumnsOnceInReadingOrder() {
+        SurveySpec spec = SurveySpec.builder("r", ZERO_TEN).group("g").weight("w").level("a", "b").style("b", "c")
+                .categorical("c").reference("a", "x").missingCodes("99").missingCodesFor("a", "-1").build();
+        assertEquals(List.of("r", "g", "w", "a", "b", "c"), spec.usedColumns());
+        assertTrue(spec.declaredCategorical("a"));
+        assertTrue(spec.declaredCategorical("c"));
+        assertFalse(spec.declaredCategorical("b"));
+        assertEquals(Map.of("a", List.of("-1")), spec.missingCodesByColumn());
+    }
+
+    @Test
+    void rejectsInconsistentRoles() {
+        assertThrows(IllegalArgumentException.class, () -> SurveySpec.builder("r", ZERO_TEN).group("r").build());
+        assertThrows(IllegalArgumentException.class, () -> SurveySpec.builder("r", ZERO_TEN).level("r").build());
+        assertThrows(IllegalArgumentException.class, () -> SurveySpec.builder("r", ZERO_TEN).level("a", "a").build());
+        assertThrows(IllegalArgumentException.class, () -> SurveySpec.builder("r", ZERO_TEN).categorical("a").build());
+        assertThrows(IllegalArgumentException.class,
+                () -> SurveySpec.builder("r", ZERO_TEN).reference("a", "x").build());
+        assertThrows(IllegalArgumentException.class,
+                () -> SurveySpec.builder("r", ZERO_TEN).missingCodesFor("a", "1").build());
+        assertThrows(NullPointerException.class, () -> SurveySpec.of("r", null, null));
+    }
+}

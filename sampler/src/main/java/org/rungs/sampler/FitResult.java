@@ -1,0 +1,18 @@
+package org.rungs.sampler;
+
+import org.rungs.models.ParameterLayout;
+import org.rungs.posteriors.Draws;
+
+/**
+ * What a fit produced.
+ *
+ * @param draws                kept draws of every named parameter; fewer iterations than asked when interrupted
+ * @param layout               the parameter names and their positions
+ * @param settings             the sampler settings used, with the seed actually used
+ * @param seconds              wall-clock time of the sampling
+ * @param thresholdAcceptance  per chain, the share of accepted threshold proposals while sampling
+ * @param interrupted          true when the run was stopped before all iterations were done
+ */
+public record FitResult(Draws draws, ParameterLayout layout, SamplerSettings settings, double seconds,
+                        double[] thresholdAcceptance, boolean interrupted) {
+}

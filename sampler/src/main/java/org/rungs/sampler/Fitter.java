@@ -1,0 +1,78 @@
+package org.rungs.sampler;
+
+import java.util.ArrayList;
+import java.util.List;
+import java.util.concurrent.ExecutionException;
+import java.util.concurrent.ExecutorService;
+import java.util.concurrent.Executors;
+import java.util.concurrent.Future;
+import java.util.concurrent.atomic.AtomicBoolean;
+import org.apache.commons.rng.UniformRandomProvider;
+import org.rungs.models.ModelSpec;
+import org.rungs.models.ParameterLayout;
+import org.rungs.models.ThresholdMode;
+import org.rungs.models.survey.Survey;
+import org.rungs.posteriors.Draws;
+
+/**
+ * Fits the model of MODEL.md to a survey: runs the chains, each on its own random stream, in a
+ * pool of threads, and collects their kept draws. The number of threads never changes a draw.
+ */
+public final class Fitter {
+    private Fitter() {
+    }
+
+    /**
+     * @param stop set it to end every chain after its current iteration; the draws kept so far
+     *             (the same number for every chain) are returned
+     */
+    public static FitResult fit(Survey survey, ModelSpec spec, SamplerSettings settings,
+                                ProgressListener progress, AtomicBoolean stop) {
+        ParameterLayout layout = ParameterLayout.of(survey, spec);
+        SurveyOrder order = SurveyOrder.of(survey);
+        DesignSums sums = DesignSums.of(order.survey());
+        boolean byGroup = spec.effectiveThresholdMode(survey.groupCount()) == ThresholdMode.BY_GROUP;
+        Draws draws = new Draws(layout.names(), settings.chains(), settings.draws());
+        int[] kept = new int[settings.chains()];
+        double[] acceptance = new double[settings.chains()];
+        long start = System.nanoTime();
+        ExecutorService pool = Executors.newFixedThreadPool(Math.min(settings.threads(), settings.chains()), r -> {
+            Thread t = new Thread(r, "rungs-chain");
+            t.setDaemon(true);
+            return t;
+        });
+        try {
+            List<Future<?>> futures = new ArrayList<>();
+            for (int c = 0; c < settings.chains(); c++) {
+                int chain = c;
+                futures.add(pool.submit(() -> {
+                    UniformRandomProvider rng = ChainSeeds.stream(settings.seed(), chain);
+                    Chain run = Chain.of(order, spec, sums, byGroup, rng);
+                    kept[chain] = run.run(chain, settings, layout, draws, progress, stop);
+                    acceptance[chain] = run.thresholdAcceptance();
+                }));
+            }
+            for (Future<?> f : futures) {
+                f.get();
+            }
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+            stop.set(true);
+        } catch (ExecutionException e) {
+            Throwable cause = e.getCause();
+            if (cause instanceof RuntimeException) {
+                throw (RuntimeException) cause;
+            }
+            throw new IllegalStateException(cause);
+        } finally {
+            pool.shutdownNow();
+        }
+        int common = settings.draws();
+        for (int k : kept) {
+            common = Math.min(common, k);
+        }
+        boolean interrupted = common < settings.draws();
+        Draws result = interrupted ? draws.withIterations(common) : draws;
+        return new FitResult(result, layout, settings, (System.nanoTime() - start) / 1e9, acceptance, interrupted);
+    }
+}

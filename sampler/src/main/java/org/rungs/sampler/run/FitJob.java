@@ -1,0 +1,140 @@
+package org.rungs.sampler.run;
+
+import java.io.PrintStream;
+import java.time.Instant;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.concurrent.atomic.AtomicBoolean;
+import org.rungs.models.ParameterLayout;
+import org.rungs.models.survey.Exclusions;
+import org.rungs.models.survey.Survey;
+import org.rungs.models.survey.SurveyInputException;
+import org.rungs.models.survey.SurveyReader;
+import org.rungs.posteriors.DrawsCsv;
+import org.rungs.posteriors.ParameterSummary;
+import org.rungs.posteriors.SummaryTable;
+import org.rungs.posteriors.Summaries;
+import org.rungs.sampler.ConsoleProgress;
+import org.rungs.sampler.FitResult;
+import org.rungs.sampler.Fitter;
+
+/**
+ * A fit from a survey file to an output folder: read, fit, summarise, write {@code draws.csv},
+ * {@code summary.csv} and {@code run.json}. Input errors surface before anything is written.
+ */
+public final class FitJob {
+    private FitJob() {
+    }
+
+    /**
+     * @param out  receives the summary table and the verdict
+     * @param err  receives the exclusions, progress and warnings
+     * @param stop set to end the chains early; what was kept is written
+     * @throws SurveyInputException     when the file cannot be used (nothing is written)
+     * @throws IllegalArgumentException when the output folder may not be written
+     */
+    public static FitOutcome run(FitRequest request, PrintStream out, PrintStream err, AtomicBoolean stop)
+            throws SurveyInputException {
+        OutputFolder folder = OutputFolder.check(request.out(), request.overwrite());
+        long readStart = System.nanoTime();
+        Survey survey = SurveyReader.read(request.file(), request.survey());
+        double readSeconds = (System.nanoTime() - readStart) / 1e9;
+        Exclusions exclusions = survey.exclusions();
+        err.println(exclusions.describe());
+
+        RunRecord record = new RunRecord();
+        for (String w : SurveyWarnings.of(survey)) {
+            record.warn(w);
+            err.println("warning: " + w);
+        }
+        FitResult result = Fitter.fit(survey, request.model(), request.settings(),
+                new ConsoleProgress(err, request.settings().chains(), 2.0), stop);
+        List<ParameterSummary> summaries = Summaries.of(result.draws());
+        String verdict = SummaryTable.verdict(summaries);
+        if (result.interrupted()) {
+            record.warn("interrupted: " + result.draws().iterations() + " of " + request.settings().draws()
+                    + " kept draws per chain were made");
+        }
+        if (summaries.stream().anyMatch(ParameterSummary::flagged)) {
+            record.warn(verdict);
+        }
+
+        folder.write("draws.csv", tmp -> DrawsCsv.write(result.draws(), tmp));
+        folder.write("summary.csv", tmp -> SummaryTable.writeCsv(summaries, tmp));
+        record.put("input", input(request, survey, exclusions, readSeconds));
+        record.put("options", request.options());
+        record.put("model", model(request, survey, result.layout()));
+        record.put("sampler", sampler(result));
+        record.put("finished", Instant.now().toString());
+        folder.writeText(OutputFolder.RUN_RECORD, record.toJson());
+
+        out.print(SummaryTable.format(summaries));
+        out.println(verdict);
+        out.println("Files written to " + folder.dir().toAbsolutePath() + ": draws.csv, summary.csv, run.json");
+        return new FitOutcome(survey, result, summaries, verdict, record.warnings());
+    }
+
+    private static Map<String, Object> input(FitRequest request, Survey survey, Exclusions exclusions, double seconds) {
+        Map<String, Object> m = new LinkedHashMap<>();
+        m.put("file", request.file().toAbsolutePath().toString());
+        m.put("sha256", RunRecord.sha256(request.file()));
+        m.put("rows_read", exclusions.rowsRead());
+        m.put("rows_used", exclusions.rowsUsed());
+        m.put("rows_excluded", exclusions.rowsRead() - exclusions.rowsUsed());
+        m.put("missing_by_column", new LinkedHashMap<>(exclusions.missingByColumn()));
+        m.put("groups", survey.groupCount());
+        m.put("scale", survey.scale().toString());
+        m.put("read_seconds", seconds);
+        return m;
+    }
+
+    private static Map<String, Object> model(FitRequest request, Survey survey, ParameterLayout layout) {
+        Map<String, Object> m = new LinkedHashMap<>();
+        m.put("thresholds", request.model().effectiveThresholdMode(survey.groupCount()).label());
+        m.put("style_classes", "none");
+        m.put("attraction", "none");
+        Map<String, Object> priors = new LinkedHashMap<>();
+        var p = request.model().priors();
+        priors.put("level", p.level().toString());
+        priors.put("group_mean", p.groupMean().toString());
+        priors.put("group_sd", p.groupSd().toString());
+        priors.put("threshold", p.threshold().toString());
+        priors.put("threshold_sd", p.thresholdSd().toString());
+        m.put("priors", priors);
+        Map<String, Object> covariates = new LinkedHashMap<>();
+        for (int j = 0; j < survey.level().count(); j++) {
+            Map<String, Object> c = new LinkedHashMap<>();
+            c.put("source_column", survey.level().sourceColumn(j));
+            c.put("kind", survey.level().isIndicator(j) ? "indicator" : "numeric");
+            c.put("centre", survey.level().centre(j));
+            c.put("scale", survey.level().scale(j));
+            if (survey.level().isIndicator(j)) {
+                c.put("reference_level", survey.level().referenceLevel(j));
+            }
+            covariates.put(survey.level().name(j), c);
+        }
+        m.put("level_covariates", covariates);
+        m.put("parameters", layout.size());
+        return m;
+    }
+
+    private static Map<String, Object> sampler(FitResult result) {
+        Map<String, Object> m = new LinkedHashMap<>();
+        m.put("chains", result.settings().chains());
+        m.put("warmup", result.settings().warmup());
+        m.put("draws", result.settings().draws());
+        m.put("kept_draws", result.draws().iterations());
+        m.put("seed", result.settings().seed());
+        m.put("threads", result.settings().threads());
+        m.put("seconds", result.seconds());
+        m.put("interrupted", result.interrupted());
+        StringBuilder acc = new StringBuilder();
+        for (double a : result.thresholdAcceptance()) {
+            acc.append(acc.length() == 0 ? "" : ", ").append(String.format(Locale.ROOT, "%.3f", a));
+        }
+        m.put("threshold_acceptance_per_chain", acc.toString());
+        return m;
+    }
+}

@@ -1,0 +1,19 @@
+package org.rungs.sampler.run;
+
+import java.util.List;
+import org.rungs.models.survey.Survey;
+import org.rungs.posteriors.ParameterSummary;
+import org.rungs.sampler.FitResult;
+
+/**
+ * What a fit from a file left behind.
+ *
+ * @param survey    the survey as read
+ * @param result    the draws and sampler facts
+ * @param summaries one row per parameter, as in {@code summary.csv}
+ * @param verdict   the one-line convergence verdict
+ * @param warnings  every warning, as in {@code run.json}
+ */
+public record FitOutcome(Survey survey, FitResult result, List<ParameterSummary> summaries, String verdict,
+                         List<String> warnings) {
+}

@@ -1,0 +1,22 @@
+package org.rungs.sampler.run;
+
+import java.nio.file.Path;
+import java.util.Map;
+import org.rungs.models.ModelSpec;
+import org.rungs.models.survey.SurveySpec;
+import org.rungs.sampler.SamplerSettings;
+
+/**
+ * Everything a fit from a file needs.
+ *
+ * @param file      the survey file
+ * @param survey    which columns mean what
+ * @param model     the model and its priors
+ * @param settings  chains, iterations, seed, threads
+ * @param out       the output folder
+ * @param overwrite whether files of an earlier run in {@code out} may be replaced
+ * @param options   the options as the user gave them, recorded verbatim in {@code run.json}
+ */
+public record FitRequest(Path file, SurveySpec survey, ModelSpec model, SamplerSettings settings, Path out,
+                         boolean overwrite, Map<String, Object> options) {
+}

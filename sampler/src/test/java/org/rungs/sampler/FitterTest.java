@@ -1,0 +1,91 @@
+package org.rungs.sampler;
+
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.util.List;
+import java.util.concurrent.atomic.AtomicBoolean;
+import org.apache.commons.rng.UniformRandomProvider;
+import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
+import org.apache.commons.rng.simple.RandomSource;
+import org.junit.jupiter.api.Test;
+import org.rungs.models.ModelSpec;
+import org.rungs.models.ThresholdMode;
+import org.rungs.models.survey.Covariates;
+import org.rungs.models.survey.Scale;
+import org.rungs.models.survey.Survey;
+import org.rungs.posteriors.Draws;
+import org.rungs.priors.Priors;
+
+class FitterTest {
+    /** A small survey drawn from MODEL.md sections 2-3 in the test itself: 4 groups, 1 covariate, scale 1..5. */
+    static Survey smallSurvey(long seed, int perGroup) {
+        UniformRandomProvider rng = RandomSource.XO_RO_SHI_RO_128_PP.create(seed);
+        ZigguratSampler.NormalizedGaussian normal = ZigguratSampler.NormalizedGaussian.of(rng);
+        double[] alpha = {-0.3, 0.0, 0.2, 0.5};
+        double[] cuts = {-1.2, -0.4, 0.4, 1.2};
+        int n = alpha.length * perGroup;
+        int[] group = new int[n];
+        double[] x = new double[n];
+        byte[] category = new byte[n];
+        for (int i = 0; i < n; i++) {
+            group[i] = i % alpha.length;
+            x[i] = normal.sample();
+        }
+        Covariates level = Covariates.fromNumeric(List.of("x"), List.of(x));
+        double[] z = level.column(0);
+        for (int i = 0; i < n; i++) {
+            double latent = alpha[group[i]] + 0.5 * z[i] + normal.sample();
+            int k = 0;
+            while (k < cuts.length && latent > cuts[k]) {
+                k++;
+            }
+            category[i] = (byte) k;
+        }
+        return Survey.of(new Scale(1, 5), category, group, List.of("north", "south", "east", "west"), level,
+                Covariates.none(), null);
+    }
+
+    @Test
+    void sameSeedGivesSameDrawsWhateverTheThreads() {
+        Survey survey = smallSurvey(1L, 150);
+        ModelSpec spec = new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults());
+        Draws one = Fitter.fit(survey, spec, new SamplerSettings(3, 50, 40, 99L, 1), ProgressListener.NONE, new AtomicBoolean()).draws();
+        Draws three = Fitter.fit(survey, spec, new SamplerSettings(3, 50, 40, 99L, 3), ProgressListener.NONE, new AtomicBoolean()).draws();
+        assertEquals(one.names(), three.names());
+        for (int p = 0; p < one.parameterCount(); p++) {
+            for (int c = 0; c < 3; c++) {
+                assertArrayEquals(one.chainsOf(p)[c], three.chainsOf(p)[c], one.names().get(p));
+            }
+        }
+        Draws other = Fitter.fit(survey, spec, new SamplerSettings(3, 50, 40, 100L, 1), ProgressListener.NONE, new AtomicBoolean()).draws();
+        assertFalse(java.util.Arrays.equals(one.chainsOf(0)[0], other.chainsOf(0)[0]), "another seed, other draws");
+    }
+
+    @Test
+    void parameterNamesFollowTheReadme() {
+        Survey survey = smallSurvey(2L, 20);
+        Draws d = Fitter.fit(survey, ModelSpec.defaults(), new SamplerSettings(1, 5, 5, 1L, 1), ProgressListener.NONE,
+                new AtomicBoolean()).draws();
+        List<String> names = d.names();
+        assertTrue(names.containsAll(List.of("level.x", "group_mean", "group_sd", "group.north", "threshold.2",
+                "threshold.5", "threshold_sd", "threshold.west.3", "level.x.per_unit")), names.toString());
+        assertEquals(1 + 1 + 1 + 4 + 4 + 1 + 16 + 1, names.size());
+    }
+
+    @Test
+    void stoppingEarlyKeepsTheDrawsMade() {
+        Survey survey = smallSurvey(3L, 30);
+        AtomicBoolean stop = new AtomicBoolean();
+        ProgressListener stopAt = (chain, done, total, warm) -> {
+            if (done == 30) {
+                stop.set(true);
+            }
+        };
+        FitResult r = Fitter.fit(survey, ModelSpec.defaults(), new SamplerSettings(2, 10, 100, 5L, 1), stopAt, stop);
+        assertTrue(r.interrupted());
+        assertTrue(r.draws().iterations() <= 20 && r.draws().iterations() >= 0, "kept " + r.draws().iterations());
+    }
+}
