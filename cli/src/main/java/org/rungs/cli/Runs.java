@@ -12,8 +12,6 @@ final class Runs {
     }
 
     static int fit(FitRequest request) {
-        System.err.println("rungs: seed " + request.settings().seed() + ", " + request.settings().chains() + " chains of "
-                + request.settings().warmup() + " warm-up + " + request.settings().draws() + " kept iterations");
         try (Interruption interruption = new Interruption()) {
             FitOutcome outcome = FitJob.run(request, System.out, System.err, interruption.flag());
             return outcome.result().interrupted() ? Main.INTERRUPTED : 0;

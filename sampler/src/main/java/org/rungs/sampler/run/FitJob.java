@@ -44,6 +44,8 @@ public final class FitJob {
         Exclusions exclusions = survey.exclusions();
         err.println(exclusions.describe());
 
+        err.println("rungs: seed " + request.settings().seed() + ", " + request.settings().chains() + " chains of "
+                + request.settings().warmup() + " warm-up + " + request.settings().draws() + " kept iterations");
         RunRecord record = new RunRecord();
         for (String w : SurveyWarnings.of(survey)) {
             record.warn(w);

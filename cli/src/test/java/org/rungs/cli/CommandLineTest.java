@@ -1,0 +1,271 @@
+package org.rungs.cli;
+
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.io.ByteArrayOutputStream;
+import java.io.IOException;
+import java.io.PrintStream;
+import java.io.PrintWriter;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.security.MessageDigest;
+import java.security.NoSuchAlgorithmException;
+import java.util.ArrayList;
+import java.util.HexFormat;
+import java.util.List;
+import java.util.regex.Matcher;
+import java.util.regex.Pattern;
+import java.util.stream.Stream;
+import org.junit.jupiter.api.BeforeAll;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+import org.rungs.examples.DemoScenario;
+
+/**
+ * End-to-end runs of the {@code rungs} command line: help, simulate then fit, reproducibility
+ * across thread counts, input errors (exit 2, a located message, nothing written), output-folder
+ * protection and missing codes. Fits are tiny (2 chains of 20 + 20) because only the plumbing is
+ * under test here, not the estimates.
+ */
+final class CommandLineTest {
+    private static final String[] TINY = {"--chains", "2", "--warmup", "20", "--draws", "20"};
+    private static final String SUMMARY_HEADER = "name,mean,sd,q5,q50,q95,rhat,ess_bulk,ess_tail,mcse_mean,flag";
+
+    @TempDir
+    static Path shared;
+    static Path simulated;
+
+    @TempDir
+    Path dir;
+
+    /** What one invocation returned and printed. */
+    record Run(int exit, String out, String err) {
+        /** Standard output with line wrapping undone, for phrases the help may break across lines. */
+        String flatOut() {
+            return out.replaceAll("\\s+", " ");
+        }
+    }
+
+    static Run rungs(String... args) {
+        PrintStream oldOut = System.out;
+        PrintStream oldErr = System.err;
+        ByteArrayOutputStream out = new ByteArrayOutputStream();
+        ByteArrayOutputStream err = new ByteArrayOutputStream();
+        try (PrintStream o = new PrintStream(out, true, StandardCharsets.UTF_8);
+             PrintStream e = new PrintStream(err, true, StandardCharsets.UTF_8)) {
+            System.setOut(o);
+            System.setErr(e);
+            var cl = Main.commandLine();
+            cl.setOut(new PrintWriter(o, true));
+            cl.setErr(new PrintWriter(e, true));
+            int exit = cl.execute(args);
+            return new Run(exit, out.toString(StandardCharsets.UTF_8), err.toString(StandardCharsets.UTF_8));
+        } finally {
+            System.setOut(oldOut);
+            System.setErr(oldErr);
+        }
+    }
+
+    static String[] concat(String[] a, String... b) {
+        List<String> all = new ArrayList<>(List.of(a));
+        all.addAll(List.of(b));
+        return all.toArray(new String[0]);
+    }
+
+    /** {@code fit} with the given arguments and a tiny run. */
+    static String[] fit(String... args) {
+        return concat(concat(new String[] {"fit"}, args), TINY);
+    }
+
+    @BeforeAll
+    static void simulate() {
+        Run r = rungs("simulate", "--out", shared.resolve("sim").toString(), "--seed", "11");
+        assertEquals(0, r.exit(), r.err());
+        simulated = shared.resolve("sim").resolve("survey.csv");
+        assertTrue(Files.isRegularFile(simulated));
+    }
+
+    private Run fitSimulated(Path out, String seed, String threads) {
+        return rungs(fit(simulated.toString(), "--rating", "rating", "--group", "region",
+                "--level", "income,age", "--seed", seed, "--threads", threads, "--out", out.toString()));
+    }
+
+    private static String sha256(Path file) throws IOException, NoSuchAlgorithmException {
+        return HexFormat.of().formatHex(MessageDigest.getInstance("SHA-256").digest(Files.readAllBytes(file)));
+    }
+
+    /** The integer value of the first {@code "key": N} in a run record. */
+    private static long jsonLong(String json, String key) {
+        Matcher m = Pattern.compile("\"" + Pattern.quote(key) + "\":\\s*(-?\\d+)").matcher(json);
+        assertTrue(m.find(), () -> key + " not in run.json:\n" + json);
+        return Long.parseLong(m.group(1));
+    }
+
+    private static boolean absentOrEmpty(Path folder) throws IOException {
+        if (!Files.exists(folder)) {
+            return true;
+        }
+        try (Stream<Path> s = Files.list(folder)) {
+            return s.findAny().isEmpty();
+        }
+    }
+
+    @Test
+    void topHelpListsTheSubcommands() {
+        Run r = rungs("--help");
+        assertEquals(0, r.exit());
+        for (String sub : List.of("fit", "demo", "simulate")) {
+            assertTrue(Pattern.compile("(?m)^\\s+" + sub + "\\s").matcher(r.out()).find(), () -> sub + " missing:\n" + r.out());
+        }
+    }
+
+    @Test
+    void everySubcommandHelpExitsZeroAndShowsDefaults() {
+        Run fit = rungs("fit", "--help");
+        assertEquals(0, fit.exit());
+        assertTrue(fit.flatOut().contains("Default: 0..10"), fit.out());
+        assertTrue(fit.flatOut().contains("Default: by-group"), fit.out());
+        assertTrue(fit.flatOut().contains("Number of chains. Default: 4"), fit.out());
+        assertTrue(fit.flatOut().contains("Default: 1000"), fit.out());
+
+        Run demo = rungs("demo", "--help");
+        assertEquals(0, demo.exit());
+        assertTrue(demo.flatOut().contains("Default: rungs-demo"), demo.out());
+        assertTrue(demo.flatOut().contains("Number of chains. Default: 4"), demo.out());
+
+        Run simulate = rungs("simulate", "--help");
+        assertEquals(0, simulate.exit());
+        assertTrue(simulate.flatOut().contains("Default: " + DemoScenario.SEED), simulate.out());
+    }
+
+    @Test
+    void fitOfASimulatedFileWritesDrawsSummaryAndRecord() throws Exception {
+        Path out = dir.resolve("fit");
+        Run r = fitSimulated(out, "424242", "1");
+        assertEquals(0, r.exit(), r.err());
+
+        Path draws = out.resolve("draws.csv");
+        Path summary = out.resolve("summary.csv");
+        Path record = out.resolve("run.json");
+        assertTrue(Files.isRegularFile(draws) && Files.isRegularFile(summary) && Files.isRegularFile(record));
+
+        String json = Files.readString(record);
+        assertEquals(424242L, jsonLong(json, "seed"));
+        assertTrue(json.contains("\"sha256\": \"" + sha256(simulated) + "\""), json);
+        long dataRows = Files.readAllLines(simulated).size() - 1;
+        assertEquals(dataRows, jsonLong(json, "rows_used"));
+
+        assertEquals(SUMMARY_HEADER, Files.readAllLines(summary).get(0));
+        List<String> drawLines = Files.readAllLines(draws);
+        assertTrue(drawLines.get(0).startsWith("chain,iteration,"), drawLines.get(0));
+        assertEquals(2 * 20, drawLines.size() - 1);
+    }
+
+    @Test
+    void sameSeedGivesIdenticalDrawsWithOneOrTwoThreads() throws IOException {
+        Path one = dir.resolve("one");
+        Path two = dir.resolve("two");
+        assertEquals(0, fitSimulated(one, "99", "1").exit());
+        assertEquals(0, fitSimulated(two, "99", "2").exit());
+        assertArrayEquals(Files.readAllBytes(one.resolve("draws.csv")), Files.readAllBytes(two.resolve("draws.csv")));
+    }
+
+    /** Writes {@code content} to {@code name}, fits it and checks exit 2, the message and an untouched output. */
+    private void assertInputError(String name, String content, List<String> options, String... expected) throws IOException {
+        Path file = dir.resolve(name);
+        Files.writeString(file, content);
+        Path out = dir.resolve("out-" + name);
+        List<String> args = new ArrayList<>(List.of("fit", file.toString(), "--seed", "1", "--out", out.toString()));
+        args.addAll(List.of(TINY));
+        args.addAll(options);
+        Run r = rungs(args.toArray(new String[0]));
+        assertEquals(Main.INPUT_ERROR, r.exit(), () -> String.join(" ", args) + "\n" + r.err());
+        for (String e : expected) {
+            assertTrue(r.err().contains(e), () -> "expected '" + e + "' in:\n" + r.err());
+        }
+        assertTrue(absentOrEmpty(out), "output folder was written to");
+    }
+
+    private static final String GOOD = "region,rating,income\nA,7,1.5\nB,3,2.0\nA,5,0.5\nB,6,1.0\n";
+
+    @Test
+    void missingColumnIsNamedWithTheExistingOnes() throws IOException {
+        assertInputError("cols.csv", GOOD, List.of("--rating", "score"),
+                "cols.csv", "\"score\"", "\"region\"", "\"rating\"", "\"income\"");
+    }
+
+    @Test
+    void nonIntegerRatingIsLocated() throws IOException {
+        assertInputError("frac.csv", "region,rating,income\nA,7,1\nB,7.5,2\n", List.of("--rating", "rating"),
+                "frac.csv", "row 3", "column \"rating\"", "7.5");
+    }
+
+    @Test
+    void ratingOutsideTheScaleIsLocated() throws IOException {
+        assertInputError("high.csv", "region,rating,income\nA,11,1\nB,7,2\n", List.of("--rating", "rating", "--scale", "0..10"),
+                "high.csv", "row 2", "column \"rating\"", "11", "0..10");
+    }
+
+    @Test
+    void raggedRowIsLocated() throws IOException {
+        assertInputError("ragged.csv", "region,rating,income\nA,7,1\nB,3\n", List.of("--rating", "rating"),
+                "ragged.csv", "row 3");
+    }
+
+    @Test
+    void emptyFileIsRefused() throws IOException {
+        assertInputError("empty.csv", "", List.of("--rating", "rating"), "empty.csv", "empty");
+    }
+
+    @Test
+    void unknownPriorNameIsRefused() throws IOException {
+        assertInputError("prior.csv", GOOD, List.of("--rating", "rating", "--prior", "nonsense=normal(0,1)"),
+                "nonsense", "level");
+    }
+
+    @Test
+    void badScaleTextIsRefused() throws IOException {
+        assertInputError("scale.csv", GOOD, List.of("--rating", "rating", "--scale", "zero-to-ten"), "zero-to-ten");
+    }
+
+    @Test
+    void folderHoldingARunNeedsOverwrite() throws IOException {
+        Path file = dir.resolve("good.csv");
+        Files.writeString(file, GOOD);
+        Path out = dir.resolve("again");
+        Files.createDirectories(out);
+        Files.writeString(out.resolve("run.json"), "{}");
+        String[] args = fit(file.toString(), "--rating", "rating", "--group", "region",
+                "--seed", "3", "--out", out.toString());
+
+        Run refused = rungs(args);
+        assertEquals(Main.INPUT_ERROR, refused.exit(), refused.err());
+        assertTrue(refused.err().contains("--overwrite"), refused.err());
+        assertEquals("{}", Files.readString(out.resolve("run.json")));
+        assertFalse(Files.exists(out.resolve("draws.csv")));
+
+        Run accepted = rungs(concat(args, "--overwrite"));
+        assertEquals(0, accepted.exit(), accepted.err());
+        assertEquals(3L, jsonLong(Files.readString(out.resolve("run.json")), "seed"));
+        assertTrue(Files.isRegularFile(out.resolve("draws.csv")));
+    }
+
+    @Test
+    void missingCodeExcludesRowsAndIsCounted() throws IOException {
+        Path file = dir.resolve("codes.csv");
+        Files.writeString(file, "region,rating,income\nA,7,1\nB,99,2\nA,4,3\nB,5,1\nA,99,1\nB,8,2\nB,99,3\n");
+        Path out = dir.resolve("codes");
+        Run r = rungs(fit(file.toString(), "--rating", "rating", "--group", "region",
+                "--missing", "99", "--seed", "5", "--out", out.toString()));
+        assertEquals(0, r.exit(), r.err());
+        String json = Files.readString(out.resolve("run.json"));
+        assertEquals(7L, jsonLong(json, "rows_read"));
+        assertEquals(4L, jsonLong(json, "rows_used"));
+        assertEquals(3L, jsonLong(json, "rows_excluded"));
+        assertTrue(Pattern.compile("\"missing_by_column\":\\s*\\{\\s*\"rating\":\\s*3\\b").matcher(json).find(), json);
+    }
+}
