@@ -36,6 +36,9 @@ final class FitCommand implements Callable<Integer> {
     @Option(names = "--level", split = ",", paramLabel = "COL", description = "Covariates of the latent level, comma-separated.")
     List<String> level = new ArrayList<>();
 
+    @Option(names = "--style", split = ",", paramLabel = "COL", description = "Covariates of the response style (the probability of being a coarse responder), e.g. education.")
+    List<String> style = new ArrayList<>();
+
     @Option(names = "--categorical", split = ",", paramLabel = "COL", description = "Covariates to read as categories even if numeric.")
     List<String> categorical = new ArrayList<>();
 
@@ -66,7 +69,7 @@ final class FitCommand implements Callable<Integer> {
         FitRequest request;
         try {
             SurveySpec.Builder spec = SurveySpec.builder(rating, Scale.parse(scale)).group(group)
-                    .level(level.toArray(new String[0])).categorical(categorical.toArray(new String[0]))
+                    .level(level.toArray(new String[0])).style(style.toArray(new String[0])).categorical(categorical.toArray(new String[0]))
                     .missingCodes(missing.toArray(new String[0]));
             reference.forEach(spec::reference);
             for (String m : missingIn) {
@@ -94,12 +97,15 @@ final class FitCommand implements Callable<Integer> {
         o.put("scale", scale);
         o.put("group", group);
         o.put("level", List.copyOf(level));
+        o.put("style", List.copyOf(style));
         o.put("categorical", List.copyOf(categorical));
         o.put("reference", new LinkedHashMap<>(reference));
         o.put("weight", weight);
         o.put("missing", List.copyOf(missing));
         o.put("missing_in", List.copyOf(missingIn));
         o.put("thresholds", sampling.thresholds);
+        o.put("style_classes", sampling.styleClasses);
+        o.put("coarse_points", sampling.coarsePoints == null ? "default" : java.util.Arrays.toString(sampling.coarsePoints));
         o.put("prior", List.copyOf(sampling.priors));
         o.put("chains", settings.chains());
         o.put("warmup", settings.warmup());

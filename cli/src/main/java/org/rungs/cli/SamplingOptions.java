@@ -4,6 +4,7 @@ import java.security.SecureRandom;
 import java.util.ArrayList;
 import java.util.List;
 import org.rungs.models.ModelSpec;
+import org.rungs.models.StyleClasses;
 import org.rungs.models.ThresholdMode;
 import org.rungs.priors.Priors;
 import org.rungs.sampler.SamplerSettings;
@@ -14,6 +15,14 @@ final class SamplingOptions {
     @Option(names = "--thresholds", paramLabel = "MODE", defaultValue = "by-group",
             description = "Threshold mode: by-group (common thresholds plus group spacing deviations) or shared. Default: ${DEFAULT-VALUE}.")
     String thresholds;
+
+    @Option(names = "--style-classes", paramLabel = "MODE", defaultValue = "coarse",
+            description = "Response-style classes: coarse (a latent class of respondents who report only the coarse points) or none (the plain ordered probit). Default: ${DEFAULT-VALUE}.")
+    String styleClasses;
+
+    @Option(names = "--coarse-points", split = ",", paramLabel = "RATING",
+            description = "The coarse points of the coarse class. Default: the two ends and the middle of the scale (0,5,10 on 0..10).")
+    int[] coarsePoints;
 
     @Option(names = "--prior", paramLabel = "NAME=DIST",
             description = "Replace a default prior, e.g. level=normal(0,2.5) or group_sd=half-normal(0.5). Names: " + Priors.NAMES + ".")
@@ -39,7 +48,13 @@ final class SamplingOptions {
         for (String assignment : priors) {
             p = p.with(assignment);
         }
-        return new ModelSpec(ThresholdMode.parse(thresholds), p);
+        StyleClasses classes;
+        switch (styleClasses) {
+            case "coarse": classes = StyleClasses.coarse(coarsePoints); break;
+            case "none": classes = StyleClasses.none(); break;
+            default: throw new IllegalArgumentException("--style-classes must be 'coarse' or 'none', got '" + styleClasses + "'");
+        }
+        return new ModelSpec(ThresholdMode.parse(thresholds), p, classes);
     }
 
     SamplerSettings settings() {

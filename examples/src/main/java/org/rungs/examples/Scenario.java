@@ -4,15 +4,18 @@ import java.util.Arrays;
 import java.util.HashSet;
 import java.util.List;
 import java.util.Set;
+import java.util.stream.IntStream;
 
 /**
  * The true model behind a simulated survey: MODEL.md sections 2 (latent level) and 3
- * (thresholds), with every value on the user's scale (coefficients per unit of the raw
+ * (thresholds), optionally with the response style classes and number attraction of section 4,
+ * with every value on the user's scale (coefficients per unit of the raw
  * covariate, intercepts at raw covariates equal to zero).
  *
  * <p>{@code seed} fixes the parameters that a scenario draws rather than states (the group
  * levels {@code u[g]} of {@link GroupLevels.Drawn}, the threshold deviations of
- * {@link ThresholdDeviations.Drawn}); the respondents come from the seed given to
+ * {@link ThresholdDeviations.Drawn}, the style intercepts and attraction deviations when drawn);
+ * the respondents come from the seed given to
  * {@link Simulator#simulate(Scenario, long)}, so one scenario yields many data sets with the
  * same truth.
  *
@@ -22,17 +25,27 @@ import java.util.Set;
  * @param groupLevels the group intercepts {@code alpha[g]}
  * @param thresholds the common thresholds {@code c[1..M-1]}: increasing and summing to zero
  * @param thresholdDeviations the group deviations {@code d[g,.]}
+ * @param styleClasses the coarse-responder class of MODEL.md 4 and 4a, or {@link StyleClasses#none()}
+ * @param attraction the number attraction of MODEL.md 4b, or {@link NumberAttraction#none()}
  * @param seed the seed of the drawn parameters
  */
 public record Scenario(Scale scale, List<Group> groups, List<LevelCovariate> levelCovariates,
                        GroupLevels groupLevels, double[] thresholds,
-                       ThresholdDeviations thresholdDeviations, long seed) {
+                       ThresholdDeviations thresholdDeviations, StyleClasses styleClasses,
+                       NumberAttraction attraction, long seed) {
 
     /** Largest absolute sum accepted as zero for thresholds and deviations. */
     static final double SUM_TOLERANCE = 1e-9;
 
     /** Column names that the written survey file already uses. */
     private static final Set<String> RESERVED = Set.of(SimulatedSurvey.GROUP_COLUMN, SimulatedSurvey.RATING_COLUMN);
+
+    /** The plain hierarchical ordered probit: no coarse class, no number attraction. */
+    public Scenario(Scale scale, List<Group> groups, List<LevelCovariate> levelCovariates, GroupLevels groupLevels,
+                    double[] thresholds, ThresholdDeviations thresholdDeviations, long seed) {
+        this(scale, groups, levelCovariates, groupLevels, thresholds, thresholdDeviations, StyleClasses.none(),
+                NumberAttraction.none(), seed);
+    }
 
     public Scenario {
         groups = List.copyOf(groups);
@@ -68,11 +81,26 @@ public record Scenario(Scale scale, List<Group> groups, List<LevelCovariate> lev
         if (thresholdDeviations instanceof ThresholdDeviations.Fixed fixed) {
             checkDeviations(thresholds, fixed.deviations(), groups);
         }
+        checkStyle(scale, styleClasses, levelCovariates, groups);
+        checkAttraction(scale, attraction, attractionSet(scale, styleClasses, attraction), groups);
     }
 
     @Override
     public double[] thresholds() {
         return thresholds.clone();
+    }
+
+    /** The coarse points of MODEL.md 4a, increasing: as stated, else {@code {L, floor((L+U)/2), U}}. */
+    public int[] coarsePoints() {
+        return coarsePoints(scale, styleClasses);
+    }
+
+    /**
+     * The attraction set A of MODEL.md 4b: as stated, else increasing; the mean attractions and
+     * stated deviations follow this order. Empty without attraction.
+     */
+    public int[] attractionSet() {
+        return attractionSet(scale, styleClasses, attraction);
     }
 
     /** Number of groups G. */
@@ -89,6 +117,97 @@ public record Scenario(Scale scale, List<Group> groups, List<LevelCovariate> lev
     public static double[] centred(double... values) {
         double mean = Arrays.stream(values).average().orElse(0);
         return Arrays.stream(values).map(v -> v - mean).toArray();
+    }
+
+    private static int[] coarsePoints(Scale scale, StyleClasses styleClasses) {
+        if (styleClasses instanceof StyleClasses.Coarse coarse && coarse.coarsePoints().length > 0) {
+            return IntStream.of(coarse.coarsePoints()).sorted().toArray();
+        }
+        int lowest = scale.lowest();
+        int highest = scale.highest();
+        return IntStream.of(lowest, Math.floorDiv(lowest + highest, 2), highest).distinct().toArray();
+    }
+
+    private static int[] attractionSet(Scale scale, StyleClasses styleClasses, NumberAttraction attraction) {
+        if (!(attraction instanceof NumberAttraction.Active active)) {
+            return new int[0];
+        }
+        if (active.attractionSet().length > 0) {
+            return active.attractionSet();
+        }
+        // MODEL.md 4b: by default every number but the coarse points, which are the reference.
+        Set<Integer> coarse = new HashSet<>();
+        for (int point : coarsePoints(scale, styleClasses)) {
+            coarse.add(point);
+        }
+        return IntStream.rangeClosed(scale.lowest(), scale.highest()).filter(j -> !coarse.contains(j)).toArray();
+    }
+
+    private static void checkStyle(Scale scale, StyleClasses styleClasses, List<LevelCovariate> levelCovariates,
+                                   List<Group> groups) {
+        if (!(styleClasses instanceof StyleClasses.Coarse coarse)) {
+            return;
+        }
+        int[] points = coarse.coarsePoints();
+        if (IntStream.of(points).anyMatch(j -> j < scale.lowest() || j > scale.highest())
+                || IntStream.of(points).distinct().count() != points.length) {
+            throw new IllegalArgumentException("coarse points must be distinct numbers of the scale: " + Arrays.toString(points));
+        }
+        if (coarse.intercepts() instanceof GroupLevels.Fixed fixed && fixed.alpha().length != groups.size()) {
+            throw new IllegalArgumentException("there are " + groups.size() + " groups but " + fixed.alpha().length
+                    + " style intercepts");
+        }
+        if (groups.size() == 1 && !(coarse.intercepts() instanceof GroupLevels.Fixed)) {
+            // MODEL.md section 5: with one group gamma reduces to mu_gamma.
+            throw new IllegalArgumentException("one group needs a fixed style intercept");
+        }
+        Set<String> names = new HashSet<>(RESERVED);
+        Set<String> labels = new HashSet<>();
+        groups.forEach(group -> labels.add(group.label()));
+        for (StyleCovariate covariate : coarse.covariates()) {
+            if (!names.add(covariate.name()) || labels.contains(covariate.name())) {
+                // style.<name> and style.<label> share one name space.
+                throw new IllegalArgumentException("style covariate name " + covariate.name()
+                        + " is used twice, reserved or a group label");
+            }
+            for (LevelCovariate level : levelCovariates) {
+                if (level.name().equals(covariate.name()) && !(covariate instanceof StyleCovariate.Numeric numeric
+                        && numeric.distribution().equals(level.distribution()) && numeric.decimals() == level.decimals())) {
+                    throw new IllegalArgumentException("style covariate " + covariate.name()
+                            + " shares its column with a level covariate, so it needs the same distribution and decimals");
+                }
+            }
+        }
+    }
+
+    private static void checkAttraction(Scale scale, NumberAttraction attraction, int[] attractionSet, List<Group> groups) {
+        if (!(attraction instanceof NumberAttraction.Active active)) {
+            return;
+        }
+        if (attractionSet.length == 0) {
+            throw new IllegalArgumentException("the attraction set is empty");
+        }
+        int[] stated = active.attractionSet();
+        if (IntStream.of(stated).distinct().count() != stated.length
+                || IntStream.of(stated).anyMatch(j -> j < scale.lowest() || j > scale.highest())) {
+            throw new IllegalArgumentException("the attraction set must be distinct numbers of the scale: " + Arrays.toString(stated));
+        }
+        if (active.meanAttraction().length != attractionSet.length) {
+            throw new IllegalArgumentException("the attraction set " + Arrays.toString(attractionSet) + " needs "
+                    + attractionSet.length + " mean attractions, got " + active.meanAttraction().length);
+        }
+        AttractionDeviations deviations = active.deviations();
+        if (groups.size() == 1 && !(deviations instanceof AttractionDeviations.None)) {
+            // MODEL.md section 5: with one group a reduces to abar.
+            throw new IllegalArgumentException("one group has no attraction deviations");
+        }
+        if (deviations instanceof AttractionDeviations.Fixed fixed) {
+            double[][] t = fixed.deviations();
+            if (t.length != groups.size() || Arrays.stream(t).anyMatch(row -> row.length != attractionSet.length)) {
+                throw new IllegalArgumentException("stated attraction deviations need " + groups.size() + " rows of "
+                        + attractionSet.length);
+            }
+        }
     }
 
     private static void checkThresholds(Scale scale, double[] thresholds) {
@@ -169,7 +288,7 @@ public record Scenario(Scale scale, List<Group> groups, List<LevelCovariate> lev
         }
     }
 
-    /** The group intercepts {@code alpha[g]} of MODEL.md section 2. */
+    /** Group intercepts: {@code alpha[g]} of MODEL.md section 2, and {@code gamma[g]} of section 4. */
     public sealed interface GroupLevels {
 
         /** Stated intercepts, one per group, on the user's scale. */
@@ -230,6 +349,191 @@ public record Scenario(Scale scale, List<Group> groups, List<LevelCovariate> lev
                 if (!(sd > 0) || !Double.isFinite(sd)) {
                     throw new IllegalArgumentException("drawn deviations need sd > 0, got " + sd);
                 }
+            }
+        }
+    }
+
+    /** The response style classes of MODEL.md 4: mode none, or a coarse class. */
+    public sealed interface StyleClasses {
+
+        /** Mode {@code none}: every respondent answers on the full scale. */
+        static StyleClasses none() {
+            return new None();
+        }
+
+        /** Every {@code z_i = full}. */
+        record None() implements StyleClasses {
+        }
+
+        /**
+         * {@code P(z_i = coarse) = Phi(gamma[g_i] + w_i' delta)} (MODEL.md 4).
+         *
+         * @param covariates the style covariates w with their effects, on the user's scale
+         * @param intercepts {@code gamma[g]} at raw numeric covariates 0 and every categorical
+         *     covariate at a level of effect 0: stated, or {@code mu_gamma + tau_gamma v[g]} drawn
+         * @param coarsePoints the points coarse responders report (MODEL.md 4a); empty for the
+         *     default {@code {L, floor((L+U)/2), U}}
+         */
+        record Coarse(List<StyleCovariate> covariates, GroupLevels intercepts, int[] coarsePoints) implements StyleClasses {
+            public Coarse {
+                covariates = List.copyOf(covariates);
+                coarsePoints = coarsePoints.clone();
+            }
+
+            /** With the default coarse points. */
+            public Coarse(List<StyleCovariate> covariates, GroupLevels intercepts) {
+                this(covariates, intercepts, new int[0]);
+            }
+
+            @Override
+            public int[] coarsePoints() {
+                return coarsePoints.clone();
+            }
+        }
+    }
+
+    /** A covariate of the response style (MODEL.md 1, {@code w_i}). */
+    public sealed interface StyleCovariate {
+
+        /** Column name in the file. */
+        String name();
+
+        /**
+         * A numeric style covariate, effect per unit of the raw value. A level covariate of the
+         * same name (same distribution and decimals) is the same column: one value per respondent.
+         */
+        record Numeric(String name, CovariateDistribution distribution, double perUnitEffect, int decimals)
+                implements StyleCovariate {
+            public Numeric {
+                checkName(name, "covariate name");
+                if (!Double.isFinite(perUnitEffect) || decimals < 0 || decimals > 9) {
+                    throw new IllegalArgumentException("covariate " + name + " needs a finite effect and 0..9 decimals");
+                }
+            }
+
+            /** The column of a level covariate, with its own effect on the style. */
+            public static Numeric sharing(LevelCovariate level, double perUnitEffect) {
+                return new Numeric(level.name(), level.distribution(), perUnitEffect, level.decimals());
+            }
+        }
+
+        /**
+         * A categorical style covariate written as text. {@code reference} is the level the
+         * indicators are taken against; null for the most frequent in the data (ties to the first
+         * to appear), as the engine chooses.
+         */
+        record Categorical(String name, List<Category> categories, String reference) implements StyleCovariate {
+            public Categorical {
+                checkName(name, "covariate name");
+                categories = List.copyOf(categories);
+                Set<String> labels = new HashSet<>();
+                double shares = 0;
+                for (Category category : categories) {
+                    if (!labels.add(category.label())) {
+                        throw new IllegalArgumentException("level " + category.label() + " of " + name + " is used twice");
+                    }
+                    shares += category.share();
+                }
+                if (categories.size() < 2 || Math.abs(shares - 1) > SUM_TOLERANCE) {
+                    throw new IllegalArgumentException("covariate " + name + " needs at least two levels whose shares sum to 1");
+                }
+                if (reference != null && !labels.contains(reference)) {
+                    throw new IllegalArgumentException("reference " + reference + " is not a level of " + name);
+                }
+            }
+        }
+
+        /** A level of a categorical covariate: its share of respondents and its effect on the probit of coarse. */
+        record Category(String label, double share, double effect) {
+            public Category {
+                checkName(label, "level");
+                if (!(share > 0) || share > 1 || !Double.isFinite(effect)) {
+                    throw new IllegalArgumentException("level " + label + " needs a share in (0, 1] and a finite effect");
+                }
+            }
+        }
+    }
+
+    /** The number attraction of MODEL.md 4b: off, or active on a set A. */
+    public sealed interface NumberAttraction {
+
+        /** Mode {@code none}: {@code a = 0} everywhere. */
+        static NumberAttraction none() {
+            return new None();
+        }
+
+        /** {@code a = 0}. */
+        record None() implements NumberAttraction {
+        }
+
+        /**
+         * {@code a[g,j] = abar[j] + t[g,j]} for j in A, 0 elsewhere.
+         *
+         * @param attractionSet A; empty for the default, every number but the coarse points in
+         *     increasing order
+         * @param meanAttraction {@code abar[j]} for the numbers of A in their order
+         * @param deviations {@code t[g,.]}
+         */
+        record Active(int[] attractionSet, double[] meanAttraction, AttractionDeviations deviations)
+                implements NumberAttraction {
+            public Active {
+                attractionSet = attractionSet.clone();
+                meanAttraction = meanAttraction.clone();
+                if (Arrays.stream(meanAttraction).anyMatch(a -> !Double.isFinite(a))) {
+                    throw new IllegalArgumentException("mean attractions must be finite: " + Arrays.toString(meanAttraction));
+                }
+            }
+
+            /** On the default set A. */
+            public Active(double[] meanAttraction, AttractionDeviations deviations) {
+                this(new int[0], meanAttraction, deviations);
+            }
+
+            @Override
+            public int[] attractionSet() {
+                return attractionSet.clone();
+            }
+
+            @Override
+            public double[] meanAttraction() {
+                return meanAttraction.clone();
+            }
+        }
+    }
+
+    /** The group deviations {@code t[g,j]} of MODEL.md 4b. */
+    public sealed interface AttractionDeviations {
+
+        /** {@code t = 0}: every group has {@code abar}; the only choice with one group. */
+        static AttractionDeviations none() {
+            return new None();
+        }
+
+        /** {@code t = 0}. */
+        record None() implements AttractionDeviations {
+        }
+
+        /** {@code t[g,j] ~ Normal(0, sd)} drawn with the scenario's seed. */
+        record Drawn(double sd) implements AttractionDeviations {
+            public Drawn {
+                if (!(sd > 0) || !Double.isFinite(sd)) {
+                    throw new IllegalArgumentException("drawn attraction deviations need sd > 0, got " + sd);
+                }
+            }
+        }
+
+        /** Stated deviations, a row per group, a column per number of A in its order. */
+        record Fixed(double[][] deviations) implements AttractionDeviations {
+            public Fixed {
+                deviations = Arrays.stream(deviations).map(double[]::clone).toArray(double[][]::new);
+                if (Arrays.stream(deviations).flatMapToDouble(Arrays::stream).anyMatch(t -> !Double.isFinite(t))) {
+                    throw new IllegalArgumentException("attraction deviations must be finite");
+                }
+            }
+
+            @Override
+            public double[][] deviations() {
+                return Arrays.stream(deviations).map(double[]::clone).toArray(double[][]::new);
             }
         }
     }

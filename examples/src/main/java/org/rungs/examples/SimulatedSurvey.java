@@ -7,11 +7,15 @@ import java.math.RoundingMode;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.util.ArrayList;
 import java.util.Collections;
 import java.util.List;
 import java.util.Map;
 
-/** A survey drawn by {@link Simulator}: primitive columns, one row per respondent, and the true parameters. */
+/**
+ * A survey drawn by {@link Simulator}: primitive columns, one row per respondent, the latent
+ * style classes and the true parameters.
+ */
 public final class SimulatedSurvey {
 
     /** Name of the group column in the written file. */
@@ -23,14 +27,24 @@ public final class SimulatedSurvey {
     private final Scenario scenario;
     private final int[] group;
     private final int[] rating;
-    private final double[][] covariates;
+    private final Map<String, double[]> numericColumns;
+    private final Map<String, int[]> categoricalColumns;
+    private final Map<String, String> referenceLevels;
+    private final boolean[] coarse;
+    private final double[] coarseProbability;
     private final Map<String, Double> truth;
 
-    SimulatedSurvey(Scenario scenario, int[] group, int[] rating, double[][] covariates, Map<String, Double> truth) {
+    SimulatedSurvey(Scenario scenario, int[] group, int[] rating, Map<String, double[]> numericColumns,
+                    Map<String, int[]> categoricalColumns, Map<String, String> referenceLevels, boolean[] coarse,
+                    double[] coarseProbability, Map<String, Double> truth) {
         this.scenario = scenario;
         this.group = group;
         this.rating = rating;
-        this.covariates = covariates;
+        this.numericColumns = numericColumns;
+        this.categoricalColumns = categoricalColumns;
+        this.referenceLevels = Collections.unmodifiableMap(referenceLevels);
+        this.coarse = coarse;
+        this.coarseProbability = coarseProbability;
         this.truth = Collections.unmodifiableMap(truth);
     }
 
@@ -69,13 +83,52 @@ public final class SimulatedSurvey {
         return scenario.levelCovariates().stream().map(Scenario.LevelCovariate::name).toList();
     }
 
-    /** Raw values of one level covariate, on the user's scale. */
+    /** Names of the style covariates, in the scenario's order (some may also be level covariates). */
+    public List<String> styleCovariateNames() {
+        return scenario.styleClasses() instanceof Scenario.StyleClasses.Coarse style
+                ? style.covariates().stream().map(Scenario.StyleCovariate::name).toList() : List.of();
+    }
+
+    /**
+     * The reference level of each categorical style covariate, as the truth's indicator names
+     * use it (stated, or the most frequent); a fit naming these references gives draws of the
+     * same names.
+     */
+    public Map<String, String> referenceLevels() {
+        return referenceLevels;
+    }
+
+    /** Raw values of a numeric level or style covariate, on the user's scale. */
     public double[] covariate(String name) {
-        int j = covariateNames().indexOf(name);
-        if (j < 0) {
-            throw new IllegalArgumentException("no covariate named " + name + "; there are " + covariateNames());
+        double[] column = numericColumns.get(name);
+        if (column == null) {
+            throw new IllegalArgumentException("no numeric covariate named " + name + "; there are " + numericColumns.keySet());
         }
-        return covariates[j].clone();
+        return column.clone();
+    }
+
+    /** Level label of each row of a categorical style covariate. */
+    public String[] category(String name) {
+        int[] codes = categoricalColumns.get(name);
+        if (codes == null) {
+            throw new IllegalArgumentException("no categorical covariate named " + name + "; there are " + categoricalColumns.keySet());
+        }
+        List<Scenario.StyleCovariate.Category> levels = categorical(name).categories();
+        String[] labels = new String[codes.length];
+        for (int row = 0; row < codes.length; row++) {
+            labels[row] = levels.get(codes[row]).label();
+        }
+        return labels;
+    }
+
+    /** Whether each row's respondent is in the coarse class (latent, MODEL.md 4); all false without style classes. */
+    public boolean[] coarse() {
+        return coarse.clone();
+    }
+
+    /** True {@code q_i = Phi(gamma[g_i] + w_i' delta)} of each row (MODEL.md 4c); all 0 without style classes. */
+    public double[] coarseProbability() {
+        return coarseProbability.clone();
     }
 
     /** True parameter values under the engine's draw names, on its internal scale (see {@link Simulator}). */
@@ -83,23 +136,40 @@ public final class SimulatedSurvey {
         return truth;
     }
 
-    /** Writes {@code region,rating,<covariates>}, one row per respondent. */
+    /**
+     * Writes {@code region,rating,<level covariates>,<other style covariates>}, one row per
+     * respondent; categorical columns as their level labels.
+     */
     public void writeCsv(Path file) throws IOException {
-        List<Scenario.LevelCovariate> columns = scenario.levelCovariates();
+        List<String> columns = new ArrayList<>(covariateNames());
+        styleCovariateNames().stream().filter(name -> !columns.contains(name)).forEach(columns::add);
+        int[] decimals = new int[columns.size()];
+        for (int j = 0; j < columns.size(); j++) {
+            decimals[j] = decimals(columns.get(j));
+        }
         try (BufferedWriter out = Files.newBufferedWriter(file, StandardCharsets.UTF_8)) {
             out.write(GROUP_COLUMN + "," + RATING_COLUMN);
-            for (Scenario.LevelCovariate column : columns) {
-                out.write("," + column.name());
+            for (String column : columns) {
+                out.write("," + column);
             }
             out.write('\n');
+            String[][] labels = new String[columns.size()][];
+            for (int j = 0; j < columns.size(); j++) {
+                labels[j] = categoricalColumns.containsKey(columns.get(j)) ? category(columns.get(j)) : null;
+            }
             for (int row = 0; row < rating.length; row++) {
                 out.write(groupLabel(row));
                 out.write(',');
                 out.write(Integer.toString(rating[row]));
                 for (int j = 0; j < columns.size(); j++) {
                     out.write(',');
-                    // Plain decimals at the column's rounding, which parse back to the same double.
-                    out.write(BigDecimal.valueOf(covariates[j][row]).setScale(columns.get(j).decimals(), RoundingMode.HALF_UP).toPlainString());
+                    if (labels[j] != null) {
+                        out.write(labels[j][row]);
+                    } else {
+                        // Plain decimals at the column's rounding, which parse back to the same double.
+                        out.write(BigDecimal.valueOf(numericColumns.get(columns.get(j))[row]).setScale(decimals[j], RoundingMode.HALF_UP)
+                                .toPlainString());
+                    }
                 }
                 out.write('\n');
             }
@@ -116,5 +186,26 @@ public final class SimulatedSurvey {
                 out.write('\n');
             }
         }
+    }
+
+    /** Decimals of a numeric column; 0 for a categorical one. */
+    private int decimals(String name) {
+        for (Scenario.LevelCovariate level : scenario.levelCovariates()) {
+            if (level.name().equals(name)) {
+                return level.decimals();
+            }
+        }
+        for (Scenario.StyleCovariate style : ((Scenario.StyleClasses.Coarse) scenario.styleClasses()).covariates()) {
+            if (style.name().equals(name) && style instanceof Scenario.StyleCovariate.Numeric numeric) {
+                return numeric.decimals();
+            }
+        }
+        return 0;
+    }
+
+    private Scenario.StyleCovariate.Categorical categorical(String name) {
+        return ((Scenario.StyleClasses.Coarse) scenario.styleClasses()).covariates().stream()
+                .filter(c -> c.name().equals(name)).map(Scenario.StyleCovariate.Categorical.class::cast)
+                .findFirst().orElseThrow();
     }
 }

@@ -49,6 +49,8 @@ class SimulatorTest {
         assertArrayEquals(first.rating(), again.rating());
         assertArrayEquals(first.covariate("income"), again.covariate("income"));
         assertArrayEquals(first.covariate("age"), again.covariate("age"));
+        assertArrayEquals(first.category("education"), again.category("education"));
+        assertArrayEquals(first.coarse(), again.coarse());
         assertEquals(first.truth(), again.truth());
     }
 
@@ -56,6 +58,7 @@ class SimulatorTest {
     void dataSeedChangesRespondentsButNotDrawnParameters() {
         SimulatedSurvey one = Simulator.simulate(DemoScenario.scenario(), 1);
         SimulatedSurvey two = Simulator.simulate(DemoScenario.scenario(), 2);
+        assertFalse(Arrays.equals(one.coarse(), two.coarse()));
         assertFalse(Arrays.equals(one.rating(), two.rating()));
         assertFalse(Arrays.equals(one.covariate("income"), two.covariate("income")));
         for (String label : one.groupLabels()) {
@@ -63,12 +66,13 @@ class SimulatorTest {
                 String name = "threshold." + label + "." + k;
                 assertEquals(one.truth().get(name), two.truth().get(name), name);
             }
+            assertEquals(one.truth().get("style." + label), two.truth().get("style." + label));
         }
     }
 
     @Test
     void reportedRatingsFollowTheModelsCategoryProbabilities() {
-        SimulatedSurvey survey = Simulator.simulate(DemoScenario.scenario());
+        SimulatedSurvey survey = Simulator.simulate(DemoScenario.orderedProbit());
         // With a correct simulator the p-value is uniform, or larger: for a sum of categorical
         // draws with unequal probabilities the Pearson statistic is at most multinomially
         // spread. The seed is fixed, so at alpha = 0.001 a correct simulator fails with
@@ -79,8 +83,8 @@ class SimulatorTest {
     @Test
     void theCategoryCheckDetectsIgnoredThresholdDeviations() {
         // Negative control for the check above: the demo's deviations (tau_d = 0.15 over
-        // 1,200 respondents per region) must be visible when the expected counts leave them out.
-        SimulatedSurvey survey = Simulator.simulate(DemoScenario.scenario());
+        // 1,500 respondents per region) must be visible when the expected counts leave them out.
+        SimulatedSurvey survey = Simulator.simulate(DemoScenario.orderedProbit());
         assertTrue(chiSquarePValue(survey, false) < 1e-6);
     }
 
@@ -92,11 +96,12 @@ class SimulatorTest {
 
     @Test
     void truthUsesTheEngineNames() {
-        SimulatedSurvey survey = Simulator.simulate(DemoScenario.scenario());
+        SimulatedSurvey survey = Simulator.simulate(DemoScenario.orderedProbit());
         Set<String> expected = new HashSet<>(List.of("level.income", "level.income.per_unit", "level.age",
                 "level.age.per_unit", "group_mean", "group_sd", "threshold_sd"));
         for (String region : DemoScenario.REGIONS) {
             expected.add("group." + region);
+            expected.addAll(derivedNames(region, false));
             for (int k = 1; k <= 10; k++) {
                 expected.add("threshold." + region + "." + k);
             }
@@ -179,8 +184,11 @@ class SimulatorTest {
                 new Scenario.GroupLevels.Fixed(new double[] {0, 1}), Scenario.centred(-1, 0, 1),
                 Scenario.ThresholdDeviations.shared(), 3L);
         Map<String, Double> truth = Simulator.simulate(shared, 1).truth();
-        assertEquals(Set.of("group_mean", "group_sd", "group.A", "group.B", "threshold.2", "threshold.3", "threshold.4"),
-                truth.keySet());
+        Set<String> expected = new HashSet<>(Set.of("group_mean", "group_sd", "group.A", "group.B", "threshold.2",
+                "threshold.3", "threshold.4"));
+        expected.addAll(derivedNames("A", false));
+        expected.addAll(derivedNames("B", false));
+        assertEquals(expected, truth.keySet());
         assertEquals(1.0, truth.get("group.B"));
     }
 
@@ -191,8 +199,9 @@ class SimulatorTest {
                 new Scenario.GroupLevels.Fixed(new double[] {0.5}), Scenario.centred(-1, 1),
                 Scenario.ThresholdDeviations.shared(), 3L);
         SimulatedSurvey survey = Simulator.simulate(single, 2);
-        assertEquals(Set.of("level.x", "level.x.per_unit", "group_mean", "threshold.1", "threshold.2"),
-                survey.truth().keySet());
+        Set<String> expected = new HashSet<>(Set.of("level.x", "level.x.per_unit", "group_mean", "threshold.1", "threshold.2"));
+        expected.addAll(derivedNames("all", false));
+        assertEquals(expected, survey.truth().keySet());
         assertEquals(0.5 + StatUtils.mean(survey.covariate("x")), survey.truth().get("group_mean"), 1e-12);
     }
 
@@ -259,6 +268,15 @@ class SimulatorTest {
         assertEquals(survey.truth(), read);
     }
 
+    /** The derived truths of MODEL.md section 6 for one group. */
+    static List<String> derivedNames(String label, boolean styleClasses) {
+        List<String> names = new ArrayList<>(List.of("intended_mean." + label, "harmonised_mean." + label, "reported_mean." + label));
+        if (styleClasses) {
+            names.add("coarse_share." + label);
+        }
+        return names;
+    }
+
     /**
      * Pearson chi-square of the observed rating counts per group against the expected counts
      * {@code sum_i Phi(c[g,k] - eta_i) - Phi(c[g,k-1] - eta_i)} (MODEL.md section 3), summed over
@@ -316,7 +334,7 @@ class SimulatorTest {
     }
 
     /** Adjacent cells merged until each expects at least 5; a short remainder joins the last cell. */
-    private static List<double[]> pooled(double[] expected, long[] observed) {
+    static List<double[]> pooled(double[] expected, long[] observed) {
         List<double[]> cells = new ArrayList<>();
         double e = 0;
         long o = 0;

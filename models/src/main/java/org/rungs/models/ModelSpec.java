@@ -3,10 +3,15 @@ package org.rungs.models;
 import org.rungs.priors.Priors;
 
 /**
- * What is fitted: the threshold mode and the priors. The response-style class and number
- * attraction (MODEL.md 4) are off in this model.
+ * What is fitted: the threshold mode, the response-style classes (MODEL.md 4) and the priors.
+ * Number attraction (MODEL.md 4b) is not yet part of the model.
  */
-public record ModelSpec(ThresholdMode thresholdMode, Priors priors) {
+public record ModelSpec(ThresholdMode thresholdMode, Priors priors, StyleClasses styleClasses) {
+
+    /** The plain hierarchical ordered probit (style classes off). */
+    public ModelSpec(ThresholdMode thresholdMode, Priors priors) {
+        this(thresholdMode, priors, StyleClasses.none());
+    }
 
     public static ModelSpec defaults() {
         return new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults());
@@ -15,5 +20,10 @@ public record ModelSpec(ThresholdMode thresholdMode, Priors priors) {
     /** The mode actually used for a survey: group deviations need at least two groups. */
     public ThresholdMode effectiveThresholdMode(int groupCount) {
         return groupCount > 1 ? thresholdMode : ThresholdMode.SHARED;
+    }
+
+    /** The same model with other style classes. */
+    public ModelSpec withStyleClasses(StyleClasses classes) {
+        return new ModelSpec(thresholdMode, priors, classes);
     }
 }

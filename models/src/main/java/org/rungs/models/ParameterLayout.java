@@ -24,10 +24,15 @@ public final class ParameterLayout {
     private final int thresholdOffset;
     private final int thresholdSdIndex;
     private final int groupThresholdOffset;
+    private final int styleOffset;
+    private final int styleCount;
+    private final int styleMeanIndex;
+    private final int styleSdIndex;
+    private final int styleGroupOffset;
     private final int perUnitOffset;
     private final int[] perUnitColumns;
 
-    private ParameterLayout(Survey survey, ThresholdMode mode) {
+    private ParameterLayout(Survey survey, ThresholdMode mode, boolean coarseClass) {
         List<String> n = new ArrayList<>();
         Covariates level = survey.level();
         Scale scale = survey.scale();
@@ -67,6 +72,32 @@ public final class ParameterLayout {
             thresholdSdIndex = -1;
             groupThresholdOffset = -1;
         }
+        styleOffset = n.size();
+        if (coarseClass) {
+            Covariates style = survey.style();
+            styleCount = style.count();
+            for (int j = 0; j < styleCount; j++) {
+                n.add("style." + style.name(j));
+            }
+            styleMeanIndex = n.size();
+            n.add("style_mean");
+            if (groups > 1) {
+                styleSdIndex = n.size();
+                n.add("style_sd");
+                styleGroupOffset = n.size();
+                for (String label : survey.groupLabels()) {
+                    n.add("style_group." + label);
+                }
+            } else {
+                styleSdIndex = -1;
+                styleGroupOffset = -1;
+            }
+        } else {
+            styleCount = 0;
+            styleMeanIndex = -1;
+            styleSdIndex = -1;
+            styleGroupOffset = -1;
+        }
         perUnitOffset = n.size();
         List<Integer> numeric = new ArrayList<>();
         for (int j = 0; j < levelCount; j++) {
@@ -80,7 +111,7 @@ public final class ParameterLayout {
     }
 
     public static ParameterLayout of(Survey survey, ModelSpec spec) {
-        return new ParameterLayout(survey, spec.effectiveThresholdMode(survey.groupCount()));
+        return new ParameterLayout(survey, spec.effectiveThresholdMode(survey.groupCount()), spec.styleClasses().coarse());
     }
 
     public List<String> names() {
@@ -125,6 +156,30 @@ public final class ParameterLayout {
     /** -1 unless thresholds vary by group; group g's k-th threshold is at offset + g*(M-1) + k-1. */
     public int groupThresholdOffset() {
         return groupThresholdOffset;
+    }
+
+    /** Offset of the style coefficients delta (coarse class on). */
+    public int styleOffset() {
+        return styleOffset;
+    }
+
+    public int styleCount() {
+        return styleCount;
+    }
+
+    /** -1 unless the coarse class is on. */
+    public int styleMeanIndex() {
+        return styleMeanIndex;
+    }
+
+    /** -1 unless the coarse class is on and there are several groups. */
+    public int styleSdIndex() {
+        return styleSdIndex;
+    }
+
+    /** -1 unless the coarse class is on and there are several groups. */
+    public int styleGroupOffset() {
+        return styleGroupOffset;
     }
 
     public int perUnitOffset() {

@@ -143,6 +143,21 @@ public final class StandardNormal {
     }
 
     /**
+     * Phi(upper) - Phi(lower) for lower <= upper, taken on the side where the interval lies so that
+     * nothing cancels: upper tails when lower > 0, lower tails when upper < 0. Underflows to 0
+     * beyond about 38 sd; use {@link #logIntervalProbability} where that matters.
+     */
+    public static double intervalProbability(double lower, double upper) {
+        if (lower > 0) {
+            return upperTail(lower) - upperTail(upper);
+        }
+        if (upper < 0) {
+            return cdf(upper) - cdf(lower);
+        }
+        return 1 - cdf(lower) - upperTail(upper);
+    }
+
+    /**
      * log(Phi(upper) - Phi(lower)) for lower < upper, either possibly infinite. An interval in one
      * tail is measured from that tail, log Q(l) + log(1 - Q(u)/Q(l)), so it keeps full relative
      * accuracy far out; an interval touching the centre is the difference of the two offsets

@@ -30,7 +30,6 @@ public final class Fitter {
                                 ProgressListener progress, AtomicBoolean stop) {
         ParameterLayout layout = ParameterLayout.of(survey, spec);
         SurveyOrder order = SurveyOrder.of(survey);
-        DesignSums sums = DesignSums.of(order.survey());
         boolean byGroup = spec.effectiveThresholdMode(survey.groupCount()) == ThresholdMode.BY_GROUP;
         Draws draws = new Draws(layout.names(), settings.chains(), settings.draws());
         int[] kept = new int[settings.chains()];
@@ -47,7 +46,7 @@ public final class Fitter {
                 int chain = c;
                 futures.add(pool.submit(() -> {
                     UniformRandomProvider rng = ChainSeeds.stream(settings.seed(), chain);
-                    Chain run = Chain.of(order, spec, sums, byGroup, rng);
+                    Chain run = Chain.of(order, spec, byGroup, rng);
                     kept[chain] = run.run(chain, settings, layout, draws, progress, stop);
                     acceptance[chain] = run.thresholdAcceptance();
                 }));

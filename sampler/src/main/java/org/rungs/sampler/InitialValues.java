@@ -12,7 +12,11 @@ final class InitialValues {
     private InitialValues() {
     }
 
-    static void apply(ChainState s, UniformRandomProvider rng) {
+    /**
+     * @param styleMean centre of the coarse-class intercepts (the prior mean of mu_gamma); every
+     *                  respondent starts in the full-scale class
+     */
+    static void apply(ChainState s, double styleMean, UniformRandomProvider rng) {
         int m = s.categories;
         long[] counts = new long[m];
         for (int i = 0; i < s.size; i++) {
@@ -40,15 +44,23 @@ final class InitialValues {
             s.common[k] -= mean;
         }
         s.shareCommonThresholds();
-        s.groupMean = -mean + uniform(rng, -0.5, 0.5);
-        s.groupSd = Math.exp(uniform(rng, Math.log(0.1), Math.log(1.0)));
-        for (int g = 0; g < s.groups; g++) {
-            s.alpha[g] = s.groups > 1 ? s.groupMean + uniform(rng, -0.5, 0.5) : s.groupMean;
-        }
-        for (int j = 0; j < s.levelCount; j++) {
-            s.beta[j] = uniform(rng, -0.5, 0.5);
-        }
+        disperse(s.level, -mean, rng);
         s.thresholdSd = Math.exp(uniform(rng, Math.log(0.05), Math.log(0.5)));
+        if (s.style != null) {
+            disperse(s.style, styleMean, rng);
+        }
+    }
+
+    /** Intercepts, mean, spread and coefficients of a block jittered around {@code centre}. */
+    private static void disperse(RegressionBlock block, double centre, UniformRandomProvider rng) {
+        block.mean = centre + uniform(rng, -0.5, 0.5);
+        block.sd = Math.exp(uniform(rng, Math.log(0.1), Math.log(1.0)));
+        for (int g = 0; g < block.groups; g++) {
+            block.intercept[g] = block.groups > 1 ? block.mean + uniform(rng, -0.5, 0.5) : block.mean;
+        }
+        for (int j = 0; j < block.count; j++) {
+            block.coefficient[j] = uniform(rng, -0.5, 0.5);
+        }
     }
 
     private static double uniform(UniformRandomProvider rng, double low, double high) {

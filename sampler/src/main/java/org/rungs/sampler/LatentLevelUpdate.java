@@ -2,20 +2,29 @@ package org.rungs.sampler;
 
 import java.util.Arrays;
 import org.apache.commons.rng.UniformRandomProvider;
+import org.rungs.models.RoundingChannel;
+import org.rungs.priors.StandardNormal;
 
 /**
  * Draws every respondent's latent level from its full conditional, a normal with mean eta_i and
- * sd 1 truncated to the interval of the reported category (Albert & Chib 1993, section 4), and
- * keeps only the sufficient statistics the conjugate coefficient update needs: the latent sum
- * per group and the cross-products with each covariate. The latent values themselves are not
- * stored, so memory does not grow with them.
+ * sd 1 truncated to the interval of the answer it intended (Albert & Chib 1993, section 4): the
+ * reported category for a full-scale responder; for a coarse responder (MODEL.md 4a) the intended
+ * category and the level are drawn together, from the run of categories that round to the
+ * reported point, each half-weighted tie category being a separate piece. Only the sufficient
+ * statistics of the conjugate level update are kept: the latent sum per group and the
+ * cross-products with each covariate; the latent values themselves are not stored.
  */
 final class LatentLevelUpdate implements Update {
     private final ChainState state;
+    private final UniformRandomProvider rng;
     private final TruncatedNormalSampler truncatedNormal;
+    /** Bounds of the piece chosen by {@link #intendedPiece}. */
+    private double pieceLower;
+    private double pieceUpper;
 
     private LatentLevelUpdate(ChainState state, UniformRandomProvider rng) {
         this.state = state;
+        this.rng = rng;
         this.truncatedNormal = TruncatedNormalSampler.of(rng);
     }
 
@@ -26,25 +35,77 @@ final class LatentLevelUpdate implements Update {
     @Override
     public void update(boolean adapt) {
         ChainState s = state;
-        double[] sums = s.latentSumByGroup;
-        double[] cross = s.latentCross;
+        RegressionBlock level = s.level;
+        double[] sums = level.latentSum;
+        double[] cross = level.latentCross;
         Arrays.fill(sums, 0);
         Arrays.fill(cross, 0);
         double[] thresholds = s.thresholds;
         byte[] category = s.category;
+        byte[] coarse = s.coarse;
         int[] group = s.group;
-        double[][] level = s.level;
-        int p = s.levelCount;
+        double[][] columns = level.columns;
+        int p = level.count;
         int stride = s.categories + 1;
         for (int i = 0; i < s.size; i++) {
             int g = group[i];
-            double eta = s.eta(i);
+            double eta = level.linear(i, g);
             int at = g * stride + category[i];
-            double latent = eta + truncatedNormal.sample(thresholds[at] - eta, thresholds[at + 1] - eta);
+            double lower = thresholds[at];
+            double upper = thresholds[at + 1];
+            if (coarse != null && coarse[i] == 1) {
+                intendedPiece(g * stride, category[i], eta);
+                lower = pieceLower;
+                upper = pieceUpper;
+            }
+            double latent = eta + truncatedNormal.sample(lower - eta, upper - eta);
             sums[g] += latent;
             for (int j = 0; j < p; j++) {
-                cross[j] += level[j][i] * latent;
+                cross[j] += columns[j][i] * latent;
             }
+        }
+    }
+
+    /**
+     * Chooses the piece of a coarse point's pre-image that holds the intended answer: the run of
+     * full-weight categories, or a half-weight tie category below or above it, with probability
+     * proportional to its mass; sets {@link #pieceLower} and {@link #pieceUpper}.
+     */
+    private void intendedPiece(int row, int point, double eta) {
+        RoundingChannel channel = state.channel;
+        double[] t = state.thresholds;
+        int low = channel.fullLow(point);
+        int high = channel.fullHigh(point);
+        pieceLower = t[row + low];
+        pieceUpper = t[row + high + 1];
+        boolean below = channel.tieBelow(point);
+        boolean above = channel.tieAbove(point);
+        if (!below && !above) {
+            return;
+        }
+        double main = StandardNormal.intervalProbability(pieceLower - eta, pieceUpper - eta);
+        double massBelow = below ? 0.5 * StandardNormal.intervalProbability(t[row + low - 1] - eta, pieceLower - eta) : 0;
+        double massAbove = above ? 0.5 * StandardNormal.intervalProbability(pieceUpper - eta, t[row + high + 2] - eta) : 0;
+        double total = main + massBelow + massAbove;
+        double u;
+        if (total > 1e-280) {
+            u = rng.nextDouble() * total;
+        } else {
+            double logMain = StandardNormal.logIntervalProbability(pieceLower - eta, pieceUpper - eta);
+            double logBelow = below ? Math.log(0.5) + StandardNormal.logIntervalProbability(t[row + low - 1] - eta, pieceLower - eta) : Double.NEGATIVE_INFINITY;
+            double logAbove = above ? Math.log(0.5) + StandardNormal.logIntervalProbability(pieceUpper - eta, t[row + high + 2] - eta) : Double.NEGATIVE_INFINITY;
+            double max = Math.max(logMain, Math.max(logBelow, logAbove));
+            main = Math.exp(logMain - max);
+            massBelow = Math.exp(logBelow - max);
+            massAbove = Math.exp(logAbove - max);
+            u = rng.nextDouble() * (main + massBelow + massAbove);
+        }
+        if (u < massBelow) {
+            pieceUpper = pieceLower;
+            pieceLower = t[row + low - 1];
+        } else if (u < massBelow + massAbove) {
+            pieceLower = pieceUpper;
+            pieceUpper = t[row + high + 2];
         }
     }
 }

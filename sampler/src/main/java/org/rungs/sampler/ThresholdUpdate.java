@@ -2,13 +2,16 @@ package org.rungs.sampler;
 
 import org.apache.commons.rng.UniformRandomProvider;
 import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
+import org.rungs.models.ResponseLikelihood;
+import org.rungs.models.RoundingChannel;
 import org.rungs.priors.Normal;
 import org.rungs.priors.Priors;
 import org.rungs.priors.StandardNormal;
 
 /**
  * Metropolis updates of the thresholds with the latent levels integrated out (Cowles 1996,
- * section 3), one threshold at a time, so that the acceptance rate does not fall as the sample
+ * section 3), and with the coarse class and intended answer summed out when the class is on
+ * (MODEL.md 4c), one threshold at a time, so that the acceptance rate does not fall as the sample
  * grows and each step reads only the respondents of the two categories the threshold separates.
  *
  * <p>The step moves the cut-point gamma[k] = c[k] - level of one block (a group's thresholds in
@@ -44,6 +47,11 @@ final class ThresholdUpdate implements Update {
     private final int stride;
     private final int cuts;
     private final double[] logScale;
+    /**
+     * For each threshold k, the reported categories whose likelihood depends on it: k-1 and k,
+     * and the coarse points whose coarse-class probability has k as an outer boundary.
+     */
+    private final int[][] visited;
     private long accepted;
     private long tried;
     private int warmupStep;
@@ -59,6 +67,13 @@ final class ThresholdUpdate implements Update {
         this.stride = state.categories + 1;
         this.cuts = state.categories - 1;
         this.logScale = new double[blocks * cuts];
+        this.visited = new int[cuts + 1][];
+        for (int k = 1; k <= cuts; k++) {
+            int kk = k;
+            visited[k] = java.util.stream.IntStream.range(0, state.categories)
+                    .filter(j -> j == kk - 1 || j == kk || (state.channel != null && state.channel.dependsOn(j, kk)))
+                    .toArray();
+        }
         int m = state.categories;
         for (int b = 0; b < blocks; b++) {
             for (int k = 1; k <= cuts; k++) {
@@ -174,26 +189,67 @@ final class ThresholdUpdate implements Update {
      * levels: respondents of category k-1 see their upper bound move, those of category k their
      * lower bound; every other bound keeps its distance to the level.
      */
-    private double logLikelihoodChange(int b, int k, double delta) {
+    double logLikelihoodChange(int b, int k, double delta) {
         ChainState s = state;
         int m = s.categories;
         double[] thresholds = s.thresholds;
+        RoundingChannel channel = s.channel;
         double change = 0;
         for (int g = firstGroup(b); g <= lastGroup(b); g++) {
             int row = g * stride;
             double lower = thresholds[row + k - 1];
             double cut = thresholds[row + k];
             double upper = thresholds[row + k + 1];
-            for (int i = start[g * m + k - 1], end = start[g * m + k]; i < end; i++) {
-                double eta = s.eta(i);
-                change += logRatioUpperMoved(lower - eta, cut - eta, cut + delta - eta);
-            }
-            for (int i = start[g * m + k], end = start[g * m + k + 1]; i < end; i++) {
-                double eta = s.eta(i);
-                change += logRatioUpperMoved(-(upper - eta), -(cut - eta), -(cut + delta - eta));
+            for (int j : visited[k]) {
+                int from = start[g * m + j];
+                int to = start[g * m + j + 1];
+                if (channel != null && channel.isPoint(j)) {
+                    for (int i = from; i < to; i++) {
+                        change += mixtureLogRatio(row, j, s.eta(i), StandardNormal.cdf(s.style.linear(i, g)), k, delta);
+                    }
+                } else if (j == k - 1) {
+                    for (int i = from; i < to; i++) {
+                        double eta = s.eta(i);
+                        change += logRatioUpperMoved(lower - eta, cut - eta, cut + delta - eta);
+                    }
+                } else {
+                    for (int i = from; i < to; i++) {
+                        double eta = s.eta(i);
+                        change += logRatioUpperMoved(-(upper - eta), -(cut - eta), -(cut + delta - eta));
+                    }
+                }
             }
         }
         return change;
+    }
+
+    /**
+     * The change of log((1 - q) P(r = j | full) + q P(r = j | coarse)) (MODEL.md 4c, the class
+     * summed out) when boundary k moves by delta, for a respondent reporting coarse point j.
+     */
+    private double mixtureLogRatio(int row, int j, double eta, double q, int k, double delta) {
+        RoundingChannel channel = state.channel;
+        double[] t = state.thresholds;
+        double fullBefore = ResponseLikelihood.full(t, row, j, eta, -1, 0);
+        double coarseBefore = ResponseLikelihood.coarse(channel, t, row, j, eta, -1, 0);
+        double fullAfter = j == k - 1 || j == k ? ResponseLikelihood.full(t, row, j, eta, k, delta) : fullBefore;
+        double coarseAfter = channel.dependsOn(j, k) ? ResponseLikelihood.coarse(channel, t, row, j, eta, k, delta) : coarseBefore;
+        double before = (1 - q) * fullBefore + q * coarseBefore;
+        double after = (1 - q) * fullAfter + q * coarseAfter;
+        if (after > 1e-280 && before > 1e-280) {
+            return Math.log(after / before);
+        }
+        double logBefore = ResponseLikelihood.logSum(Math.log1p(-q) + ResponseLikelihood.logFull(t, row, j, eta),
+                Math.log(q) + ResponseLikelihood.logCoarse(channel, t, row, j, eta, -1, 0));
+        double logAfter = ResponseLikelihood.logSum(Math.log1p(-q) + logFullMoved(t, row, j, eta, k, delta),
+                Math.log(q) + ResponseLikelihood.logCoarse(channel, t, row, j, eta, k, delta));
+        return logAfter - logBefore;
+    }
+
+    private static double logFullMoved(double[] t, int row, int j, double eta, int k, double delta) {
+        double lower = t[row + j] + (j == k ? delta : 0);
+        double upper = t[row + j + 1] + (j + 1 == k ? delta : 0);
+        return StandardNormal.logIntervalProbability(lower - eta, upper - eta);
     }
 
     /**
@@ -240,12 +296,12 @@ final class ThresholdUpdate implements Update {
         }
         double precision = common ? commonPriorPrecision : 1.0 / (s.thresholdSd * s.thresholdSd);
         double thresholdPart = -0.5 * precision * (after - before);
-        double level = common ? s.groupMean : s.alpha[b];
+        double level = common ? s.level.mean : s.level.intercept[b];
         double shifted = level - share;
         double levelPart;
         if (!common) {
-            double from = (level - s.groupMean) / s.groupSd;
-            double to = (shifted - s.groupMean) / s.groupSd;
+            double from = (level - s.level.mean) / s.level.sd;
+            double to = (shifted - s.level.mean) / s.level.sd;
             levelPart = 0.5 * (from * from - to * to);
         } else {
             levelPart = groupMeanPrior.logDensity(shifted) - groupMeanPrior.logDensity(level);
@@ -257,13 +313,10 @@ final class ThresholdUpdate implements Update {
     private void shiftLevel(int b, double amount) {
         ChainState s = state;
         if (!isCommon(b)) {
-            s.alpha[b] += amount;
+            s.level.intercept[b] += amount;
             return;
         }
-        s.groupMean += amount;
-        for (int g = 0; g < s.groups; g++) {
-            s.alpha[g] += amount;
-        }
+        s.level.shiftIntercepts(amount);
     }
 
     /** Share of accepted proposals while sampling. */

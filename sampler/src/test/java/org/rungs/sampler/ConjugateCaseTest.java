@@ -31,7 +31,7 @@ class ConjugateCaseTest {
     private static ChainState fixedThresholdState(byte[] categories) {
         Survey survey = Survey.of(new Scale(0, 3), categories, new int[categories.length], List.of("all"),
                 Covariates.none(), Covariates.none(), null);
-        ChainState s = new ChainState(SurveyOrder.of(survey), false);
+        ChainState s = new ChainState(SurveyOrder.of(survey), false, null);
         for (int k = 0; k < CUTS.length; k++) {
             s.common[k + 1] = CUTS[k];
         }
@@ -41,9 +41,8 @@ class ConjugateCaseTest {
 
     private static double[] runLevelChain(ChainState s, Priors priors, long seed, int iterations) {
         UniformRandomProvider rng = RandomSource.XO_RO_SHI_RO_128_PP.create(seed);
-        DesignSums sums = DesignSums.of(s.survey);
         Update latent = LatentLevelUpdate.of(s, rng);
-        Update level = LevelCoefficientUpdate.of(s, sums, priors, rng);
+        Update level = RegressionUpdate.of(s.level, priors.level(), priors.groupMean(), rng);
         double[] out = new double[iterations];
         for (int it = 0; it < 1000; it++) {
             latent.update(false);
@@ -52,7 +51,7 @@ class ConjugateCaseTest {
         for (int it = 0; it < iterations; it++) {
             latent.update(false);
             level.update(false);
-            out[it] = s.groupMean;
+            out[it] = s.level.mean;
         }
         return out;
     }
@@ -127,19 +126,19 @@ class ConjugateCaseTest {
         }
         Covariates level = Covariates.fromNumeric(List.of("x1", "x2"), List.of(x1, x2));
         Survey survey = Survey.of(new Scale(0, 3), new byte[n], group, List.of("a", "b", "c"), level, Covariates.none(), null);
-        ChainState s = new ChainState(SurveyOrder.of(survey), false);
-        s.groupMean = 0.4;
-        s.groupSd = 0.7;
+        ChainState s = new ChainState(SurveyOrder.of(survey), false, null);
+        s.level.mean = 0.4;
+        s.level.sd = 0.7;
         double[] z1 = level.column(0);
         double[] z2 = level.column(1);
         for (int i = 0; i < n; i++) {
-            s.latentSumByGroup[group[i]] += latent[i];
-            s.latentCross[0] += z1[i] * latent[i];
-            s.latentCross[1] += z2[i] * latent[i];
+            s.level.latentSum[group[i]] += latent[i];
+            s.level.latentCross[0] += z1[i] * latent[i];
+            s.level.latentCross[1] += z2[i] * latent[i];
         }
         Priors priors = Priors.defaults().with("level=normal(0.1,2)");
         UniformRandomProvider rng = RandomSource.XO_RO_SHI_RO_128_PP.create(6L);
-        LevelCoefficientUpdate update = LevelCoefficientUpdate.of(s, DesignSums.of(survey), priors, rng);
+        RegressionUpdate update = RegressionUpdate.of(s.level, priors.level(), priors.groupMean(), rng);
 
         int d = groups + 2;
         RealMatrix x = new Array2DRowRealMatrix(n, d);
@@ -168,10 +167,10 @@ class ConjugateCaseTest {
         for (int it = 0; it < draws; it++) {
             update.update(false);
             for (int g = 0; g < groups; g++) {
-                v[g] = s.alpha[g];
+                v[g] = s.level.intercept[g];
             }
-            v[groups] = s.beta[0];
-            v[groups + 1] = s.beta[1];
+            v[groups] = s.level.coefficient[0];
+            v[groups + 1] = s.level.coefficient[1];
             for (int a = 0; a < d; a++) {
                 sum[a] += v[a];
                 for (int b = 0; b < d; b++) {

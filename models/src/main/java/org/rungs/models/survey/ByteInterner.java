@@ -1,14 +1,26 @@
 package org.rungs.models.survey;
 
+import java.lang.invoke.MethodHandles;
+import java.lang.invoke.VarHandle;
+import java.nio.ByteOrder;
 import java.nio.charset.StandardCharsets;
 import java.util.Arrays;
+import java.util.concurrent.ThreadLocalRandom;
 
 /**
  * Numbers distinct byte strings 0, 1, 2, ... in order of first appearance, by open addressing
  * with linear probing; a lookup allocates nothing, so labels of a million rows cost one String per
  * distinct label.
+ *
+ * <p>The hash is seeded at random per instance: with a fixed hash a file of labels built to collide
+ * (under {@code 31 * h + b}, "Aa" and "BB" are equal, so 2^16 labels of 16 such blocks share one
+ * value) puts every label on one probe chain and makes reading quadratic. The numbering does not
+ * depend on the seed.
  */
 final class ByteInterner {
+    private static final VarHandle LONGS = MethodHandles.byteArrayViewVarHandle(long[].class, ByteOrder.LITTLE_ENDIAN);
+
+    private final long seed = ThreadLocalRandom.current().nextLong();
     private byte[] pool = new byte[256];
     private int poolSize;
     private int[] offsets = new int[16];
@@ -76,13 +88,29 @@ final class ByteInterner {
         }
     }
 
-    private static int hash(byte[] bytes, int from, int to) {
-        int h = 1;
-        for (int i = from; i < to; i++) {
-            h = 31 * h + bytes[i];
+    /** Eight bytes at a time through a bijective mixer, so the state after each block depends on the seed. */
+    private int hash(byte[] bytes, int from, int to) {
+        long h = seed ^ (to - from);
+        int i = from;
+        for (; i + Long.BYTES <= to; i += Long.BYTES) {
+            h = mix(h ^ (long) LONGS.get(bytes, i));
         }
-        // spread the high bits into the low ones used by the mask
-        return h ^ (h >>> 16);
+        long tail = 0;
+        for (; i < to; i++) {
+            tail = tail << 8 | (bytes[i] & 0xFF);
+        }
+        h = mix(h ^ tail);
+        return (int) (h ^ (h >>> 32));
+    }
+
+    /**
+     * The 64-bit finaliser of SplitMix64 (Steele, Lea and Flood 2014, "Fast splittable pseudorandom
+     * number generators", OOPSLA).
+     */
+    private static long mix(long z) {
+        z = (z ^ (z >>> 30)) * 0xbf58476d1ce4e5b9L;
+        z = (z ^ (z >>> 27)) * 0x94d049bb133111ebL;
+        return z ^ (z >>> 31);
     }
 
     private static int[] emptyTable(int capacity) {

@@ -118,7 +118,6 @@ public final class Covariates {
         return "Covariates" + Arrays.toString(names);
     }
 
-    /** Collects raw columns; {@link #build()} standardises them and checks the rank of {@code [1, X]}. */
     /** The same covariates with rows reordered: row r of the result is row {@code order[r]} of this. */
     public Covariates permuted(int[] order) {
         if (columns.length == 0) {
@@ -139,6 +138,7 @@ public final class Covariates {
         return new Covariates(rows, names, moved, indicator, sourceColumns, centres, scales, referenceLevels);
     }
 
+    /** Collects raw columns; {@link #build()} standardises them and checks the rank of {@code [1, X]}. */
     public static final class Builder {
         private final List<Source> sources = new ArrayList<>();
 
@@ -190,9 +190,6 @@ public final class Covariates {
                 if (source.raw() != null) {
                     double[] raw = source.raw();
                     double[] centreAndScale = standardise(name, raw);
-                    for (int i = 0; i < n; i++) {
-                        raw[i] = (raw[i] - centreAndScale[0]) / centreAndScale[1];
-                    }
                     names.add(name);
                     columns.add(raw);
                     sourceNames.add(name);
@@ -243,7 +240,10 @@ public final class Covariates {
         }
     }
 
-    /** Mean and sample sd (n-1) by the corrected two-pass algorithm; rejects bad or constant columns. */
+    /**
+     * Standardises {@code raw} in place; returns its mean and sample sd (n-1), by the corrected
+     * two-pass algorithm. Rejects bad or constant columns.
+     */
     private static double[] standardise(String name, double[] raw) {
         int n = raw.length;
         for (int i = 0; i < n; i++) {
@@ -260,22 +260,33 @@ public final class Covariates {
         if (constant) {
             throw constant(name, n == 0 ? "no rows" : "the single value " + format(raw[0]));
         }
+        // work on raw * 2^k with the largest magnitude near 1: exact, and squares of tiny values
+        // (1e-200, or subnormal ones) no longer underflow to a zero spread
+        double largest = 0;
+        for (double v : raw) {
+            largest = Math.max(largest, Math.abs(v));
+        }
+        int k = -Math.getExponent(largest);
         double sum = 0;
         for (double v : raw) {
-            sum += v;
+            sum += Math.scalb(v, k);
         }
         double mean = sum / n;
         double correction = 0;
         for (double v : raw) {
-            correction += v - mean;
+            correction += Math.scalb(v, k) - mean;
         }
         mean += correction / n;
         double squares = 0;
         for (double v : raw) {
-            double d = v - mean;
+            double d = Math.scalb(v, k) - mean;
             squares += d * d;
         }
-        return new double[] {mean, Math.sqrt(squares / (n - 1))};
+        double sd = Math.sqrt(squares / (n - 1));
+        for (int i = 0; i < n; i++) {
+            raw[i] = (Math.scalb(raw[i], k) - mean) / sd;
+        }
+        return new double[] {Math.scalb(mean, -k), Math.scalb(sd, -k)};
     }
 
     /** Level indices: the reference first, then the other levels in order of first appearance. */

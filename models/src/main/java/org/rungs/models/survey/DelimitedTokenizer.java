@@ -17,6 +17,11 @@ import java.util.zip.ZipException;
  * tab if it has one, else comma, else semicolon if it has one. Empty lines are skipped. The bytes
  * of the kept fields of the current record are copied into {@link #data}; field {@code k} spans
  * {@code data[start[k], end[k])}.
+ *
+ * <p>A record (a line, or several when a quoted field holds line breaks) longer than
+ * {@link SurveyReader#MAX_RECORD_BYTES} stops the reading as soon as it passes that length, and
+ * a header of more than {@link SurveyReader#MAX_COLUMNS} columns stops it too, so a hostile file
+ * costs bounded memory and time per record.
  */
 final class DelimitedTokenizer {
     private static final int EOF = -1;
@@ -27,6 +32,11 @@ final class DelimitedTokenizer {
     private byte[] buffer = new byte[1 << 16];
     private int position;
     private int limit;
+    /** Offset in the content of {@code buffer[0]}. */
+    private long bufferOffset;
+    /** Offset in the content where the current record starts, while one is being read. */
+    private long recordOffset;
+    private boolean inRecord;
     private boolean exhausted;
     private byte delimiter;
     private long line = 1;
@@ -76,6 +86,11 @@ final class DelimitedTokenizer {
         return names;
     }
 
+    /** The delimiter read off the header, in words: "commas", "tabs" or "semicolons". */
+    String delimiterName() {
+        return delimiter == '\t' ? "tabs" : delimiter == ';' ? "semicolons" : "commas";
+    }
+
     /** Which columns to copy from now on; the others are only counted. */
     void keep(boolean[] columns) {
         keep = columns.clone();
@@ -100,6 +115,8 @@ final class DelimitedTokenizer {
             return false;
         }
         recordLine = line;
+        recordOffset = bufferOffset + position;
+        inRecord = true;
         fieldCount = 0;
         dataLength = 0;
         while (true) {
@@ -117,6 +134,11 @@ final class DelimitedTokenizer {
                     c = read();
                 }
             }
+            if (keep == null && fieldCount == SurveyReader.MAX_COLUMNS) {
+                throw new SurveyInputException(file, recordLine, null, "the header has more than "
+                        + SurveyReader.MAX_COLUMNS + " columns", "at most " + SurveyReader.MAX_COLUMNS
+                        + " columns (is this a survey file with a header row?)");
+            }
             if (fieldCount < start.length) {
                 start[fieldCount] = fieldStart;
                 end[fieldCount] = dataLength;
@@ -131,6 +153,8 @@ final class DelimitedTokenizer {
                 break;
             }
         }
+        checkRecordLength(bufferOffset + position - (c == EOF ? 0 : 1));
+        inRecord = false;
         if (c == '\r' && peek() == '\n') {
             read();
         }
@@ -164,8 +188,9 @@ final class DelimitedTokenizer {
         }
         int c = read();
         if (c != delimiter && c != '\n' && c != '\r' && c != EOF) {
+            String shown = c < 0x80 ? Text.quote(String.valueOf((char) c)) : String.format("the byte 0x%02X", c);
             throw new SurveyInputException(file, recordLine, null, "a quoted field is followed by "
-                    + Text.quote(String.valueOf((char) c)) + " instead of a delimiter or the end of the line",
+                    + shown + " instead of a delimiter or the end of the line",
                     "a delimiter or line end right after a closing quote (a quote inside a quoted field is written twice: \"\")");
         }
         return c;
@@ -273,14 +298,31 @@ final class DelimitedTokenizer {
         if (exhausted) {
             return false;
         }
+        // every buffered byte has been consumed, and those since recordOffset belong to the record
+        checkRecordLength(bufferOffset + limit);
         int n = fill(0);
         if (n < 0) {
             exhausted = true;
             return false;
         }
+        bufferOffset += limit;
         position = 0;
         limit = n;
         return true;
+    }
+
+    /** Stops when the current record, which has reached content offset {@code to}, is too long. */
+    private void checkRecordLength(long to) throws SurveyInputException {
+        if (inRecord && to - recordOffset > SurveyReader.MAX_RECORD_BYTES) {
+            throw recordTooLong(recordLine);
+        }
+    }
+
+    private SurveyInputException recordTooLong(long row) {
+        long mib = SurveyReader.MAX_RECORD_BYTES >> 20;
+        return new SurveyInputException(file, row, null, "the row is longer than " + mib + " MiB"
+                + " (reading stops there; a quote that is never closed or a file that is not delimited text can cause"
+                + " this)", "rows of at most " + mib + " MiB (" + SurveyReader.MAX_RECORD_BYTES + " bytes)");
     }
 
     /** Reads into {@code buffer} from {@code offset}; the number of bytes read, or -1 at the end. */
@@ -296,9 +338,14 @@ final class DelimitedTokenizer {
                 throw e;
             }
             throw new SurveyInputException(file, 0, null, "the gzip stream is truncated or corrupt ("
-                    + e.getMessage() + ") after line " + line + " of its content",
+                    + gzipDetail(e) + ") after line " + line + " of its content",
                     "a complete gzip file (compress the file again)", e);
         }
+    }
+
+    /** What the gzip decoder said, or that the data ended when it said nothing. */
+    static String gzipDetail(IOException e) {
+        return e.getMessage() != null ? e.getMessage() : "the data end too early";
     }
 
     /** Buffers at least the first line (or all content when shorter); returns the index of its end. */
@@ -314,8 +361,11 @@ final class DelimitedTokenizer {
             if (exhausted) {
                 return limit;
             }
+            if (limit > SurveyReader.MAX_RECORD_BYTES) {
+                throw recordTooLong(1);
+            }
             if (limit == buffer.length) {
-                buffer = Arrays.copyOf(buffer, 2 * buffer.length);
+                buffer = Arrays.copyOf(buffer, Math.min(2 * buffer.length, SurveyReader.MAX_RECORD_BYTES + 1));
             }
             int n = fill(limit);
             if (n < 0) {

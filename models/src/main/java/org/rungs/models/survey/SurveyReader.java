@@ -28,6 +28,20 @@ import java.util.zip.ZipException;
  * magnitude above {@link Covariates#MAX_MAGNITUDE} in an otherwise numeric column is an error,
  * not a level. Ratings and weights are checked in every row, covariates in the rows used. Every
  * problem stops the reading with a {@link SurveyInputException} naming the file, row and column.
+ *
+ * <p>Hostile input costs bounded memory and time: a record longer than {@link #MAX_RECORD_BYTES}
+ * or a header of more than {@link #MAX_COLUMNS} columns stops the reading at once, without reading
+ * the rest, and group labels are interned with a seeded hash (see {@link ByteInterner}).
+ *
+ * <p>Labels (group labels and levels of categorical covariates) are kept byte for byte, HTML
+ * included: whoever writes them out escapes them. A label holding a control character other than
+ * tab (U+0000..U+001F, U+007F..U+009F, so also a line break inside quotes or a terminal escape
+ * sequence) stops the reading, naming row and column: such a label is almost surely damage, and
+ * printed as is it would break the lines of a table or drive the terminal.
+ *
+ * <p>Valid but unusual data (a category nobody uses, a group of one respondent, a group whose
+ * respondents all give the same rating) are read without complaint; warnings about them are the
+ * caller's.
  */
 public final class SurveyReader {
 
@@ -36,6 +50,21 @@ public final class SurveyReader {
      * becomes a column of n doubles, and a text column with more levels is more likely an identifier.
      */
     public static final int MAX_LEVELS = 200;
+
+    /**
+     * Longest record in bytes, 64 MiB (our guard, no source). A survey row takes some hundreds of
+     * bytes and even a long free-text column stays far below this; past it the file is almost surely
+     * not delimited text, or a quote was never closed, and reading on would only cost memory (the
+     * kept fields of a record are held at once) before failing anyway. Kept well below the 2 GiB
+     * limit of a Java array so the buffers never overflow.
+     */
+    public static final int MAX_RECORD_BYTES = 64 << 20;
+
+    /**
+     * Most columns a header may have (our guard, no source): wide survey exports have some
+     * thousands; a header of more is not a survey header and each column costs memory up front.
+     */
+    public static final int MAX_COLUMNS = 100_000;
 
     private static final int GZIP_MAGIC_1 = 0x1f;
     private static final int GZIP_MAGIC_2 = 0x8b;
@@ -89,22 +118,39 @@ public final class SurveyReader {
      */
     public static Survey read(Path file, SurveySpec spec) throws SurveyInputException {
         try (InputStream raw = Files.newInputStream(file)) {
-            BufferedInputStream buffered = new BufferedInputStream(raw, 1 << 16);
+            return read(raw, file, spec);
+        } catch (NoSuchFileException e) {
+            throw new SurveyInputException(file, 0, null, "the file does not exist", "an existing survey file", e);
+        } catch (IOException e) {
+            throw new SurveyInputException(file, 0, null, "the file cannot be read (" + e + ")",
+                    "a readable survey file", e);
+        }
+    }
+
+    /**
+     * Reads the content of a survey file from {@code in}, which is read once from its current
+     * position and not closed.
+     *
+     * @param name the file named in messages
+     * @throws SurveyInputException for any problem with the content, naming row and column when it
+     *     is about one
+     */
+    public static Survey read(InputStream in, Path name, SurveySpec spec) throws SurveyInputException {
+        try {
+            BufferedInputStream buffered = new BufferedInputStream(in, 1 << 16);
             buffered.mark(2);
             int first = buffered.read();
             int second = buffered.read();
             buffered.reset();
             if (first < 0) {
-                throw new SurveyInputException(file, 0, null, "the file is empty (0 bytes)",
+                throw new SurveyInputException(name, 0, null, "the file is empty (0 bytes)",
                         "a header row naming the columns and at least one data row");
             }
             boolean gzip = first == GZIP_MAGIC_1 && second == GZIP_MAGIC_2;
-            InputStream content = gzip ? gunzip(file, buffered) : buffered;
-            return new SurveyReader(file, spec, new DelimitedTokenizer(content, file, gzip)).read();
-        } catch (NoSuchFileException e) {
-            throw new SurveyInputException(file, 0, null, "the file does not exist", "an existing survey file", e);
+            InputStream content = gzip ? gunzip(name, buffered) : buffered;
+            return new SurveyReader(name, spec, new DelimitedTokenizer(content, name, gzip)).read();
         } catch (IOException e) {
-            throw new SurveyInputException(file, 0, null, "the file cannot be read (" + e + ")",
+            throw new SurveyInputException(name, 0, null, "the file cannot be read (" + e + ")",
                     "a readable survey file", e);
         }
     }
@@ -114,14 +160,16 @@ public final class SurveyReader {
             return new GZIPInputStream(in, 1 << 16);
         } catch (EOFException | ZipException e) {
             throw new SurveyInputException(file, 0, null, "the gzip stream is truncated or corrupt ("
-                    + e.getMessage() + ") in its header", "a complete gzip file (compress the file again)", e);
+                    + DelimitedTokenizer.gzipDetail(e) + ") in its header",
+                    "a complete gzip file (compress the file again)", e);
         }
     }
 
     private Survey read() throws SurveyInputException, IOException {
         List<String> header = tokenizer.readHeader();
         if (header == null) {
-            throw new SurveyInputException(file, 0, null, "the file has no header row (its content is empty)",
+            throw new SurveyInputException(file, 0, null,
+                    "the file has no header row (its content is empty or only line breaks)",
                     "a header row naming the columns and at least one data row");
         }
         locateColumns(header);
@@ -152,7 +200,7 @@ public final class SurveyReader {
         for (int k = 0; k < columns; k++) {
             Integer earlier = index.putIfAbsent(header.get(k), k);
             if (earlier != null) {
-                throw new SurveyInputException(file, 1, header.get(k), "the header names this column twice"
+                throw new SurveyInputException(file, tokenizer.recordLine, header.get(k), "the header names this column twice"
                         + " (columns " + (earlier + 1) + " and " + (k + 1) + ")", "distinct column names in the header");
             }
         }
@@ -166,8 +214,8 @@ public final class SurveyReader {
             String name = used.get(s);
             Integer k = index.get(name);
             if (k == null) {
-                throw new SurveyInputException(file, 1, name, "no such column in the header",
-                        "one of the columns " + Text.quoteAll(header));
+                throw new SurveyInputException(file, tokenizer.recordLine, name, "no such column in the header"
+                        + headerHint(header), "one of the columns " + Text.quoteAll(header));
             }
             headerIndex[s] = k;
             keep[k] = true;
@@ -182,12 +230,27 @@ public final class SurveyReader {
         }
     }
 
+    /** Why a column may be absent when the header looks like no header or like another delimiter. */
+    private String headerHint(List<String> header) {
+        for (String name : header) {
+            byte[] bytes = name.getBytes(StandardCharsets.UTF_8);
+            if (scanner.scan(bytes, 0, bytes.length) == DecimalScanner.Kind.NUMBER) {
+                return " (the first row holds the number " + Text.quote(name.strip())
+                        + ": is the header row missing?)";
+            }
+        }
+        if (header.size() == 1) {
+            return " (the header has a single column: is the delimiter one of comma, tab or semicolon?)";
+        }
+        return "";
+    }
+
     private void readRecord() throws SurveyInputException {
         DelimitedTokenizer t = tokenizer;
         if (t.fieldCount != columns) {
             throw new SurveyInputException(file, t.recordLine, null, "the row has " + t.fieldCount
-                    + (t.fieldCount == 1 ? " field" : " fields"), columns + " fields, as many as the header has columns"
-                    + " (a field containing the delimiter must be quoted)");
+                    + (t.fieldCount == 1 ? " field" : " fields"), columns + " fields separated by " + t.delimiterName()
+                    + ", as many as the header has (a field containing the delimiter must be quoted)");
         }
         rowsRead++;
         boolean complete = true;
@@ -205,7 +268,11 @@ public final class SurveyReader {
         int g = 0;
         if (groupSlot >= 0 && !missingInRow[groupSlot]) {
             int k = headerIndex[groupSlot];
+            int known = groups.size();
             g = groups.intern(t.data, t.start[k], t.end[k]);
+            if (g == known) {
+                checkLabel(spec.groupColumn(), "group label", k);
+            }
             if (g == groupRowsRead.length) {
                 groupRowsRead = Arrays.copyOf(groupRowsRead, 2 * g);
                 groupFirstRow = Arrays.copyOf(groupFirstRow, 2 * g);
@@ -232,6 +299,34 @@ public final class SurveyReader {
             covariates[c].add(size, t.data, t.start[k], t.end[k], t.recordLine, scanner);
         }
         size++;
+    }
+
+    /** Stops at a label with a control character other than tab (see the class comment). */
+    private void checkLabel(String column, String what, int k) throws SurveyInputException {
+        DelimitedTokenizer t = tokenizer;
+        int control = controlCharacter(t.data, t.start[k], t.end[k]);
+        if (control >= 0) {
+            throw new SurveyInputException(file, t.recordLine, column, "the " + what + " " + Text.quote(text(k))
+                    + " contains the control character " + String.format("U+%04X", control),
+                    "labels without control characters other than tab (remove them from the file)");
+        }
+    }
+
+    /**
+     * The first control character other than tab in valid UTF-8 {@code bytes[from, to)}: C0
+     * (below 0x20), DEL (0x7F) or C1 (U+0080..U+009F, encoded C2 80..C2 9F); -1 when there is none.
+     */
+    static int controlCharacter(byte[] bytes, int from, int to) {
+        for (int i = from; i < to; i++) {
+            int b = bytes[i] & 0xFF;
+            if (b < 0x20 && b != '\t' || b == 0x7F) {
+                return b;
+            }
+            if (b == 0xC2 && i + 1 < to && (bytes[i + 1] & 0xFF) <= 0x9F) {
+                return bytes[i + 1] & 0xFF;
+            }
+        }
+        return -1;
     }
 
     /** The rating's position on the scale; stops at a non-integer or a rating off the scale. */
@@ -263,7 +358,13 @@ public final class SurveyReader {
             throw new SurveyInputException(file, t.recordLine, spec.weightColumn(), "the weight " + Text.quote(text(k))
                     + " is not finite", expected);
         }
-        if (kind != DecimalScanner.Kind.NUMBER && kind != DecimalScanner.Kind.TOO_LARGE) {
+        if (kind == DecimalScanner.Kind.TOO_LARGE) {
+            // a group's total weight must stay finite: population summaries divide by it
+            throw new SurveyInputException(file, t.recordLine, spec.weightColumn(), "the weight " + text(k).strip()
+                    + " exceeds " + Covariates.MAX_MAGNITUDE, "weights of at most " + Covariates.MAX_MAGNITUDE
+                    + " (rescale the weights)");
+        }
+        if (kind != DecimalScanner.Kind.NUMBER) {
             throw new SurveyInputException(file, t.recordLine, spec.weightColumn(), "the weight "
                     + Text.quote(text(k)) + " is not a number" + commaHint(kind), expected);
         }
@@ -327,8 +428,9 @@ public final class SurveyReader {
         for (int g = 0; g < count; g++) {
             if (groupSlot >= 0 && groupRowsUsed[g] == 0) {
                 throw new SurveyInputException(file, 0, spec.groupColumn(), "the group " + Text.quote(labels.get(g))
-                        + " has no usable rows: all its " + groupRowsRead[g] + " rows (the first on row "
-                        + groupFirstRow[g] + ") miss a value in another used column",
+                        + " has no usable rows: " + (groupRowsRead[g] == 1 ? "its only row (row " + groupFirstRow[g]
+                        + ") misses" : "all its " + groupRowsRead[g] + " rows (the first on row " + groupFirstRow[g]
+                        + ") miss") + " a value in another used column",
                         "at least one complete row in every group (fill in the values or remove the group's rows)");
             }
             // population summaries (MODEL.md section 6) divide by a group's total weight
@@ -375,6 +477,13 @@ public final class SurveyReader {
             values[i] = scanner.value();
             if (kind != DecimalScanner.Kind.NUMBER) {
                 if (kind == DecimalScanner.Kind.TEXT) {
+                    int control = controlCharacter(data, from, to);
+                    if (control >= 0) {
+                        throw new SurveyInputException(file, row, name, "the level " + Text.quote(new String(data, from,
+                                to - from, StandardCharsets.UTF_8)) + " contains the control character "
+                                + String.format("U+%04X", control),
+                                "labels without control characters other than tab (remove them from the file)");
+                    }
                     if (textRow == 0) {
                         textRow = row;
                         textValue = new String(data, from, to - from, StandardCharsets.UTF_8);

@@ -55,7 +55,7 @@ class DialectTest {
         Path file = SurveyFiles.resource("quoted-multiline.csv");
         Survey survey = SurveyReader.read(file, SurveySpec.builder("rating", ZERO_TEN).group("region").build());
         assertArrayEquals(new int[] {8, 3, 5}, SurveyFiles.ratings(survey));
-        assertEquals(List.of("Lake\nShore", "Upland"), survey.groupLabels());
+        assertEquals(List.of("Lake Shore", "Upland"), survey.groupLabels());
         assertArrayEquals(new int[] {0, 1, 0}, survey.group());
     }
 

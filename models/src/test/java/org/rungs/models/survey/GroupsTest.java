@@ -2,6 +2,7 @@ package org.rungs.models.survey;
 
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertThrows;
 
 import java.nio.file.Path;
 import java.util.ArrayList;
@@ -28,14 +29,34 @@ class GroupsTest {
     }
 
     @Test
-    void keepsLabelsExactlyAsWrittenIncludingMarkupAndControlCharacters() throws Exception {
+    void keepsLabelsExactlyAsWrittenIncludingMarkupTabsAndSpaces() throws Exception {
         String html = "<b>North & \"South\"</b>";
-        String control = "tab\there\u0007bell";
+        String tab = "tab\there";
         String padded = " West ";
         Path file = SurveyFiles.write(dir, "labels.csv", "rating,region\n1,\"" + html.replace("\"", "\"\"") + "\"\n2,\""
-                + control + "\"\n3," + padded + "\n4,West\n");
+                + tab + "\"\n3," + padded + "\n4,West\n");
         Survey survey = SurveyReader.read(file, SurveySpec.of("rating", "region", ZERO_TEN));
-        assertEquals(List.of(html, control, padded, "West"), survey.groupLabels());
+        assertEquals(List.of(html, tab, padded, "West"), survey.groupLabels());
+    }
+
+    @Test
+    void rejectsControlCharactersOtherThanTabInLabels() {
+        SurveySpec groups = SurveySpec.of("rating", "region", ZERO_TEN);
+        String[] labels = {"bell\u0007", "\u001b[31mred", "Lake\nShore", "del\u007f", "c1\u0085", "nul\u0000"};
+        String[] shown = {"U+0007", "U+001B", "U+000A", "U+007F", "U+0085", "U+0000"};
+        for (int i = 0; i < labels.length; i++) {
+            Path file = SurveyFiles.write(dir, "control.csv", "rating,region\n1,West\n2,\"" + labels[i] + "\"\n");
+            SurveyInputException e = assertThrows(SurveyInputException.class, () -> SurveyReader.read(file, groups));
+            assertEquals(3, e.row());
+            assertEquals("region", e.column());
+            assertEquals("the group label " + Text.quote(labels[i]) + " contains the control character " + shown[i],
+                    e.problem());
+        }
+        SurveySpec levels = SurveySpec.builder("rating", ZERO_TEN).level("x").build();
+        Path file = SurveyFiles.write(dir, "level.csv", "rating,x\n1,urban\n2,\"rural\u0007\"\n");
+        SurveyInputException e = assertThrows(SurveyInputException.class, () -> SurveyReader.read(file, levels));
+        assertEquals(file + ", row 3, column \"x\": the level \"rural\\u0007\" contains the control character U+0007;"
+                + " expected labels without control characters other than tab (remove them from the file)", e.getMessage());
     }
 
     @Test

@@ -142,7 +142,7 @@ class InputErrorsTest {
     @Test
     void aRaggedRowSaysHowManyFieldsItHas() {
         assertAbout(failure("rating,region\n5,A\n6,B,extra\n", RATING_REGION), 3, null,
-                ", row 3: the row has 3 fields; expected 2 fields, as many as the header has columns");
+                ", row 3: the row has 3 fields; expected 2 fields separated by commas, as many as the header has");
         assertAbout(failure("rating,region\n5,A\n6\n", RATING_REGION), 3, null, "the row has 1 field; expected 2 fields");
     }
 

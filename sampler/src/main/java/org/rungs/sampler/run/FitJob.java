@@ -95,7 +95,7 @@ public final class FitJob {
     private static Map<String, Object> model(FitRequest request, Survey survey, ParameterLayout layout) {
         Map<String, Object> m = new LinkedHashMap<>();
         m.put("thresholds", request.model().effectiveThresholdMode(survey.groupCount()).label());
-        m.put("style_classes", "none");
+        m.put("style_classes", request.model().styleClasses().label());
         m.put("attraction", "none");
         Map<String, Object> priors = new LinkedHashMap<>();
         var p = request.model().priors();
@@ -104,6 +104,11 @@ public final class FitJob {
         priors.put("group_sd", p.groupSd().toString());
         priors.put("threshold", p.threshold().toString());
         priors.put("threshold_sd", p.thresholdSd().toString());
+        if (request.model().styleClasses().coarse()) {
+            priors.put("style", p.style().toString());
+            priors.put("style_mean", p.styleMean().toString());
+            priors.put("style_sd", p.styleSd().toString());
+        }
         m.put("priors", priors);
         Map<String, Object> covariates = new LinkedHashMap<>();
         for (int j = 0; j < survey.level().count(); j++) {

@@ -1,0 +1,56 @@
+package org.rungs.cli;
+
+import java.io.IOException;
+import java.nio.file.Path;
+import java.util.concurrent.Callable;
+import org.rungs.examples.Benchmark;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Option;
+
+/** {@code rungs benchmark}: times the sampler and measures its memory on invented surveys. */
+@Command(name = "benchmark", mixinStandardHelpOptions = true, sortOptions = false,
+        description = {"Time the sampler on invented surveys (50 groups, 4 covariates, scale 0..10, by-group thresholds):",
+                "ns per respondent per sweep on one core, bulk ESS per second with 2 chains, and heap bytes per respondent.",
+                "Prints a Markdown table. Give the JVM a heap large enough for the largest size (about -Xmx4g for 1,000,000)."})
+final class BenchmarkCommand implements Callable<Integer> {
+    @Option(names = "--sizes", split = ",", defaultValue = "10000,100000,1000000", paramLabel = "N,...",
+            description = "Numbers of respondents to time. Default: ${DEFAULT-VALUE}.")
+    int[] sizes;
+
+    @Option(names = "--sweeps", defaultValue = "200",
+            description = "Sweeps (half warm-up) at the largest size; smaller sizes run proportionally more. Default: ${DEFAULT-VALUE}.")
+    int sweeps;
+
+    @Option(names = "--seed", defaultValue = "20261202", description = "Seed of the data and the sampler. Default: ${DEFAULT-VALUE}.")
+    long seed;
+
+    @Option(names = "--ess-sizes", split = ",", defaultValue = "10000,100000", paramLabel = "N,...",
+            description = "Numbers of respondents of the bulk-ESS fits (2 chains, 2 threads). Default: ${DEFAULT-VALUE}.")
+    int[] essSizes;
+
+    @Option(names = "--ess-warmup", defaultValue = "500", description = "Warm-up per chain of the ESS fits. Default: ${DEFAULT-VALUE}.")
+    int essWarmup;
+
+    @Option(names = "--ess-draws", defaultValue = "1000", description = "Kept draws per chain of the ESS fits. Default: ${DEFAULT-VALUE}.")
+    int essDraws;
+
+    @Option(names = "--out", paramLabel = "FILE", description = "Also write the Markdown report to this file.")
+    Path out;
+
+    @Override
+    public Integer call() throws IOException {
+        Benchmark.Settings settings;
+        try {
+            settings = new Benchmark.Settings(sizes, sweeps, seed, essSizes, essWarmup, essDraws);
+        } catch (IllegalArgumentException e) {
+            System.err.println("rungs benchmark: " + e.getMessage());
+            return Main.INPUT_ERROR;
+        }
+        String report = Benchmark.run(settings, System.err);
+        System.out.print(report);
+        if (out != null) {
+            Benchmark.write(out, report);
+        }
+        return 0;
+    }
+}

@@ -1,0 +1,53 @@
+package org.rungs.sampler;
+
+import org.rungs.models.survey.Covariates;
+
+/**
+ * A probit regression with partially pooled group intercepts on a latent of unit variance
+ * (MODEL.md 2 for the level, 4 for the coarse class): intercept[g] ~ Normal(mean, sd),
+ * coefficients on the internal covariate scale, and the sufficient statistics of its latent
+ * values, which the latent draws fill and the conjugate update reads.
+ */
+final class RegressionBlock {
+    final double[][] columns;
+    final int count;
+    final int groups;
+    final double[] intercept;
+    final double[] coefficient;
+    double mean;
+    double sd;
+    final double[] latentSum;
+    final double[] latentCross;
+    final DesignSums sums;
+
+    RegressionBlock(Covariates covariates, int[] group, int groups) {
+        this.count = covariates.count();
+        this.groups = groups;
+        this.columns = new double[count][];
+        for (int j = 0; j < count; j++) {
+            columns[j] = covariates.column(j);
+        }
+        this.intercept = new double[groups];
+        this.coefficient = new double[count];
+        this.latentSum = new double[groups];
+        this.latentCross = new double[count];
+        this.sums = DesignSums.of(group, groups, columns);
+    }
+
+    /** intercept[g] + x_i' coefficient for respondent i of group g. */
+    double linear(int i, int g) {
+        double e = intercept[g];
+        for (int j = 0; j < count; j++) {
+            e += columns[j][i] * coefficient[j];
+        }
+        return e;
+    }
+
+    /** Moves the intercepts and their mean together (with one group the intercept is the mean). */
+    void shiftIntercepts(double amount) {
+        mean += amount;
+        for (int g = 0; g < groups; g++) {
+            intercept[g] += amount;
+        }
+    }
+}

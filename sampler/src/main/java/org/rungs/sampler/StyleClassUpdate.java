@@ -1,0 +1,182 @@
+package org.rungs.sampler;
+
+import java.util.Arrays;
+import org.apache.commons.rng.UniformRandomProvider;
+import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
+import org.rungs.models.ResponseLikelihood;
+import org.rungs.models.RoundingChannel;
+import org.rungs.priors.Normal;
+import org.rungs.priors.Priors;
+import org.rungs.priors.StandardNormal;
+
+/**
+ * The coarse class of MODEL.md 4, group by group, in three steps.
+ *
+ * <p>First a random-walk Metropolis move of the group's coarse-class intercept gamma[g] with the
+ * classes summed out (the likelihood of MODEL.md 4c): the Gibbs cycle of class indicators and
+ * probit latents alone moves gamma only as far as the current classes allow, which is little
+ * when a heap can be read either as coarse answers or as wide categories. Its scale adapts
+ * during warm-up only (Roberts & Rosenthal 2009, section 3).
+ *
+ * <p>Then each respondent's class from its full conditional with the latent level and intended
+ * answer summed out: P(coarse | r) = q P(r | coarse) / ((1 - q) P(r | full) + q P(r | coarse)),
+ * q = Phi(gamma[g] + w' delta); a rating that is not a coarse point is always full-scale. Last,
+ * the class's probit latent from its normal truncated to the class's side of zero (Albert & Chib
+ * 1993, section 3), keeping only the sums the conjugate update of gamma and delta needs.
+ */
+final class StyleClassUpdate implements Update {
+    private static final double TARGET_ACCEPTANCE = 0.44;
+    private final ChainState state;
+    private final UniformRandomProvider rng;
+    private final TruncatedNormalSampler truncatedNormal;
+    private final ZigguratSampler.NormalizedGaussian normal;
+    private final Normal meanPrior;
+    private final double[] logScale;
+    private final double[] full;
+    private final double[] coarse;
+    private final double[] linear;
+    private int warmupStep;
+
+    private StyleClassUpdate(ChainState state, Priors priors, UniformRandomProvider rng) {
+        this.state = state;
+        this.rng = rng;
+        this.truncatedNormal = TruncatedNormalSampler.of(rng);
+        this.normal = ZigguratSampler.NormalizedGaussian.of(rng);
+        this.meanPrior = priors.styleMean();
+        this.logScale = new double[state.groups];
+        int largest = 0;
+        int m = state.categories;
+        for (int g = 0; g < state.groups; g++) {
+            int size = state.start[(g + 1) * m] - state.start[g * m];
+            largest = Math.max(largest, size);
+            logScale[g] = Math.log(2.0 / Math.sqrt(1.0 + size));
+        }
+        this.full = new double[largest];
+        this.coarse = new double[largest];
+        this.linear = new double[largest];
+    }
+
+    static StyleClassUpdate of(ChainState state, Priors priors, UniformRandomProvider rng) {
+        return new StyleClassUpdate(state, priors, rng);
+    }
+
+    @Override
+    public void update(boolean adapt) {
+        ChainState s = state;
+        RegressionBlock style = s.style;
+        Arrays.fill(style.latentSum, 0);
+        Arrays.fill(style.latentCross, 0);
+        int m = s.categories;
+        for (int g = 0; g < s.groups; g++) {
+            int from = s.start[g * m];
+            int to = s.start[(g + 1) * m];
+            prepare(g, from, to);
+            moveIntercept(g, from, to, adapt);
+            drawClasses(g, from, to);
+        }
+        if (adapt) {
+            warmupStep++;
+        }
+    }
+
+    /** Caches each respondent's P(r | full), P(r | coarse) and style linear predictor. */
+    private void prepare(int g, int from, int to) {
+        ChainState s = state;
+        RoundingChannel channel = s.channel;
+        int row = g * (s.categories + 1);
+        for (int i = from; i < to; i++) {
+            int r = s.category[i];
+            int at = i - from;
+            linear[at] = s.style.linear(i, g);
+            if (channel.isPoint(r)) {
+                double eta = s.eta(i);
+                full[at] = ResponseLikelihood.full(s.thresholds, row, r, eta, -1, 0);
+                coarse[at] = ResponseLikelihood.coarse(channel, s.thresholds, row, r, eta, -1, 0);
+            } else {
+                full[at] = Double.NaN;
+            }
+        }
+    }
+
+    private void moveIntercept(int g, int from, int to, boolean adapt) {
+        ChainState s = state;
+        RegressionBlock style = s.style;
+        double step = Math.exp(logScale[g]) * normal.sample();
+        double change = 0;
+        for (int i = from; i < to; i++) {
+            int at = i - from;
+            double before = linear[at];
+            double after = before + step;
+            if (Double.isNaN(full[at])) {
+                change += StandardNormal.logUpperTail(after) - StandardNormal.logUpperTail(before);
+            } else {
+                change += logMixture(at, after) - logMixture(at, before);
+            }
+        }
+        double intercept = style.intercept[g];
+        double prior;
+        if (s.groups > 1) {
+            double a = (intercept - style.mean) / style.sd;
+            double b = (intercept + step - style.mean) / style.sd;
+            prior = 0.5 * (a * a - b * b);
+        } else {
+            prior = meanPrior.logDensity(intercept + step) - meanPrior.logDensity(intercept);
+        }
+        boolean accept = Math.log(rng.nextDouble()) < change + prior;
+        if (accept) {
+            style.intercept[g] += step;
+            if (s.groups == 1) {
+                style.mean = style.intercept[g];
+            }
+            for (int i = from; i < to; i++) {
+                linear[i - from] += step;
+            }
+        }
+        if (adapt) {
+            logScale[g] += Math.pow(warmupStep + 1.0, -0.6) * ((accept ? 1 : 0) - TARGET_ACCEPTANCE);
+        }
+    }
+
+    /** log((1 - q) P(r | full) + q P(r | coarse)) with q = Phi(linear). */
+    private double logMixture(int at, double linearPredictor) {
+        double q = StandardNormal.cdf(linearPredictor);
+        double p = (1 - q) * full[at] + q * coarse[at];
+        if (p > 1e-280) {
+            return Math.log(p);
+        }
+        return ResponseLikelihood.logSum(StandardNormal.logUpperTail(linearPredictor) + Math.log(full[at]),
+                StandardNormal.logCdf(linearPredictor) + Math.log(coarse[at]));
+    }
+
+    private void drawClasses(int g, int from, int to) {
+        ChainState s = state;
+        RegressionBlock style = s.style;
+        for (int i = from; i < to; i++) {
+            int at = i - from;
+            double mean = linear[at];
+            byte z = 0;
+            if (!Double.isNaN(full[at])) {
+                double q = StandardNormal.cdf(mean);
+                double pf = (1 - q) * full[at];
+                double pc = q * coarse[at];
+                double share;
+                if (pf + pc > 1e-280) {
+                    share = pc / (pf + pc);
+                } else {
+                    double logFull = StandardNormal.logUpperTail(mean) + Math.log(full[at]);
+                    double logCoarse = StandardNormal.logCdf(mean) + Math.log(coarse[at]);
+                    share = 1 / (1 + Math.exp(logFull - logCoarse));
+                }
+                z = rng.nextDouble() < share ? (byte) 1 : (byte) 0;
+            }
+            s.coarse[i] = z;
+            double latent = mean + (z == 1
+                    ? truncatedNormal.sample(-mean, Double.POSITIVE_INFINITY)
+                    : truncatedNormal.sample(Double.NEGATIVE_INFINITY, -mean));
+            style.latentSum[g] += latent;
+            for (int j = 0; j < style.count; j++) {
+                style.latentCross[j] += style.columns[j][i] * latent;
+            }
+        }
+    }
+}

@@ -1,0 +1,98 @@
+package org.rungs.sampler.derived;
+
+import java.util.ArrayList;
+import java.util.Collections;
+import java.util.List;
+import org.rungs.models.survey.Covariates;
+import org.rungs.models.survey.Scale;
+
+/**
+ * Names and positions of the derived scalars of MODEL.md section 6, one column each of the
+ * derived draws: per-group means, bias, coarse share and ranks, then the per-group shares and
+ * replicated counts by rating, the coarse share by style level, and the average marginal effects.
+ */
+final class DerivedColumns {
+    final int groups;
+    final int categories;
+    final int intendedMean;
+    final int harmonisedMean;
+    final int meanBias;
+    /** -1 without the coarse class. */
+    final int coarseShare;
+    final int rankIntended;
+    final int rankHarmonised;
+    /** Group g's share of position k is at {@code intendedShare + g*M + k}; likewise the next two. */
+    final int intendedShare;
+    final int harmonisedShare;
+    final int replicated;
+    /** Start of the coarse shares by style level, in the order of {@code levels}. */
+    final int coarseShareBy;
+    /** Column of each level covariate's average marginal effect. */
+    final int[] ame;
+    /** Column of each level covariate's effect per unit of the user's column; -1 for indicators. */
+    final int[] amePerUnit;
+    final List<String> names;
+
+    DerivedColumns(List<String> groupLabels, Scale scale, Covariates level, boolean coarse, List<DerivedResult.StyleLevel> levels) {
+        groups = groupLabels.size();
+        categories = scale.categories();
+        List<String> n = new ArrayList<>();
+        intendedMean = perGroup(n, "intended_mean", groupLabels);
+        harmonisedMean = perGroup(n, "harmonised_mean", groupLabels);
+        meanBias = perGroup(n, "mean_bias", groupLabels);
+        coarseShare = coarse ? perGroup(n, "coarse_share", groupLabels) : -1;
+        rankIntended = perGroup(n, "rank_intended", groupLabels);
+        rankHarmonised = perGroup(n, "rank_harmonised", groupLabels);
+        intendedShare = perRating(n, "intended_share", groupLabels, scale);
+        harmonisedShare = perRating(n, "harmonised_share", groupLabels, scale);
+        replicated = perRating(n, "replicated", groupLabels, scale);
+        coarseShareBy = n.size();
+        for (DerivedResult.StyleLevel l : levels) {
+            n.add(coarseShareByName(l));
+        }
+        ame = new int[level.count()];
+        amePerUnit = new int[level.count()];
+        for (int j = 0; j < level.count(); j++) {
+            ame[j] = n.size();
+            n.add("ame." + level.name(j));
+            amePerUnit[j] = -1;
+            if (!level.isIndicator(j)) {
+                amePerUnit[j] = n.size();
+                n.add("ame." + level.name(j) + ".per_unit");
+            }
+        }
+        names = Collections.unmodifiableList(n);
+    }
+
+    /** {@code <kind>.<label>}, e.g. {@code intended_mean.North}. */
+    static String groupName(String kind, String label) {
+        return kind + "." + label;
+    }
+
+    /** {@code <kind>.<label>.<rating>}, e.g. {@code intended_share.North.7}. */
+    static String ratingName(String kind, String label, int rating) {
+        return kind + "." + label + "." + rating;
+    }
+
+    static String coarseShareByName(DerivedResult.StyleLevel level) {
+        return "coarse_share_by." + level.column() + "=" + level.level();
+    }
+
+    private static int perGroup(List<String> n, String kind, List<String> labels) {
+        int start = n.size();
+        for (String label : labels) {
+            n.add(groupName(kind, label));
+        }
+        return start;
+    }
+
+    private static int perRating(List<String> n, String kind, List<String> labels, Scale scale) {
+        int start = n.size();
+        for (String label : labels) {
+            for (int k = scale.lowest(); k <= scale.highest(); k++) {
+                n.add(ratingName(kind, label, k));
+            }
+        }
+        return start;
+    }
+}

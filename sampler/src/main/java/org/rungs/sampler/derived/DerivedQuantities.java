@@ -1,0 +1,199 @@
+package org.rungs.sampler.derived;
+
+import java.io.IOException;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.concurrent.ExecutionException;
+import java.util.concurrent.ExecutorService;
+import java.util.concurrent.Executors;
+import java.util.concurrent.Future;
+import java.util.concurrent.atomic.AtomicInteger;
+import org.apache.commons.rng.simple.RandomSource;
+import org.rungs.models.ModelSpec;
+import org.rungs.models.ParameterLayout;
+import org.rungs.models.RoundingChannel;
+import org.rungs.models.survey.Survey;
+import org.rungs.posteriors.Draws;
+import org.rungs.posteriors.ParameterSummary;
+
+/**
+ * The derived quantities of MODEL.md section 6, computed per posterior draw so that their
+ * uncertainty, R-hat and ESS follow from the draws. Columns of the derived draws, with
+ * {@code <label>} a group label and {@code <k>} a rating:
+ * <ul>
+ * <li>{@code intended_share.<label>.<k>}, {@code harmonised_share.<label>.<k>}: p_int[g,k] with the
+ * group's own and with the common thresholds, weighted by the survey weights;
+ * <li>{@code intended_mean.<label>}, {@code harmonised_mean.<label>}, {@code mean_bias.<label>}
+ * (observed weighted mean minus intended mean);
+ * <li>{@code coarse_share.<label>} and {@code coarse_share_by.<column>=<level>}, the weighted mean of
+ * q_i in a group and at each level (reference included) of a categorical style covariate, with
+ * the coarse class only;
+ * <li>{@code rank_intended.<label>}, {@code rank_harmonised.<label>}: 1 for the highest mean;
+ * <li>{@code ame.<covariate>} (per internal unit; for an indicator, the weighted mean change of
+ * the intended expected rating from the column's reference level to this level, the other
+ * covariates as observed) and {@code ame.<covariate>.per_unit} (numeric columns, per unit of the
+ * user's column);
+ * <li>{@code replicated.<label>.<k>}: a posterior predictive count of rating k (MODEL.md 4c).
+ * </ul>
+ */
+public final class DerivedQuantities {
+    private DerivedQuantities() {
+    }
+
+    /**
+     * Derived scalars of up to {@code maxDraws} draws: every t-th kept iteration of every chain,
+     * the same iterations in each, at least one per chain. Draws are shared out over
+     * {@code threads} workers; the predictive counts of draw (chain, iteration) come from a
+     * generator seeded from (seed, chain, iteration) alone, so the result does not depend on
+     * {@code threads}.
+     *
+     * @param draws the fit's draws, columns in the order of {@code layout}
+     */
+    public static DerivedResult compute(Survey survey, Draws draws, ParameterLayout layout, ModelSpec spec,
+            int maxDraws, long seed, int threads) {
+        if (maxDraws < 1 || threads < 1) {
+            throw new IllegalArgumentException("maxDraws and threads must be at least 1, got " + maxDraws + " and " + threads);
+        }
+        if (draws.iterations() == 0) {
+            throw new IllegalArgumentException("no draws: every chain has 0 iterations");
+        }
+        if (!draws.names().subList(0, Math.min(layout.size(), draws.parameterCount())).equals(layout.names())) {
+            throw new IllegalArgumentException("the draws' columns do not follow the parameter layout of this survey and model");
+        }
+        int[] used = usedIterations(draws.chains(), draws.iterations(), maxDraws);
+        int groups = survey.groupCount();
+        int m = survey.scale().categories();
+        int lowest = survey.scale().lowest();
+        byte[] category = survey.category();
+        int[] group = survey.group();
+        double[] weight = survey.weight();
+        int[][] counts = new int[groups][m];
+        double[][] shares = new double[groups][m];
+        double[] groupWeight = new double[groups];
+        for (int i = 0; i < survey.size(); i++) {
+            double w = weight == null ? 1 : weight[i];
+            counts[group[i]][category[i]]++;
+            shares[group[i]][category[i]] += w;
+            groupWeight[group[i]] += w;
+        }
+        double[] reportedMeans = new double[groups];
+        for (int g = 0; g < groups; g++) {
+            for (int k = 0; k < m; k++) {
+                shares[g][k] /= groupWeight[g];
+                reportedMeans[g] += (lowest + k) * shares[g][k];
+            }
+        }
+        boolean coarse = spec.styleClasses().coarse();
+        RoundingChannel channel = null;
+        StylePartition partition = StylePartition.empty();
+        if (coarse) {
+            int[] points = spec.styleClasses().coarsePoints();
+            channel = RoundingChannel.of(survey.scale(), points != null ? points : RoundingChannel.defaultPoints(survey.scale()));
+            partition = StylePartition.of(survey.style(), survey.size(), weight);
+        }
+        DerivedColumns columns = new DerivedColumns(survey.groupLabels(), survey.scale(), survey.level(), coarse,
+                partition.levels);
+        Draws derived = new Draws(columns.names, draws.chains(), used.length);
+
+        int total = draws.chains() * used.length;
+        int workers = Math.min(threads, total);
+        AtomicInteger next = new AtomicInteger();
+        RoundingChannel rounding = channel;
+        StylePartition levels = partition;
+        Runnable worker = () -> {
+            DrawEvaluator evaluator = new DrawEvaluator(survey, layout, columns, rounding, levels, groupWeight,
+                    reportedMeans);
+            double[] row = new double[columns.names.size()];
+            for (int d = next.getAndIncrement(); d < total; d = next.getAndIncrement()) {
+                int chain = d / used.length;
+                int u = d % used.length;
+                evaluator.evaluate(draws, chain, used[u],
+                        RandomSource.XO_RO_SHI_RO_128_PP.create(drawSeed(seed, chain, used[u])), row);
+                derived.putRow(chain, u, row);
+            }
+        };
+        run(worker, workers);
+        return new DerivedResult(derived, survey.groupLabels(), survey.scale(), used, counts, shares, reportedMeans,
+                coarse, partition.levels);
+    }
+
+    /** groups.csv: one row per group with the means, bias, coarse share and ranks; see {@link DerivedTables}. */
+    public static void writeGroups(DerivedResult r, List<ParameterSummary> derivedSummaries, Path file) throws IOException {
+        DerivedTables.writeGroups(r, derivedSummaries, file);
+    }
+
+    /** distributions.csv: per group and rating, observed, intended, harmonised and replicated. */
+    public static void writeDistributions(DerivedResult r, List<ParameterSummary> derivedSummaries, Path file)
+            throws IOException {
+        DerivedTables.writeDistributions(r, derivedSummaries, file);
+    }
+
+    /** coarse_shares.csv: the coarse share at each level of each categorical style covariate. */
+    public static void writeCoarseShares(DerivedResult r, List<ParameterSummary> derivedSummaries, Path file)
+            throws IOException {
+        DerivedTables.writeCoarseShares(r, derivedSummaries, file);
+    }
+
+    /** Every t-th of {@code iterations}, t the smallest stride that keeps at most maxDraws over all chains. */
+    static int[] usedIterations(int chains, int iterations, int maxDraws) {
+        int perChain = Math.max(1, Math.min(iterations, maxDraws / chains));
+        int stride = (iterations + perChain - 1) / perChain;
+        int[] used = new int[(iterations + stride - 1) / stride];
+        for (int u = 0; u < used.length; u++) {
+            used[u] = u * stride;
+        }
+        return used;
+    }
+
+    /**
+     * Seed of draw (chain, iteration) under {@code seed} through the SplitMix64 finaliser
+     * (Steele, Lea & Flood 2014, OOPSLA), as the chains' own streams are seeded.
+     */
+    static long[] drawSeed(long seed, int chain, int iteration) {
+        long a = mix(mix(seed + 0x9E3779B97F4A7C15L * (2L * chain + 1)) + 0xBF58476D1CE4E5B9L * (2L * iteration + 1));
+        long b = mix(a ^ 0xD1B54A32D192ED03L);
+        return new long[] {a, b};
+    }
+
+    private static long mix(long z) {
+        z = (z ^ (z >>> 30)) * 0xBF58476D1CE4E5B9L;
+        z = (z ^ (z >>> 27)) * 0x94D049BB133111EBL;
+        return z ^ (z >>> 31);
+    }
+
+    private static void run(Runnable worker, int workers) {
+        if (workers == 1) {
+            worker.run();
+            return;
+        }
+        ExecutorService pool = Executors.newFixedThreadPool(workers, task -> {
+            Thread t = new Thread(task, "derived-quantities");
+            t.setDaemon(true);
+            return t;
+        });
+        try {
+            List<Future<?>> futures = new ArrayList<>();
+            for (int w = 0; w < workers; w++) {
+                futures.add(pool.submit(worker));
+            }
+            for (Future<?> f : futures) {
+                f.get();
+            }
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+            throw new IllegalStateException("interrupted while computing derived quantities", e);
+        } catch (ExecutionException e) {
+            Throwable cause = e.getCause();
+            if (cause instanceof RuntimeException) {
+                throw (RuntimeException) cause;
+            }
+            if (cause instanceof Error) {
+                throw (Error) cause;
+            }
+            throw new IllegalStateException(cause);
+        } finally {
+            pool.shutdownNow();
+        }
+    }
+}

@@ -1,0 +1,183 @@
+package org.rungs.sampler.derived;
+
+import java.io.BufferedWriter;
+import java.io.IOException;
+import java.io.Writer;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.nio.file.StandardCopyOption;
+import java.util.HashMap;
+import java.util.List;
+import java.util.Map;
+import org.rungs.posteriors.Draws;
+import org.rungs.posteriors.ParameterSummary;
+
+/**
+ * The CSV files of the derived quantities. Intervals are the 90% central posterior intervals
+ * (the summaries' q5 and q95); numbers are written in full precision, independent of the locale.
+ */
+final class DerivedTables {
+    private static final String[] GROUP_QUANTITIES = {"intended_mean", "harmonised_mean", "mean_bias", "coarse_share",
+        "rank_intended", "rank_harmonised"};
+    private static final int TOP = 3;
+
+    private DerivedTables() {
+    }
+
+    private interface Content {
+        void writeTo(Writer out) throws IOException;
+    }
+
+    /**
+     * group, respondents, reported_mean, then mean/q5/q95 of intended_mean, harmonised_mean,
+     * mean_bias, coarse_share (with the coarse class), rank_intended and rank_harmonised,
+     * p_top3_intended and p_top3_harmonised (share of draws ranking the group in the top 3), and
+     * rank_change (posterior mean intended rank minus the rank by reported mean).
+     */
+    static void writeGroups(DerivedResult r, List<ParameterSummary> summaries, Path file) throws IOException {
+        Map<String, ParameterSummary> byName = byName(summaries);
+        List<String> labels = r.groupLabels();
+        StringBuilder header = new StringBuilder("group,respondents,reported_mean");
+        for (String quantity : GROUP_QUANTITIES) {
+            if (r.coarseClass() || !quantity.equals("coarse_share")) {
+                header.append(',').append(quantity).append("_mean,").append(quantity).append("_q5,")
+                        .append(quantity).append("_q95");
+            }
+        }
+        header.append(",p_top").append(TOP).append("_intended,p_top").append(TOP).append("_harmonised,rank_change\n");
+        write(file, out -> {
+            out.append(header);
+            StringBuilder line = new StringBuilder();
+            for (int g = 0; g < labels.size(); g++) {
+                String label = labels.get(g);
+                line.setLength(0);
+                line.append(quote(label)).append(',').append(r.respondents(g)).append(',').append(number(r.reportedMeans()[g]));
+                for (String quantity : GROUP_QUANTITIES) {
+                    if (r.coarseClass() || !quantity.equals("coarse_share")) {
+                        interval(line, summary(byName, DerivedColumns.groupName(quantity, label)));
+                    }
+                }
+                line.append(',').append(number(topShare(r.draws(), DerivedColumns.groupName("rank_intended", label))));
+                line.append(',').append(number(topShare(r.draws(), DerivedColumns.groupName("rank_harmonised", label))));
+                double meanRank = summary(byName, DerivedColumns.groupName("rank_intended", label)).mean();
+                line.append(',').append(number(meanRank - DrawEvaluator.rank(r.reportedMeans(), g))).append('\n');
+                out.append(line);
+            }
+        });
+    }
+
+    /**
+     * Long format, one row per group and rating: observed_count, reported_share (weighted), the
+     * mean/q5/q95 of the intended and harmonised shares and of the replicated count, and
+     * outside_90, true when the observed count lies outside the replicated 90% interval.
+     */
+    static void writeDistributions(DerivedResult r, List<ParameterSummary> summaries, Path file) throws IOException {
+        Map<String, ParameterSummary> byName = byName(summaries);
+        List<String> labels = r.groupLabels();
+        write(file, out -> {
+            out.append("group,rating,observed_count,reported_share,intended_share_mean,intended_share_q5,"
+                    + "intended_share_q95,harmonised_share_mean,harmonised_share_q5,harmonised_share_q95,"
+                    + "replicated_mean,replicated_q5,replicated_q95,outside_90\n");
+            StringBuilder line = new StringBuilder();
+            for (int g = 0; g < labels.size(); g++) {
+                String label = labels.get(g);
+                for (int k = 0; k < r.scale().categories(); k++) {
+                    int rating = r.scale().rating(k);
+                    int observed = r.observedCounts()[g][k];
+                    line.setLength(0);
+                    line.append(quote(label)).append(',').append(rating).append(',').append(observed).append(',')
+                            .append(number(r.reportedShares()[g][k]));
+                    interval(line, summary(byName, DerivedColumns.ratingName("intended_share", label, rating)));
+                    interval(line, summary(byName, DerivedColumns.ratingName("harmonised_share", label, rating)));
+                    ParameterSummary replicated = summary(byName, DerivedColumns.ratingName("replicated", label, rating));
+                    interval(line, replicated);
+                    line.append(',').append(observed < replicated.q05() || observed > replicated.q95()).append('\n');
+                    out.append(line);
+                }
+            }
+        });
+    }
+
+    /** column, level, share_mean, share_q5, share_q95; only the header without categorical style covariates. */
+    static void writeCoarseShares(DerivedResult r, List<ParameterSummary> summaries, Path file) throws IOException {
+        Map<String, ParameterSummary> byName = byName(summaries);
+        write(file, out -> {
+            out.append("column,level,share_mean,share_q5,share_q95\n");
+            StringBuilder line = new StringBuilder();
+            for (DerivedResult.StyleLevel level : r.coarseLevels()) {
+                line.setLength(0);
+                line.append(quote(level.column())).append(',').append(quote(level.level()));
+                interval(line, summary(byName, DerivedColumns.coarseShareByName(level)));
+                out.append(line.append('\n'));
+            }
+        });
+    }
+
+    /** Share of the used draws in which the named rank is at most {@value #TOP}. */
+    private static double topShare(Draws draws, String rankName) {
+        int column = draws.indexOf(rankName);
+        if (column < 0) {
+            throw new IllegalArgumentException("the derived draws have no column " + rankName);
+        }
+        int top = 0;
+        for (int c = 0; c < draws.chains(); c++) {
+            for (int t = 0; t < draws.iterations(); t++) {
+                if (draws.get(column, c, t) <= TOP) {
+                    top++;
+                }
+            }
+        }
+        return (double) top / ((long) draws.chains() * draws.iterations());
+    }
+
+    private static void interval(StringBuilder line, ParameterSummary s) {
+        line.append(',').append(number(s.mean())).append(',').append(number(s.q05())).append(',').append(number(s.q95()));
+    }
+
+    private static Map<String, ParameterSummary> byName(List<ParameterSummary> summaries) {
+        Map<String, ParameterSummary> map = new HashMap<>();
+        for (ParameterSummary s : summaries) {
+            map.put(s.name(), s);
+        }
+        return map;
+    }
+
+    private static ParameterSummary summary(Map<String, ParameterSummary> byName, String name) {
+        ParameterSummary s = byName.get(name);
+        if (s == null) {
+            throw new IllegalArgumentException("no summary of the derived quantity " + name);
+        }
+        return s;
+    }
+
+    /** Shortest text that reads back to the same double; Double.toString ignores the locale. */
+    private static String number(double v) {
+        return Double.toString(v);
+    }
+
+    /** RFC 4180: quoted, quotes doubled, when the field holds a comma, quote or line break. */
+    private static String quote(String value) {
+        for (int i = 0; i < value.length(); i++) {
+            char ch = value.charAt(i);
+            if (ch == ',' || ch == '"' || ch == '\n' || ch == '\r') {
+                return '"' + value.replace("\"", "\"\"") + '"';
+            }
+        }
+        return value;
+    }
+
+    /** Through a temporary file in the same folder and an atomic rename, so readers never see half a file. */
+    private static void write(Path file, Content content) throws IOException {
+        Path target = file.toAbsolutePath();
+        Path temporary = Files.createTempFile(target.getParent(), "." + target.getFileName(), ".tmp");
+        try {
+            try (BufferedWriter out = Files.newBufferedWriter(temporary, StandardCharsets.UTF_8)) {
+                content.writeTo(out);
+            }
+            Files.move(temporary, target, StandardCopyOption.ATOMIC_MOVE, StandardCopyOption.REPLACE_EXISTING);
+        } finally {
+            Files.deleteIfExists(temporary);
+        }
+    }
+}

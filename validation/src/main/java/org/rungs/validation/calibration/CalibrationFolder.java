@@ -1,0 +1,184 @@
+package org.rungs.validation.calibration;
+
+import java.io.BufferedWriter;
+import java.io.IOException;
+import java.io.UncheckedIOException;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.AtomicMoveNotSupportedException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.nio.file.StandardCopyOption;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.TreeMap;
+import java.util.stream.Stream;
+
+/**
+ * A calibration's folder: {@value CalibrationConfig#FILE} (the configuration), one file per
+ * finished replication under {@code replications/}, and the summary files. Every file appears
+ * only complete (written beside and renamed), so a killed run leaves no half record, a rerun
+ * skips the replications on disk, and shards may share one folder or use their own.
+ */
+public final class CalibrationFolder {
+    static final String REPLICATIONS = "replications";
+    private static final String HEADER = "parameter,truth,rank,draws,rhat,ess_bulk,ess_tail,flagged";
+
+    private final Path dir;
+    private final String description;
+
+    private CalibrationFolder(Path dir, String description) {
+        this.dir = dir;
+        this.description = description;
+    }
+
+    /**
+     * Opens {@code dir} for {@code config}, creating it; a folder of another configuration is refused.
+     *
+     * @throws IllegalArgumentException when the folder holds another calibration
+     */
+    public static CalibrationFolder open(Path dir, CalibrationConfig config) {
+        return open(dir, config.describe());
+    }
+
+    static CalibrationFolder open(Path dir, String description) {
+        CalibrationFolder folder = new CalibrationFolder(dir, description);
+        String existing = readDescription(dir);
+        if (existing == null) {
+            folder.write(CalibrationConfig.FILE, description);
+        } else if (!existing.equals(description)) {
+            throw new IllegalArgumentException("folder " + dir + " holds a calibration of another configuration (see "
+                    + dir.resolve(CalibrationConfig.FILE) + "); choose another folder");
+        }
+        return folder;
+    }
+
+    /** Opens an existing calibration folder. */
+    public static CalibrationFolder existing(Path dir) {
+        String description = readDescription(dir);
+        if (description == null) {
+            throw new IllegalArgumentException(dir + " is not a calibration folder: it has no " + CalibrationConfig.FILE);
+        }
+        return new CalibrationFolder(dir, description);
+    }
+
+    public Path dir() {
+        return dir;
+    }
+
+    /** The text of {@value CalibrationConfig#FILE}. */
+    public String description() {
+        return description;
+    }
+
+    /** The value of one {@code key = value} line of the configuration. */
+    public String value(String key) {
+        for (String line : description.split("\n")) {
+            if (line.startsWith(key + " = ")) {
+                return line.substring(key.length() + 3);
+            }
+        }
+        throw new IllegalArgumentException(dir.resolve(CalibrationConfig.FILE) + " has no " + key);
+    }
+
+    private static String readDescription(Path dir) {
+        Path file = dir.resolve(CalibrationConfig.FILE);
+        try {
+            return Files.exists(file) ? Files.readString(file, StandardCharsets.UTF_8) : null;
+        } catch (IOException e) {
+            throw new UncheckedIOException("could not read " + file + ": " + e.getMessage(), e);
+        }
+    }
+
+    static String fileName(int replication) {
+        return String.format(Locale.ROOT, "r%07d.csv", replication);
+    }
+
+    /** Records a finished replication. */
+    public void write(ReplicationResult result) {
+        StringBuilder sb = new StringBuilder(HEADER).append('\n');
+        for (ParameterRank p : result.ranks()) {
+            sb.append(p.parameter()).append(',').append(p.truth()).append(',').append(p.rank()).append(',')
+                    .append(p.draws()).append(',').append(p.rhat()).append(',').append(p.essBulk()).append(',')
+                    .append(p.essTail()).append(',').append(p.flagged()).append('\n');
+        }
+        write(REPLICATIONS + "/" + fileName(result.replication()), sb.toString());
+    }
+
+    /** The finished replications on disk, by index. */
+    public Map<Integer, ReplicationResult> finished() {
+        Map<Integer, ReplicationResult> results = new TreeMap<>();
+        Path folder = dir.resolve(REPLICATIONS);
+        if (!Files.isDirectory(folder)) {
+            return results;
+        }
+        try (Stream<Path> files = Files.list(folder)) {
+            for (Path f : files.sorted().toList()) {
+                String name = f.getFileName().toString();
+                if (name.matches("r\\d{7}\\.csv")) {
+                    int index = Integer.parseInt(name.substring(1, 8));
+                    results.put(index, read(f, index));
+                }
+            }
+        } catch (IOException e) {
+            throw new UncheckedIOException("could not read " + folder + ": " + e.getMessage(), e);
+        }
+        return results;
+    }
+
+    private static ReplicationResult read(Path file, int index) throws IOException {
+        List<String> lines = Files.readAllLines(file, StandardCharsets.UTF_8);
+        if (lines.isEmpty() || !lines.get(0).equals(HEADER)) {
+            throw new IOException(file + " is not a replication record (header " + HEADER + ")");
+        }
+        List<ParameterRank> ranks = new ArrayList<>();
+        for (int i = 1; i < lines.size(); i++) {
+            String[] f = lines.get(i).split(",", -1);
+            if (f.length != 8) {
+                throw new IOException(file + ": line " + (i + 1) + " has " + f.length + " fields, not 8");
+            }
+            try {
+                ranks.add(new ParameterRank(f[0], Double.parseDouble(f[1]), Integer.parseInt(f[2]),
+                        Integer.parseInt(f[3]), Double.parseDouble(f[4]), Double.parseDouble(f[5]),
+                        Double.parseDouble(f[6]), Boolean.parseBoolean(f[7])));
+            } catch (NumberFormatException e) {
+                throw new IOException(file + ": line " + (i + 1) + ": " + e.getMessage(), e);
+            }
+        }
+        return new ReplicationResult(index, ranks);
+    }
+
+    /** Copies a replication record of another folder into this one, unchanged. */
+    void copyFrom(CalibrationFolder other, int replication) {
+        Path from = other.dir.resolve(REPLICATIONS).resolve(fileName(replication));
+        try {
+            write(REPLICATIONS + "/" + fileName(replication), Files.readString(from, StandardCharsets.UTF_8));
+        } catch (IOException e) {
+            throw new UncheckedIOException("could not read " + from + ": " + e.getMessage(), e);
+        }
+    }
+
+    /** Writes {@code relative} atomically: to a temporary file in the same folder, then renamed. */
+    public void write(String relative, String text) {
+        Path target = dir.resolve(relative);
+        try {
+            Files.createDirectories(target.getParent());
+            Path tmp = Files.createTempFile(target.getParent(), "." + target.getFileName(), ".partial");
+            try {
+                try (BufferedWriter out = Files.newBufferedWriter(tmp, StandardCharsets.UTF_8)) {
+                    out.write(text);
+                }
+                try {
+                    Files.move(tmp, target, StandardCopyOption.ATOMIC_MOVE, StandardCopyOption.REPLACE_EXISTING);
+                } catch (AtomicMoveNotSupportedException e) {
+                    Files.move(tmp, target, StandardCopyOption.REPLACE_EXISTING);
+                }
+            } finally {
+                Files.deleteIfExists(tmp);
+            }
+        } catch (IOException e) {
+            throw new UncheckedIOException("could not write " + target + ": " + e.getMessage(), e);
+        }
+    }
+}
