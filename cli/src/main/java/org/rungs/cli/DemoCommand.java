@@ -44,6 +44,7 @@ final class DemoCommand implements Callable<Integer> {
             System.out.println();
             System.out.println("Estimates against the values the demo data were drawn from:");
             System.out.print(Demo.compare(outcome, demo.truth()));
+            Runs.writeReport(out);
             return outcome.result().interrupted() ? Main.INTERRUPTED : 0;
         } catch (SurveyInputException | IllegalArgumentException e) {
             System.err.println("rungs demo: " + e.getMessage());

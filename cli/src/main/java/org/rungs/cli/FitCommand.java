@@ -63,6 +63,9 @@ final class FitCommand implements Callable<Integer> {
     @Option(names = "--overwrite", description = "Replace the files of an earlier run in the output folder.")
     boolean overwrite;
 
+    @Option(names = "--report", description = "Also write report.html, a self-contained page of charts (same as 'rungs report DIR').")
+    boolean report;
+
     @Override
     public Integer call() {
         PrintStream err = System.err;
@@ -88,7 +91,7 @@ final class FitCommand implements Callable<Integer> {
             err.println("rungs fit: " + e.getMessage());
             return Main.INPUT_ERROR;
         }
-        return Runs.fit(request);
+        return Runs.fit(request, report);
     }
 
     private Map<String, Object> options(SamplerSettings settings) {

@@ -11,9 +11,13 @@ final class Runs {
     private Runs() {
     }
 
-    static int fit(FitRequest request) {
+    /** Runs the fit; with {@code report}, also writes report.html into the output folder. */
+    static int fit(FitRequest request, boolean report) {
         try (Interruption interruption = new Interruption()) {
             FitOutcome outcome = FitJob.run(request, System.out, System.err, interruption.flag());
+            if (report) {
+                writeReport(request.out());
+            }
             return outcome.result().interrupted() ? Main.INTERRUPTED : 0;
         } catch (SurveyInputException e) {
             System.err.println("rungs: " + e.getMessage());
@@ -21,6 +25,15 @@ final class Runs {
         } catch (IllegalArgumentException | UncheckedIOException e) {
             System.err.println("rungs: " + e.getMessage());
             return Main.INPUT_ERROR;
+        }
+    }
+
+    /** Writes report.html beside the fit's files and says where it is. */
+    static void writeReport(java.nio.file.Path dir) {
+        try {
+            System.err.println("rungs: report written to " + org.rungs.posteriors.report.Report.write(dir));
+        } catch (java.io.IOException e) {
+            throw new UncheckedIOException("could not write the report in " + dir + ": " + e.getMessage(), e);
         }
     }
 }

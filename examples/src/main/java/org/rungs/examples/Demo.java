@@ -45,6 +45,7 @@ public final class Demo {
         SurveySpec spec = SurveySpec.builder(SimulatedSurvey.RATING_COLUMN, new Scale(0, 10))
                 .group(SimulatedSurvey.GROUP_COLUMN)
                 .level(data.covariateNames().toArray(new String[0]))
+                .style(data.styleCovariateNames().toArray(new String[0]))
                 .build();
         Map<String, Object> options = new LinkedHashMap<>();
         options.put("demo", "invented survey of " + data.groupLabels().size() + " fictional regions, seed " + DemoScenario.SEED);
@@ -57,6 +58,14 @@ public final class Demo {
         return new Prepared(new FitRequest(file, spec, model, settings, out, true, options), data.truth());
     }
 
+    /** Common parameters and the per-group corrected means; group thresholds are counted, not shown. */
+    private static boolean shown(String name) {
+        if (name.startsWith("threshold.")) {
+            return name.chars().filter(c -> c == '.').count() == 1;
+        }
+        return !name.startsWith("style_group.") && !name.startsWith("harmonised_mean.");
+    }
+
     /**
      * A table of the true values beside the posterior of the main parameters, and how many true
      * values fall inside their 90% intervals.
@@ -66,7 +75,8 @@ public final class Demo {
         sb.append(String.format(Locale.ROOT, "%-34s %9s %9s %20s%n", "parameter", "true", "mean", "90% interval"));
         int inside = 0;
         int total = 0;
-        List<ParameterSummary> rows = outcome.summaries();
+        List<ParameterSummary> rows = new java.util.ArrayList<>(outcome.summaries());
+        rows.addAll(outcome.derived());
         for (ParameterSummary s : rows) {
             Double t = truth.get(s.name());
             if (t == null) {
@@ -77,7 +87,7 @@ public final class Demo {
             if (covered) {
                 inside++;
             }
-            if (!s.name().startsWith("threshold.") || s.name().chars().filter(c -> c == '.').count() == 1) {
+            if (shown(s.name())) {
                 sb.append(String.format(Locale.ROOT, "%-34s %9.3f %9.3f   [%7.3f, %7.3f]%s%n", s.name(), t, s.mean(),
                         s.q05(), s.q95(), covered ? "" : "  outside"));
             }

@@ -468,7 +468,7 @@ public final class Simulator {
             put(truth, "style_sd", sampleSd(gamma));
         }
         for (int g = 0; g < groups.size(); g++) {
-            put(truth, "style." + groups.get(g).label(), gamma[g] + shift);
+            put(truth, "style_group." + groups.get(g).label(), gamma[g] + shift);
         }
     }
 

@@ -58,7 +58,7 @@ class DemoScenarioTest {
                 assertTrue(truth.containsKey("attraction." + region + "." + j), region + " " + j);
             }
             assertFalse(truth.containsKey("attraction." + region + ".5"), "coarse points are the reference");
-            assertTrue(truth.containsKey("coarse_share." + region) && truth.containsKey("style." + region));
+            assertTrue(truth.containsKey("coarse_share." + region) && truth.containsKey("style_group." + region));
         }
         // Eastmarch likes 7 and avoids 4 (invented).
         assertTrue(truth.get("attraction.Eastmarch.7") > 0.5 && truth.get("attraction.Eastmarch.4") < -0.3);

@@ -174,7 +174,7 @@ class ResponseStyleTest {
         Set<String> expected = new HashSet<>(List.of("style.hours", "style.hours.per_unit", "style.schooling=short",
                 "style.schooling=long", "style_mean", "style_sd", "attraction.4", "attraction.8", "attraction_sd"));
         for (String label : List.of("A", "B", "C")) {
-            expected.addAll(List.of("style." + label, "attraction." + label + ".4", "attraction." + label + ".8"));
+            expected.addAll(List.of("style_group." + label, "attraction." + label + ".4", "attraction." + label + ".8"));
             expected.addAll(SimulatorTest.derivedNames(label, true));
         }
         names.removeIf(name -> name.startsWith("level.") || name.startsWith("group") || name.startsWith("threshold"));
@@ -286,7 +286,7 @@ class ResponseStyleTest {
         int[] group = survey.group();
         double[] index = new double[survey.size()];
         for (int i = 0; i < index.length; i++) {
-            index[i] = truth.get("style." + survey.groupLabels().get(group[i]));
+            index[i] = truth.get("style_group." + survey.groupLabels().get(group[i]));
         }
         double[] hours = survey.covariate("hours");
         double mean = StatUtils.mean(hours);

@@ -66,7 +66,7 @@ class SimulatorTest {
                 String name = "threshold." + label + "." + k;
                 assertEquals(one.truth().get(name), two.truth().get(name), name);
             }
-            assertEquals(one.truth().get("style." + label), two.truth().get("style." + label));
+            assertEquals(one.truth().get("style_group." + label), two.truth().get("style_group." + label));
         }
     }
 

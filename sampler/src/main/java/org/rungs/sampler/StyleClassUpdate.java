@@ -10,13 +10,14 @@ import org.rungs.priors.Priors;
 import org.rungs.priors.StandardNormal;
 
 /**
- * The coarse class of MODEL.md 4, group by group, in three steps.
+ * The coarse class of MODEL.md 4, in three steps.
  *
  * <p>First a random-walk Metropolis move of the group's coarse-class intercept gamma[g] with the
  * classes summed out (the likelihood of MODEL.md 4c): the Gibbs cycle of class indicators and
  * probit latents alone moves gamma only as far as the current classes allow, which is little
- * when a heap can be read either as coarse answers or as wide categories. Its scale adapts
- * during warm-up only (Roberts & Rosenthal 2009, section 3).
+ * when a heap can be read either as coarse answers or as wide categories; then a joint move of
+ * the coefficients delta in the same way. Scales adapt during warm-up only (Roberts & Rosenthal
+ * 2009, section 3).
  *
  * <p>Then each respondent's class from its full conditional with the latent level and intended
  * answer summed out: P(coarse | r) = q P(r | coarse) / ((1 - q) P(r | full) + q P(r | coarse)),
@@ -31,10 +32,13 @@ final class StyleClassUpdate implements Update {
     private final TruncatedNormalSampler truncatedNormal;
     private final ZigguratSampler.NormalizedGaussian normal;
     private final Normal meanPrior;
+    private final Normal coefficientPrior;
     private final double[] logScale;
     private final double[] full;
     private final double[] coarse;
     private final double[] linear;
+    private final double[] coefficientStep;
+    private double coefficientLogScale;
     private int warmupStep;
 
     private StyleClassUpdate(ChainState state, Priors priors, UniformRandomProvider rng) {
@@ -43,17 +47,18 @@ final class StyleClassUpdate implements Update {
         this.truncatedNormal = TruncatedNormalSampler.of(rng);
         this.normal = ZigguratSampler.NormalizedGaussian.of(rng);
         this.meanPrior = priors.styleMean();
+        this.coefficientPrior = priors.style();
         this.logScale = new double[state.groups];
-        int largest = 0;
         int m = state.categories;
         for (int g = 0; g < state.groups; g++) {
             int size = state.start[(g + 1) * m] - state.start[g * m];
-            largest = Math.max(largest, size);
             logScale[g] = Math.log(2.0 / Math.sqrt(1.0 + size));
         }
-        this.full = new double[largest];
-        this.coarse = new double[largest];
-        this.linear = new double[largest];
+        this.full = new double[state.size];
+        this.coarse = new double[state.size];
+        this.linear = new double[state.size];
+        this.coefficientStep = new double[state.style.count];
+        this.coefficientLogScale = Math.log(1.0 / Math.sqrt(1.0 + state.size));
     }
 
     static StyleClassUpdate of(ChainState state, Priors priors, UniformRandomProvider rng) {
@@ -72,7 +77,12 @@ final class StyleClassUpdate implements Update {
             int to = s.start[(g + 1) * m];
             prepare(g, from, to);
             moveIntercept(g, from, to, adapt);
-            drawClasses(g, from, to);
+        }
+        if (style.count > 0) {
+            moveCoefficients(adapt);
+        }
+        for (int g = 0; g < s.groups; g++) {
+            drawClasses(g, s.start[g * m], s.start[(g + 1) * m]);
         }
         if (adapt) {
             warmupStep++;
@@ -86,7 +96,7 @@ final class StyleClassUpdate implements Update {
         int row = g * (s.categories + 1);
         for (int i = from; i < to; i++) {
             int r = s.category[i];
-            int at = i - from;
+            int at = i;
             linear[at] = s.style.linear(i, g);
             if (channel.isPoint(r)) {
                 double eta = s.eta(i);
@@ -104,7 +114,7 @@ final class StyleClassUpdate implements Update {
         double step = Math.exp(logScale[g]) * normal.sample();
         double change = 0;
         for (int i = from; i < to; i++) {
-            int at = i - from;
+            int at = i;
             double before = linear[at];
             double after = before + step;
             if (Double.isNaN(full[at])) {
@@ -129,11 +139,57 @@ final class StyleClassUpdate implements Update {
                 style.mean = style.intercept[g];
             }
             for (int i = from; i < to; i++) {
-                linear[i - from] += step;
+                linear[i] += step;
             }
         }
         if (adapt) {
             logScale[g] += Math.pow(warmupStep + 1.0, -0.6) * ((accept ? 1 : 0) - TARGET_ACCEPTANCE);
+        }
+    }
+
+    /**
+     * A random-walk move of all coarse-class coefficients delta together, with the classes summed
+     * out as in {@link #moveIntercept}: the class indicators otherwise tie delta to the current
+     * classification. Every respondent's likelihood changes; the step scale adapts in warm-up.
+     */
+    private void moveCoefficients(boolean adapt) {
+        ChainState s = state;
+        RegressionBlock style = s.style;
+        double scale = Math.exp(coefficientLogScale);
+        for (int j = 0; j < style.count; j++) {
+            coefficientStep[j] = scale * normal.sample();
+        }
+        double change = 0;
+        for (int i = 0; i < s.size; i++) {
+            double before = linear[i];
+            double after = before;
+            for (int j = 0; j < style.count; j++) {
+                after += style.columns[j][i] * coefficientStep[j];
+            }
+            if (Double.isNaN(full[i])) {
+                change += StandardNormal.logUpperTail(after) - StandardNormal.logUpperTail(before);
+            } else {
+                change += logMixture(i, after) - logMixture(i, before);
+            }
+        }
+        double prior = 0;
+        for (int j = 0; j < style.count; j++) {
+            prior += coefficientPrior.logDensity(style.coefficient[j] + coefficientStep[j])
+                    - coefficientPrior.logDensity(style.coefficient[j]);
+        }
+        boolean accept = Math.log(rng.nextDouble()) < change + prior;
+        if (accept) {
+            for (int j = 0; j < style.count; j++) {
+                style.coefficient[j] += coefficientStep[j];
+            }
+            for (int i = 0; i < s.size; i++) {
+                for (int j = 0; j < style.count; j++) {
+                    linear[i] += style.columns[j][i] * coefficientStep[j];
+                }
+            }
+        }
+        if (adapt) {
+            coefficientLogScale += Math.pow(warmupStep + 1.0, -0.6) * ((accept ? 1 : 0) - TARGET_ACCEPTANCE);
         }
     }
 
@@ -152,7 +208,7 @@ final class StyleClassUpdate implements Update {
         ChainState s = state;
         RegressionBlock style = s.style;
         for (int i = from; i < to; i++) {
-            int at = i - from;
+            int at = i;
             double mean = linear[at];
             byte z = 0;
             if (!Double.isNaN(full[at])) {

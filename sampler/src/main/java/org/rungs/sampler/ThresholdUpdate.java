@@ -37,6 +37,9 @@ final class ThresholdUpdate implements Update {
      * than a second sweep (demo: bulk ESS of the group thresholds roughly doubled).
      */
     private static final int PASSES = 2;
+    /** Bounds of the running product of likelihood ratios before its log is taken. */
+    private static final double PRODUCT_LOW = 1e-150;
+    private static final double PRODUCT_HIGH = 1e150;
     private final ChainState state;
     private final int[] start;
     private final UniformRandomProvider rng;
@@ -52,6 +55,18 @@ final class ThresholdUpdate implements Update {
      * and the coarse points whose coarse-class probability has k as an outer boundary.
      */
     private final int[][] visited;
+    /** Per respondent: x_i' beta, fixed while the thresholds move (the level moves with alpha). */
+    private final double[] covariatePart;
+    /** Per respondent: the smaller normal tail at the lower and at the upper bound of its category. */
+    final double[] lowerTail;
+    final double[] upperTail;
+    /**
+     * Per respondent reporting a coarse point (coarse class on): q, P(r | full) and
+     * P(r | coarse) at the current state, so a step recomputes only the part it changes.
+     */
+    private final double[] mixtureQ;
+    final double[] mixtureFull;
+    final double[] mixtureCoarse;
     private long accepted;
     private long tried;
     private int warmupStep;
@@ -67,6 +82,13 @@ final class ThresholdUpdate implements Update {
         this.stride = state.categories + 1;
         this.cuts = state.categories - 1;
         this.logScale = new double[blocks * cuts];
+        this.covariatePart = new double[state.size];
+        this.lowerTail = new double[state.size];
+        this.upperTail = new double[state.size];
+        int mixtureSize = state.channel == null ? 0 : state.size;
+        this.mixtureQ = new double[mixtureSize];
+        this.mixtureFull = new double[mixtureSize];
+        this.mixtureCoarse = new double[mixtureSize];
         this.visited = new int[cuts + 1][];
         for (int k = 1; k <= cuts; k++) {
             int kk = k;
@@ -105,6 +127,7 @@ final class ThresholdUpdate implements Update {
 
     @Override
     public void update(boolean adapt) {
+        refresh();
         for (int pass = 0; pass < PASSES; pass++) {
             for (int b = 0; b < blocks; b++) {
                 for (int k = 1; k <= cuts; k++) {
@@ -115,6 +138,51 @@ final class ThresholdUpdate implements Update {
         if (adapt) {
             warmupStep++;
         }
+    }
+
+    /**
+     * Recomputes the per-respondent caches for the current coefficients and thresholds: each
+     * bound's distance to the level changes only at the moved threshold, so a step then costs
+     * one normal-function call per respondent it touches.
+     */
+    void refresh() {
+        ChainState s = state;
+        RegressionBlock level = s.level;
+        double[] t = s.thresholds;
+        for (int i = 0; i < s.size; i++) {
+            int g = s.group[i];
+            double part = level.linear(i, g) - level.intercept[g];
+            covariatePart[i] = part;
+            double eta = level.intercept[g] + part;
+            int at = g * stride + s.category[i];
+            lowerTail[i] = tail(t[at] - eta);
+            upperTail[i] = tail(t[at + 1] - eta);
+            if (s.channel != null && s.channel.isPoint(s.category[i])) {
+                mixtureQ[i] = StandardNormal.cdf(s.style.linear(i, g));
+                refreshMixture(i, g * stride, s.category[i], eta);
+            }
+        }
+    }
+
+    private void refreshMixture(int i, int row, int j, double eta) {
+        mixtureFull[i] = ResponseLikelihood.full(state.thresholds, row, j, eta, -1, 0);
+        mixtureCoarse[i] = ResponseLikelihood.coarse(state.channel, state.thresholds, row, j, eta, -1, 0);
+    }
+
+    /** The smaller tail at x: Phi(x) for x <= 0, 1 - Phi(x) above, each without cancellation. */
+    static double tail(double x) {
+        return x <= 0 ? StandardNormal.cdf(x) : StandardNormal.upperTail(x);
+    }
+
+    /** Phi(upper) - Phi(lower) from the bounds and their smaller tails, without cancellation. */
+    static double interval(double lower, double lowerTail, double upper, double upperTail) {
+        if (lower > 0) {
+            return lowerTail - upperTail;
+        }
+        if (upper <= 0) {
+            return upperTail - lowerTail;
+        }
+        return 1 - lowerTail - upperTail;
     }
 
     private void step(int b, int k, boolean adapt) {
@@ -140,6 +208,7 @@ final class ThresholdUpdate implements Update {
                 s.shareCommonThresholds();
             }
             shiftLevel(b, -share);
+            moveTails(b, k, delta);
         }
         if (adapt) {
             logScale[slot] += Math.pow(warmupStep + 1.0, -0.6) * ((accept ? 1 : 0) - TARGET_ACCEPTANCE);
@@ -205,18 +274,40 @@ final class ThresholdUpdate implements Update {
                 int to = start[g * m + j + 1];
                 if (channel != null && channel.isPoint(j)) {
                     for (int i = from; i < to; i++) {
-                        change += mixtureLogRatio(row, j, s.eta(i), StandardNormal.cdf(s.style.linear(i, g)), k, delta);
+                        change += mixtureLogRatio(i, row, j, s.level.intercept[g] + covariatePart[i], k, delta);
                     }
                 } else if (j == k - 1) {
+                    double alpha = s.level.intercept[g];
+                    double product = 1;
                     for (int i = from; i < to; i++) {
-                        double eta = s.eta(i);
-                        change += logRatioUpperMoved(lower - eta, cut - eta, cut + delta - eta);
+                        double eta = alpha + covariatePart[i];
+                        double low = lower - eta;
+                        double high = cut - eta;
+                        double before = interval(low, lowerTail[i], high, upperTail[i]);
+                        double after = interval(low, lowerTail[i], high + delta, tail(high + delta));
+                        product = accumulate(product, before, after, low, high, low, high + delta);
+                        if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
+                            change += Math.log(product);
+                            product = 1;
+                        }
                     }
+                    change += Math.log(product);
                 } else {
+                    double alpha = s.level.intercept[g];
+                    double product = 1;
                     for (int i = from; i < to; i++) {
-                        double eta = s.eta(i);
-                        change += logRatioUpperMoved(-(upper - eta), -(cut - eta), -(cut + delta - eta));
+                        double eta = alpha + covariatePart[i];
+                        double low = cut - eta;
+                        double high = upper - eta;
+                        double before = interval(low, lowerTail[i], high, upperTail[i]);
+                        double after = interval(low + delta, tail(low + delta), high, upperTail[i]);
+                        product = accumulate(product, before, after, low, high, low + delta, high);
+                        if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
+                            change += Math.log(product);
+                            product = 1;
+                        }
                     }
+                    change += Math.log(product);
                 }
             }
         }
@@ -224,14 +315,56 @@ final class ThresholdUpdate implements Update {
     }
 
     /**
+     * Multiplies the running product of likelihood ratios by after/before; where either
+     * probability underflows, by the ratio computed in log space instead. The caller takes the
+     * log of the product whenever it leaves [PRODUCT_LOW, PRODUCT_HIGH], so one log serves many
+     * respondents without overflow.
+     */
+    private static double accumulate(double product, double before, double after,
+                                     double low, double high, double newLow, double newHigh) {
+        if (before > 1e-280 && after > 1e-280) {
+            return product * (after / before);
+        }
+        return product * Math.exp(Math.max(-700, Math.min(700,
+                StandardNormal.logIntervalProbability(newLow, newHigh) - StandardNormal.logIntervalProbability(low, high))));
+    }
+
+    /** After an accepted move of threshold k by delta: the tails at k of the two runs beside it. */
+    private void moveTails(int b, int k, double delta) {
+        ChainState s = state;
+        int m = s.categories;
+        double[] t = s.thresholds;
+        for (int g = firstGroup(b); g <= lastGroup(b); g++) {
+            double alpha = s.level.intercept[g];
+            double cut = t[g * stride + k];
+            for (int i = start[g * m + k - 1], end = start[g * m + k]; i < end; i++) {
+                upperTail[i] = tail(cut - alpha - covariatePart[i]);
+            }
+            for (int i = start[g * m + k], end = start[g * m + k + 1]; i < end; i++) {
+                lowerTail[i] = tail(cut - alpha - covariatePart[i]);
+            }
+            if (s.channel != null) {
+                for (int j : visited[k]) {
+                    if (s.channel.isPoint(j)) {
+                        for (int i = start[g * m + j], end = start[g * m + j + 1]; i < end; i++) {
+                            refreshMixture(i, g * stride, j, alpha + covariatePart[i]);
+                        }
+                    }
+                }
+            }
+        }
+    }
+
+    /**
      * The change of log((1 - q) P(r = j | full) + q P(r = j | coarse)) (MODEL.md 4c, the class
      * summed out) when boundary k moves by delta, for a respondent reporting coarse point j.
      */
-    private double mixtureLogRatio(int row, int j, double eta, double q, int k, double delta) {
+    private double mixtureLogRatio(int i, int row, int j, double eta, int k, double delta) {
         RoundingChannel channel = state.channel;
         double[] t = state.thresholds;
-        double fullBefore = ResponseLikelihood.full(t, row, j, eta, -1, 0);
-        double coarseBefore = ResponseLikelihood.coarse(channel, t, row, j, eta, -1, 0);
+        double q = mixtureQ[i];
+        double fullBefore = mixtureFull[i];
+        double coarseBefore = mixtureCoarse[i];
         double fullAfter = j == k - 1 || j == k ? ResponseLikelihood.full(t, row, j, eta, k, delta) : fullBefore;
         double coarseAfter = channel.dependsOn(j, k) ? ResponseLikelihood.coarse(channel, t, row, j, eta, k, delta) : coarseBefore;
         double before = (1 - q) * fullBefore + q * coarseBefore;
@@ -250,30 +383,6 @@ final class ThresholdUpdate implements Update {
         double lower = t[row + j] + (j == k ? delta : 0);
         double upper = t[row + j + 1] + (j + 1 == k ? delta : 0);
         return StandardNormal.logIntervalProbability(lower - eta, upper - eta);
-    }
-
-    /**
-     * log P(lower, newUpper) - log P(lower, upper) for a standard normal, as the log of a ratio of
-     * probabilities taken on the tail side where the interval lies (no cancellation), with a fall
-     * back to the log-space computation when a probability underflows. By symmetry, moving a
-     * lower bound is the same call on the mirrored interval [-upper, -lower].
-     */
-    static double logRatioUpperMoved(double lower, double upper, double newUpper) {
-        double before;
-        double after;
-        if (lower > 0) {
-            double tail = StandardNormal.upperTail(lower);
-            before = tail - StandardNormal.upperTail(upper);
-            after = tail - StandardNormal.upperTail(newUpper);
-        } else {
-            double below = StandardNormal.cdf(lower);
-            before = StandardNormal.cdf(upper) - below;
-            after = StandardNormal.cdf(newUpper) - below;
-        }
-        if (before > 1e-280 && after > 1e-280) {
-            return Math.log(after / before);
-        }
-        return StandardNormal.logIntervalProbability(lower, newUpper) - StandardNormal.logIntervalProbability(lower, upper);
     }
 
     /**

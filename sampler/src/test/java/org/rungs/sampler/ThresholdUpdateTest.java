@@ -8,29 +8,21 @@ import org.rungs.priors.StandardNormal;
 
 class ThresholdUpdateTest {
     /**
-     * The fast ratio must equal the difference of log interval probabilities computed in log
-     * space by StandardNormal (itself checked against 256-bit references), in the body and in
-     * both tails, including where the probabilities underflow.
+     * Interval probabilities from the cached smaller tails must equal those computed in log space
+     * by StandardNormal (itself checked against 256-bit values), in the body and in both tails.
      */
     @Test
-    void fastLikelihoodRatioMatchesLogSpaceComputation() {
+    void intervalFromTailsMatchesLogSpaceComputation() {
         double[][] cases = {
-            {-0.5, 0.3, 0.35}, {-1e300, 0.1, -0.2}, {1.5, 2.0, 2.5}, {6, 7, 6.5}, {9, 10, 12},
-            {-10, -9, -9.5}, {-3, Double.POSITIVE_INFINITY, 2}, {39, 40, 41}, {-41, -40, -39.9}, {0.2, 0.2001, 0.2002}
+            {-0.5, 0.3}, {-1e300, 0.1}, {1.5, 2.0}, {6, 7}, {9, 12}, {-10, -9}, {-3, Double.POSITIVE_INFINITY},
+            {Double.NEGATIVE_INFINITY, -30}, {0.2, 0.2001}, {-0.7, 0.9}, {25, 26}
         };
         for (double[] c : cases) {
-            double lower = c[0];
-            double upper = c[1];
-            double moved = c[2];
-            if (!(moved > lower)) {
-                continue;
-            }
-            double expected = StandardNormal.logIntervalProbability(lower, moved) - StandardNormal.logIntervalProbability(lower, upper);
-            double actual = ThresholdUpdate.logRatioUpperMoved(lower, upper, moved);
-            assertTrue(Double.isFinite(actual), "finite for " + java.util.Arrays.toString(c));
-            // Ratios of probabilities each accurate to ~1e-15 relative: 1e-9 absolute leaves room for
-            // the narrow interval, whose probabilities lose ~1e-12 to the rounding of the bounds.
-            assertEquals(expected, actual, 1e-9 * Math.max(1, Math.abs(expected)), java.util.Arrays.toString(c));
+            double p = ThresholdUpdate.interval(c[0], ThresholdUpdate.tail(c[0]), c[1], ThresholdUpdate.tail(c[1]));
+            double expected = StandardNormal.logIntervalProbability(c[0], c[1]);
+            // Each tail is exact to ~1e-15 relative and the difference is taken where it does not
+            // cancel: 1e-12 relative, looser for the narrow interval whose bounds' rounding costs ~1e-12.
+            assertEquals(expected, Math.log(p), 1e-9 * Math.max(1, Math.abs(expected)), java.util.Arrays.toString(c));
         }
     }
 
@@ -57,6 +49,7 @@ class ThresholdUpdateTest {
                 }
             }
             ThresholdUpdate update = ThresholdUpdate.of(s, s.start, org.rungs.priors.Priors.defaults(), rng);
+            update.refresh();
             int blocks = byGroup ? s.groups : 1;
             double delta = 0.07;
             for (int b = 0; b < blocks; b++) {
@@ -79,6 +72,37 @@ class ThresholdUpdateTest {
                     // Sums of a few hundred terms each exact to ~1e-15: 1e-9 absolute is ample.
                     assertEquals(expected, update.logLikelihoodChange(b, k, delta), 1e-9, "block " + b + " threshold " + k + " byGroup " + byGroup);
                 }
+            }
+        }
+    }
+
+    /** After a sweep of accepted and rejected moves, the tails kept up to date equal freshly computed ones. */
+    @Test
+    void cachedTailsFollowAcceptedMoves() {
+        org.rungs.models.survey.Survey survey = FitterTest.smallSurvey(9L, 60);
+        org.rungs.models.RoundingChannel channel = org.rungs.models.RoundingChannel.of(survey.scale(), new int[] {1, 3, 5});
+        for (int variant = 0; variant < 4; variant++) {
+            boolean byGroup = variant % 2 == 0;
+            ChainState s = new ChainState(SurveyOrder.of(survey), byGroup, variant < 2 ? null : channel);
+            org.apache.commons.rng.UniformRandomProvider rng = org.apache.commons.rng.simple.RandomSource.XO_RO_SHI_RO_128_PP.create(4L);
+            InitialValues.apply(s, -1, rng);
+            ThresholdUpdate update = ThresholdUpdate.of(s, s.start, org.rungs.priors.Priors.defaults(), rng);
+            for (int sweep = 0; sweep < 5; sweep++) {
+                update.update(true);
+            }
+            double[] lower = update.lowerTail.clone();
+            double[] upper = update.upperTail.clone();
+            double[] full = update.mixtureFull.clone();
+            double[] coarse = update.mixtureCoarse.clone();
+            update.refresh();
+            for (int i = 0; i < full.length; i++) {
+                assertEquals(update.mixtureFull[i], full[i], 1e-13, "P(r | full) of respondent " + i);
+                assertEquals(update.mixtureCoarse[i], coarse[i], 1e-13, "P(r | coarse) of respondent " + i);
+            }
+            for (int i = 0; i < s.size; i++) {
+                // Both are the same function of the same doubles up to the order of two additions.
+                assertEquals(update.lowerTail[i], lower[i], 1e-13, "lower tail of respondent " + i);
+                assertEquals(update.upperTail[i], upper[i], 1e-13, "upper tail of respondent " + i);
             }
         }
     }

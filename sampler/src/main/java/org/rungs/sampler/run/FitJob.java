@@ -7,7 +7,12 @@ import java.util.List;
 import java.util.Locale;
 import java.util.Map;
 import java.util.concurrent.atomic.AtomicBoolean;
+import org.rungs.models.ModelSpec;
+import org.rungs.models.NaiveRegression;
 import org.rungs.models.ParameterLayout;
+import org.rungs.models.StyleClasses;
+import org.rungs.sampler.derived.DerivedQuantities;
+import org.rungs.sampler.derived.DerivedResult;
 import org.rungs.models.survey.Exclusions;
 import org.rungs.models.survey.Survey;
 import org.rungs.models.survey.SurveyInputException;
@@ -25,6 +30,14 @@ import org.rungs.sampler.Fitter;
  * {@code summary.csv} and {@code run.json}. Input errors surface before anything is written.
  */
 public final class FitJob {
+    /**
+     * Draws used for the derived quantities (spread evenly over the chains): their cost is that of
+     * a sweep with ~35 normal-function calls per respondent, so they are thinned.
+     */
+    static final int DERIVED_DRAWS = 500;
+    /** Fewer kept iterations than this (an early interruption) leave no derived quantities. */
+    private static final int MIN_DERIVED_ITERATIONS = 4;
+
     private FitJob() {
     }
 
@@ -65,17 +78,65 @@ public final class FitJob {
 
         folder.write("draws.csv", tmp -> DrawsCsv.write(result.draws(), tmp));
         folder.write("summary.csv", tmp -> SummaryTable.writeCsv(summaries, tmp));
+
+        List<ParameterSummary> derivedSummaries = List.of();
+        DerivedResult derived = null;
+        if (result.draws().iterations() >= MIN_DERIVED_ITERATIONS) {
+            derived = DerivedQuantities.compute(survey, result.draws(), result.layout(), request.model(),
+                    DERIVED_DRAWS, request.settings().seed(), request.settings().threads());
+            derivedSummaries = Summaries.of(derived.draws());
+            writeDerived(request, survey, folder, derived, derivedSummaries, err, stop);
+        }
         record.put("input", input(request, survey, exclusions, readSeconds));
         record.put("options", request.options());
         record.put("model", model(request, survey, result.layout()));
         record.put("sampler", sampler(result));
+        record.put("derived_draws", derived == null ? 0 : derived.draws().iterations() * derived.draws().chains());
+        if (derivedSummaries.stream().anyMatch(ParameterSummary::flagged)) {
+            record.warn("derived quantities: " + SummaryTable.verdict(derivedSummaries));
+        }
         record.put("finished", Instant.now().toString());
         folder.writeText(OutputFolder.RUN_RECORD, record.toJson());
 
         out.print(SummaryTable.format(summaries));
         out.println(verdict);
-        out.println("Files written to " + folder.dir().toAbsolutePath() + ": draws.csv, summary.csv, run.json");
-        return new FitOutcome(survey, result, summaries, verdict, record.warnings());
+        if (derived != null) {
+            out.println("Derived quantities: " + SummaryTable.verdict(derivedSummaries));
+            out.println();
+            out.print(GroupTable.format(derived, derivedSummaries));
+        }
+        out.println("Files written to " + folder.dir().toAbsolutePath() + ": draws.csv, summary.csv, derived_draws.csv, "
+                + "derived_summary.csv, groups.csv, distributions.csv"
+                + (request.model().styleClasses().coarse() ? ", coarse_shares.csv" : "")
+                + (survey.level().count() > 0 ? ", coefficients.csv" : "") + ", run.json");
+        return new FitOutcome(survey, result, summaries, verdict, record.warnings(), derivedSummaries);
+    }
+
+    /** Writes the corrected quantities, and the comparison of effects (which may fit the plain model). */
+    private static void writeDerived(FitRequest request, Survey survey, OutputFolder folder, DerivedResult derived,
+                                     List<ParameterSummary> derivedSummaries, PrintStream err, AtomicBoolean stop) {
+        folder.write("derived_draws.csv", tmp -> DrawsCsv.write(derived.draws(), tmp));
+        folder.write("derived_summary.csv", tmp -> SummaryTable.writeCsv(derivedSummaries, tmp));
+        folder.write("groups.csv", tmp -> DerivedQuantities.writeGroups(derived, derivedSummaries, tmp));
+        folder.write("distributions.csv", tmp -> DerivedQuantities.writeDistributions(derived, derivedSummaries, tmp));
+        if (request.model().styleClasses().coarse()) {
+            folder.write("coarse_shares.csv", tmp -> DerivedQuantities.writeCoarseShares(derived, derivedSummaries, tmp));
+        }
+        List<ParameterSummary> plain = null;
+        if (request.model().styleClasses().coarse() && survey.level().count() > 0 && !stop.get()) {
+            err.println("rungs: fitting the plain ordered probit (style classes off) for the comparison of effects...");
+            ModelSpec plainSpec = request.model().withStyleClasses(StyleClasses.none());
+            FitResult plainFit = Fitter.fit(survey, plainSpec, request.settings(),
+                    new ConsoleProgress(err, request.settings().chains(), 2.0), stop);
+            DerivedResult plainDerived = DerivedQuantities.compute(survey, plainFit.draws(), plainFit.layout(), plainSpec,
+                    DERIVED_DRAWS, request.settings().seed(), request.settings().threads());
+            plain = Summaries.of(plainDerived.draws());
+        }
+        if (survey.level().count() > 0) {
+            double[] naive = NaiveRegression.coefficients(survey);
+            List<ParameterSummary> plainSummaries = plain;
+            folder.write("coefficients.csv", tmp -> CoefficientTable.write(survey.level(), derivedSummaries, naive, plainSummaries, tmp));
+        }
     }
 
     private static Map<String, Object> input(FitRequest request, Survey survey, Exclusions exclusions, double seconds) {

@@ -13,7 +13,8 @@ import org.rungs.sampler.FitResult;
  * @param summaries one row per parameter, as in {@code summary.csv}
  * @param verdict   the one-line convergence verdict
  * @param warnings  every warning, as in {@code run.json}
+ * @param derived   one row per derived quantity (MODEL.md 6), as in {@code derived_summary.csv}
  */
 public record FitOutcome(Survey survey, FitResult result, List<ParameterSummary> summaries, String verdict,
-                         List<String> warnings) {
+                         List<String> warnings, List<ParameterSummary> derived) {
 }

@@ -1,0 +1,72 @@
+package org.rungs.posteriors.report;
+
+import java.awt.BasicStroke;
+import java.awt.geom.Ellipse2D;
+import java.util.List;
+import java.util.Map;
+import org.jfree.chart.JFreeChart;
+import org.jfree.chart.axis.NumberAxis;
+import org.jfree.chart.plot.ValueMarker;
+import org.jfree.chart.plot.XYPlot;
+import org.jfree.chart.renderer.xy.XYErrorRenderer;
+import org.jfree.data.xy.YIntervalSeries;
+import org.jfree.data.xy.YIntervalSeriesCollection;
+
+/**
+ * Section 6: the attraction profile per group, exp(a[g,j]) per attracting number j with its 90%
+ * interval (MODEL.md section 6); 1 means no pull, above 1 a liked number, below 1 an avoided one.
+ */
+final class AttractionSection {
+    private static final int WIDTH = 340;
+    private static final int HEIGHT = 220;
+
+    private AttractionSection() {
+    }
+
+    static void write(FitFolder fit, StringBuilder out) {
+        out.append("<section id=\"attraction\"><h2>6. Attraction to numbers</h2>\n");
+        CsvTable table = fit.attraction();
+        if (table == null) {
+            String setting = fit.text("model.attraction", "none");
+            out.append("<p>").append(setting.equals("none") || setting.equals("off")
+                    ? "Number attraction was off in this model, so there is no attraction profile."
+                    : "The attraction profile was not computed for this fit (no attraction.csv in the folder).").append("</p></section>\n");
+            return;
+        }
+        out.append("<p class=\"note\">exp(a) multiplies the chance of answering a number: 1 (dashed line) is no pull, 1.5 means ")
+                .append("the number is chosen 50% more often than the respondent's latent position implies, 0.7 that it is avoided. ")
+                .append("Points are posterior means, bars 90% intervals; \"all\" holds the terms common to every group.</p>\n");
+        out.append("<div class=\"grid scroll\">\n");
+        int g = 0;
+        for (Map.Entry<String, List<Integer>> entry : GroupRows.of(table).entrySet()) {
+            g++;
+            YIntervalSeries series = new YIntervalSeries("exp(a)");
+            for (int r : entry.getValue()) {
+                series.add(table.number(r, "rating"), table.number(r, "exp_a_mean"), table.number(r, "exp_a_q5"),
+                        table.number(r, "exp_a_q95"));
+            }
+            YIntervalSeriesCollection data = new YIntervalSeriesCollection();
+            data.addSeries(series);
+            XYErrorRenderer renderer = new XYErrorRenderer();
+            renderer.setDrawXError(false);
+            renderer.setDefaultLinesVisible(false);
+            renderer.setSeriesPaint(0, Charts.BLUE);
+            renderer.setErrorPaint(Charts.BLUE);
+            renderer.setErrorStroke(new BasicStroke(1.6f));
+            renderer.setSeriesShape(0, new Ellipse2D.Double(-3.5, -3.5, 7, 7));
+            NumberAxis x = new NumberAxis("Rating (scale points)");
+            x.setStandardTickUnits(NumberAxis.createIntegerTickUnits());
+            x.setRange(series.getX(0).doubleValue() - 0.8, series.getX(series.getItemCount() - 1).doubleValue() + 0.8);
+            NumberAxis y = new NumberAxis("exp(a) (1 = no pull)");
+            y.setAutoRangeIncludesZero(true);
+            XYPlot plot = new XYPlot(data, x, y, renderer);
+            plot.addRangeMarker(new ValueMarker(1.0, Charts.BLACK,
+                    new BasicStroke(1f, BasicStroke.CAP_BUTT, BasicStroke.JOIN_MITER, 1f, new float[] {4f, 4f}, 0f)));
+            JFreeChart chart = Charts.styled(new JFreeChart(null, JFreeChart.DEFAULT_TITLE_FONT, plot, false));
+            out.append("<figure><figcaption><b>").append(Html.escape(entry.getKey())).append("</b></figcaption>")
+                    .append(Charts.svg(chart, "attraction-" + g, WIDTH, HEIGHT, "Attraction profile of " + entry.getKey()))
+                    .append("</figure>\n");
+        }
+        out.append("</div></section>\n");
+    }
+}

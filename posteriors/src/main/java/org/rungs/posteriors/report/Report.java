@@ -1,0 +1,168 @@
+package org.rungs.posteriors.report;
+
+import java.io.IOException;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.nio.file.StandardCopyOption;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+
+/**
+ * The fit report: one self-contained HTML file (inline CSS and SVG charts, no script, no link to
+ * anything outside) written from the files of a fit folder alone, so that it can be mailed and
+ * opened offline. It knows the folder's file formats, not the model's classes.
+ */
+public final class Report {
+    /** File name of the report inside the fit folder. */
+    public static final String FILE_NAME = "report.html";
+
+    private static final String STYLE = """
+            body{font-family:"DejaVu Sans",Helvetica,Arial,sans-serif;font-size:15px;line-height:1.45;color:#111;
+            max-width:1180px;margin:0 auto;padding:16px 24px}
+            h1{font-size:26px;margin:8px 0}h2{font-size:21px;border-bottom:2px solid #0072B2;padding-bottom:3px;margin-top:34px}
+            h3{font-size:16px;margin:18px 0 6px}
+            table{border-collapse:collapse;margin:6px 0 12px;font-size:13.5px}
+            th,td{border-bottom:1px solid #ccc;padding:3px 8px;text-align:left;vertical-align:top}
+            th{background:#f2f2f2}table.facts td:first-child{white-space:nowrap}table.facts thead{display:none}table.num td+td{text-align:right;font-variant-numeric:tabular-nums}
+            .int{color:#555}.note{color:#333;font-size:13.5px;max-width:900px}
+            .alarm{background:#fde0cf;border-left:6px solid #D55E00;padding:10px 14px;font-weight:bold}
+            .ok{background:#e0f1ea;border-left:6px solid #009E73;padding:10px 14px}
+            .warn{background:#fff6d5;border-left:6px solid #E69F00;padding:8px 14px}
+            svg{width:100%;height:auto;display:block}
+            figure{margin:4px 0 10px;break-inside:avoid;page-break-inside:avoid}
+            figcaption{font-size:13.5px;margin:2px 0;overflow-wrap:anywhere}
+            .grid{display:grid;grid-template-columns:repeat(auto-fill,minmax(320px,1fr));gap:8px 18px}
+            .two{display:grid;grid-template-columns:repeat(auto-fit,minmax(420px,1fr));gap:8px 22px}
+            .two>*,.grid>*{min-width:0}table.facts td{overflow-wrap:anywhere}
+            .scroll{max-height:1100px;overflow-y:auto;border:1px solid #eee;padding:4px}.scroll.short{max-height:620px}
+            .legend .sw{display:inline-block;width:22px;height:12px;margin:0 4px 0 14px;vertical-align:middle}
+            .legend .sw.line{height:0;border-top:2px solid}.legend .sw.dot{width:10px;height:10px;border-radius:50%}
+            nav ol{columns:2;font-size:14px}code{font-size:13px}
+            @media print{body{max-width:none;padding:0;font-size:11pt}.scroll{max-height:none;overflow:visible;border:0}
+            nav{display:none}h2{break-after:avoid}}
+            """;
+
+    private Report() {
+    }
+
+    /**
+     * Reads the fit folder and writes {@value #FILE_NAME} into it, atomically (a temporary file
+     * in the same folder, then a rename).
+     *
+     * @return the path of the report
+     * @throws IOException when run.json or summary.csv is missing or a file is malformed
+     */
+    public static Path write(Path fitDir) throws IOException {
+        System.setProperty("java.awt.headless", "true");
+        String html = render(FitFolder.read(fitDir));
+        Path target = fitDir.resolve(FILE_NAME).toAbsolutePath();
+        Path temporary = Files.createTempFile(target.getParent(), "." + FILE_NAME, ".tmp");
+        try {
+            Files.writeString(temporary, html, StandardCharsets.UTF_8);
+            Files.move(temporary, target, StandardCopyOption.ATOMIC_MOVE, StandardCopyOption.REPLACE_EXISTING);
+        } finally {
+            Files.deleteIfExists(temporary);
+        }
+        return target;
+    }
+
+    static String render(FitFolder fit) {
+        StringBuilder out = new StringBuilder(1 << 20);
+        String file = fit.text("input.file", "(unknown file)");
+        out.append("<h1>Fit report</h1>\n<p>Data: <code>").append(Html.escape(file)).append("</code>; finished ")
+                .append(Html.escape(fit.text("finished", "(time not recorded)"))).append("; Rungs ")
+                .append(Html.escape(fit.text("versions.rungs", "")))
+                .append(".</p>\n");
+        ConvergenceSection.Verdict verdict = ConvergenceSection.verdict(fit);
+        out.append("<p id=\"verdict\" class=\"").append(verdict.converged() ? "ok" : "alarm").append("\">")
+                .append(Html.escape(ConvergenceSection.verdictText(fit, verdict))).append("</p>\n");
+        out.append("""
+                <nav><ol><li><a href="#fitted">What was fitted</a></li><li><a href="#convergence">Convergence</a></li>
+                <li><a href="#distributions">Rating distributions</a></li><li><a href="#means">Reported and intended means</a></li>
+                <li><a href="#coarse">Coarse responders</a></li><li><a href="#attraction">Attraction to numbers</a></li>
+                <li><a href="#coefficients">Effects of covariates</a></li><li><a href="#cautions">Cautions</a></li></ol></nav>
+                """);
+        writeFitted(fit, out);
+        ConvergenceSection.write(fit, out);
+        DistributionSection.write(fit, out);
+        GroupSection.writeMeans(fit, out);
+        GroupSection.writeCoarse(fit, out);
+        AttractionSection.write(fit, out);
+        CoefficientSection.write(fit, out);
+        writeCautions(fit, out);
+        SvgStyles.Result body = SvgStyles.extract(out.toString());
+        Path name = Path.of(file).getFileName();
+        return "<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\">\n"
+                + "<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n"
+                + "<title>Fit report: " + Html.escape(name == null ? file : name.toString()) + "</title>\n"
+                + "<style>" + STYLE + body.css() + "</style></head><body>\n" + body.html() + "</body></html>\n";
+    }
+
+    private static void writeFitted(FitFolder fit, StringBuilder out) {
+        out.append("<section id=\"fitted\"><h2>1. What was fitted</h2>\n<div class=\"two\"><div><h3>Data</h3>\n");
+        Html.tableHead(out, "facts", List.of("", ""));
+        Html.row(out, "file", "<code>" + Html.escape(fit.text("input.file", "")) + "</code>");
+        Html.row(out, "SHA-256", "<code>" + Html.escape(fit.text("input.sha256", "")) + "</code>");
+        Html.row(out, "scale", Html.escape(fit.text("input.scale", "")));
+        Html.row(out, "groups", Html.escape(fit.text("input.groups", "")));
+        Html.row(out, "rows read", Html.escape(fit.text("input.rows_read", "")));
+        Html.row(out, "rows used", Html.escape(fit.text("input.rows_used", "")));
+        Html.row(out, "rows excluded", Html.escape(fit.text("input.rows_excluded", "0")));
+        for (Map.Entry<String, Object> reason : fit.map("input.excluded_by_reason").entrySet()) {
+            Html.row(out, "&nbsp;&nbsp;excluded: " + Html.escape(reason.getKey()), Html.escape(fit.text("input.excluded_by_reason."
+                    + reason.getKey(), "")));
+        }
+        for (Map.Entry<String, Object> missing : fit.map("input.missing_by_column").entrySet()) {
+            Html.row(out, "&nbsp;&nbsp;missing in <code>" + Html.escape(missing.getKey()) + "</code>",
+                    Html.escape(fit.text("input.missing_by_column." + missing.getKey(), "")));
+        }
+        Html.tableEnd(out);
+        out.append("</div><div><h3>Sampling</h3>\n");
+        Html.tableHead(out, "facts", List.of("", ""));
+        Html.row(out, "chains", Html.escape(fit.text("sampler.chains", "")));
+        Html.row(out, "warm-up per chain", Html.escape(fit.text("sampler.warmup", "")));
+        Html.row(out, "draws per chain", Html.escape(fit.text("sampler.kept_draws", fit.text("sampler.draws", ""))));
+        Html.row(out, "seed", Html.escape(fit.text("sampler.seed", "")));
+        double seconds = fit.number("sampler.seconds");
+        Html.row(out, "time taken", Double.isFinite(seconds) ? duration(seconds) : "&ndash;");
+        Html.row(out, "interrupted", fit.flag("sampler.interrupted") ? "<strong>yes</strong>" : "no");
+        Html.tableEnd(out);
+        out.append("</div></div>\n<h3>The model in plain words</h3>\n<ul>\n");
+        for (String sentence : ModelWords.describe(fit)) {
+            out.append("<li>").append(Html.escape(sentence)).append("</li>\n");
+        }
+        out.append("</ul>\n<h3>Priors</h3>\n");
+        Html.tableHead(out, "facts", List.of("parameter", "prior"));
+        for (Map.Entry<String, Object> prior : fit.map("model.priors").entrySet()) {
+            Html.row(out, "<code>" + Html.escape(prior.getKey()) + "</code>", Html.escape(String.valueOf(prior.getValue())));
+        }
+        Html.tableEnd(out);
+        List<Object> warnings = fit.list("warnings");
+        if (!warnings.isEmpty()) {
+            out.append("<h3>Warnings from the run</h3>\n<ul class=\"warn\">\n");
+            for (Object warning : warnings) {
+                out.append("<li>").append(Html.escape(String.valueOf(warning))).append("</li>\n");
+            }
+            out.append("</ul>\n");
+        }
+        out.append("</section>\n");
+    }
+
+    private static void writeCautions(FitFolder fit, StringBuilder out) {
+        out.append("<section id=\"cautions\"><h2>8. Cautions</h2>\n<ul>\n");
+        for (String sentence : ModelWords.cautions(fit)) {
+            out.append("<li>").append(Html.escape(sentence)).append("</li>\n");
+        }
+        out.append("</ul></section>\n");
+    }
+
+    private static String duration(double seconds) {
+        if (seconds < 90) {
+            return String.format(Locale.ROOT, "%.1f s", seconds);
+        }
+        long whole = Math.round(seconds);
+        return String.format(Locale.ROOT, "%d min %02d s", whole / 60, whole % 60);
+    }
+}
