@@ -8,6 +8,8 @@ import java.util.List;
 import java.util.Locale;
 import java.util.concurrent.Callable;
 import org.rungs.models.ModelSpec;
+import org.rungs.models.RoundingChannel;
+import org.rungs.models.StyleClasses;
 import org.rungs.models.ThresholdMode;
 import org.rungs.models.survey.Scale;
 import org.rungs.priors.Priors;
@@ -47,6 +49,18 @@ final class CalibrateCommand implements Callable<Integer> {
     @Option(names = "--thresholds", paramLabel = "MODE", defaultValue = "by-group",
             description = "Threshold mode of simulation and fit: by-group or shared. Default: ${DEFAULT-VALUE}.")
     String thresholds;
+
+    @Option(names = "--style-classes", paramLabel = "MODE", defaultValue = "none",
+            description = "Response-style classes of simulation and fit (MODEL.md 4): none or coarse. Default: ${DEFAULT-VALUE}.")
+    String styleClasses;
+
+    @Option(names = "--coarse-points", paramLabel = "J,K,...", split = ",",
+            description = "Coarse points as ratings, with --style-classes coarse. Default: {L, floor((L+U)/2), U}.")
+    int[] coarsePoints;
+
+    @Option(names = "--style-covariates", paramLabel = "Q",
+            description = "Numeric style covariates (standard normal before standardising), with --style-classes coarse. Default: 1 with the coarse class.")
+    Integer styleCovariates;
 
     @Option(names = "--prior", paramLabel = "NAME=DIST",
             description = "Replace a default prior of both simulation and fit, e.g. level=normal(0,2). Names: " + Priors.NAMES + ".")
@@ -106,9 +120,16 @@ final class CalibrateCommand implements Callable<Integer> {
                 fit = fit.with(p);
             }
             ThresholdMode mode = ThresholdMode.parse(thresholds);
-            config = new CalibrationConfig(Scale.parse(scale), groups, respondents, covariates,
-                    new ModelSpec(mode, simulation), new ModelSpec(mode, fit), chains, warmup, draws, rankDraws, seed,
-                    replications, alpha);
+            StyleClasses classes = styleClasses(styleClasses, coarsePoints);
+            Scale ratings = Scale.parse(scale);
+            if (classes.coarse()) { // rejects bad coarse points before any replication runs
+                RoundingChannel.of(ratings, classes.coarsePoints() != null ? classes.coarsePoints()
+                        : RoundingChannel.defaultPoints(ratings));
+            }
+            int q = styleCovariates != null ? styleCovariates : classes.coarse() ? 1 : 0;
+            config = new CalibrationConfig(ratings, groups, respondents, covariates, q,
+                    new ModelSpec(mode, simulation, classes), new ModelSpec(mode, fit, classes), chains, warmup, draws,
+                    rankDraws, seed, replications, alpha);
             slice = shard == null ? Shard.ALL : Shard.parse(shard);
         } catch (IllegalArgumentException e) {
             System.err.println("rungs calibrate: " + e.getMessage());
@@ -131,6 +152,21 @@ final class CalibrateCommand implements Callable<Integer> {
         } catch (IllegalArgumentException | UncheckedIOException e) {
             System.err.println("rungs calibrate: " + e.getMessage());
             return Main.INPUT_ERROR;
+        }
+    }
+
+    /** The style classes named on the command line; coarse points only with the coarse class. */
+    static StyleClasses styleClasses(String mode, int[] points) {
+        switch (mode.trim().toLowerCase(Locale.ROOT)) {
+            case "none":
+                if (points != null) {
+                    throw new IllegalArgumentException("--coarse-points needs --style-classes coarse");
+                }
+                return StyleClasses.none();
+            case "coarse":
+                return StyleClasses.coarse(points);
+            default:
+                throw new IllegalArgumentException("--style-classes is none or coarse, got '" + mode + "'");
         }
     }
 

@@ -10,21 +10,38 @@ import java.util.concurrent.Callable;
 import org.rungs.models.survey.Scale;
 import org.rungs.models.survey.SurveySpec;
 import org.rungs.sampler.SamplerSettings;
+import org.rungs.sampler.run.CheckpointPolicy;
 import org.rungs.sampler.run.FitRequest;
+import org.rungs.sampler.run.SavedFit;
+import picocli.CommandLine;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Mixin;
+import picocli.CommandLine.Model.CommandSpec;
 import picocli.CommandLine.Option;
+import picocli.CommandLine.ParameterException;
 import picocli.CommandLine.Parameters;
+import picocli.CommandLine.Spec;
 
 /** {@code rungs fit}: fits the model to a survey file and writes draws, summaries and the run record. */
 @Command(name = "fit", mixinStandardHelpOptions = true, sortOptions = false,
+        customSynopsis = {"rungs fit [OPTIONS] FILE --rating=COL --out=DIR",
+                "       rungs fit --resume=DIR [--report] [--threads=N]"},
         description = {"Fit the model to a survey file (CSV or TSV, optionally gzip-compressed, with a header row).",
-                "Writes draws.csv, summary.csv and run.json to the output folder and prints the summary."})
+                "Writes draws.csv, summary.csv and run.json to the output folder and prints the summary.",
+                "While it runs, the chains are saved every few seconds in DIR/.checkpoint; a fit that was killed or "
+                        + "interrupted (Ctrl-C, exit code 130) continues with 'rungs fit --resume DIR' and then gives the "
+                        + "same draws, bit for bit, as if it had never stopped."})
 final class FitCommand implements Callable<Integer> {
-    @Parameters(index = "0", paramLabel = "FILE", description = "The survey file.")
+    /** The options that may accompany --resume: they change neither the model nor the draws. */
+    private static final java.util.Set<String> RESUME_OPTIONS = java.util.Set.of("--resume", "--report", "--threads", "--checkpoint-seconds");
+
+    @Spec
+    CommandSpec spec;
+
+    @Parameters(index = "0", arity = "0..1", paramLabel = "FILE", description = "The survey file.")
     Path file;
 
-    @Option(names = "--rating", required = true, paramLabel = "COL", description = "Column holding the rating.")
+    @Option(names = "--rating", paramLabel = "COL", description = "Column holding the rating (required unless --resume).")
     String rating;
 
     @Option(names = "--scale", defaultValue = "0..10", paramLabel = "L..U", description = "The rating scale, e.g. 0..10, 1..7. Default: ${DEFAULT-VALUE}.")
@@ -57,8 +74,17 @@ final class FitCommand implements Callable<Integer> {
     @Mixin
     SamplingOptions sampling;
 
-    @Option(names = "--out", required = true, paramLabel = "DIR", description = "Output folder.")
+    @Option(names = "--out", paramLabel = "DIR", description = "Output folder (required unless --resume).")
     Path out;
+
+    @Option(names = "--resume", paramLabel = "DIR", description = "Continue the unfinished fit in output folder DIR from its checkpoint, "
+            + "with the file, options and seed it was started with (give no others; --report and --threads are allowed). "
+            + "Refused if the file has changed.")
+    Path resume;
+
+    @Option(names = "--checkpoint-seconds", hidden = true, defaultValue = "5", paramLabel = "S",
+            description = "Seconds between checkpoint saves of each chain.")
+    double checkpointSeconds;
 
     @Option(names = "--overwrite", description = "Replace the files of an earlier run in the output folder.")
     boolean overwrite;
@@ -68,30 +94,80 @@ final class FitCommand implements Callable<Integer> {
 
     @Override
     public Integer call() {
-        PrintStream err = System.err;
+        if (resume != null) {
+            return resume();
+        }
+        if (file == null) {
+            throw new ParameterException(spec.commandLine(), "Missing required parameter: 'FILE'");
+        }
+        if (rating == null) {
+            throw new ParameterException(spec.commandLine(), "Missing required option: '--rating=COL'");
+        }
+        if (out == null) {
+            throw new ParameterException(spec.commandLine(), "Missing required option: '--out=DIR'");
+        }
         FitRequest request;
         try {
-            SurveySpec.Builder spec = SurveySpec.builder(rating, Scale.parse(scale)).group(group)
-                    .level(level.toArray(new String[0])).style(style.toArray(new String[0])).categorical(categorical.toArray(new String[0]))
-                    .missingCodes(missing.toArray(new String[0]));
-            reference.forEach(spec::reference);
-            for (String m : missingIn) {
-                int eq = m.indexOf('=');
-                if (eq <= 0) {
-                    throw new IllegalArgumentException("--missing-in takes COL=CODE[,CODE...], got '" + m + "'");
-                }
-                spec.missingCodesFor(m.substring(0, eq), m.substring(eq + 1).split(","));
-            }
-            if (weight != null) {
-                spec.weight(weight);
-            }
-            SamplerSettings settings = sampling.settings();
-            request = new FitRequest(file, spec.build(), sampling.model(), settings, out, overwrite, options(settings));
+            request = request(sampling.settings());
         } catch (IllegalArgumentException e) {
-            err.println("rungs fit: " + e.getMessage());
+            System.err.println("rungs fit: " + e.getMessage());
             return Main.INPUT_ERROR;
         }
-        return Runs.fit(request, report);
+        List<String> arguments = spec.commandLine().getParseResult().expandedArgs();
+        return Runs.fit(request, report, CheckpointPolicy.start(arguments, checkpointSeconds));
+    }
+
+    /** Rebuilds the saved fit's command from its arguments, with its file, seed and this folder. */
+    private Integer resume() {
+        CommandLine.ParseResult given = spec.commandLine().getParseResult();
+        for (CommandLine.Model.OptionSpec o : given.matchedOptions()) {
+            if (!RESUME_OPTIONS.contains(o.longestName())) {
+                throw new ParameterException(spec.commandLine(), "--resume takes no " + o.longestName()
+                        + ": the fit continues with the file, options and seed it was started with");
+            }
+        }
+        if (file != null) {
+            throw new ParameterException(spec.commandLine(), "--resume takes no FILE: the fit continues with the file it was started with");
+        }
+        FitRequest request;
+        try {
+            SavedFit saved = SavedFit.read(resume);
+            if (saved.arguments().isEmpty()) {
+                throw new IllegalArgumentException("the unfinished fit in " + resume + " was not started by 'rungs fit'; start it again");
+            }
+            FitCommand started = new FitCommand();
+            new CommandLine(started).parseArgs(saved.arguments().toArray(new String[0]));
+            started.file = saved.file();
+            started.out = resume;
+            started.sampling.seed = saved.seed();
+            if (sampling.threads != null) {
+                started.sampling.threads = sampling.threads;
+            }
+            report = report || started.report;
+            request = started.request(started.sampling.settings());
+        } catch (IllegalArgumentException e) {
+            System.err.println("rungs fit: " + e.getMessage());
+            return Main.INPUT_ERROR;
+        }
+        return Runs.fit(request, report, CheckpointPolicy.resume(checkpointSeconds));
+    }
+
+    private FitRequest request(SamplerSettings settings) {
+        SurveySpec.Builder survey = SurveySpec.builder(rating, Scale.parse(scale)).group(group)
+                .level(level.toArray(new String[0])).style(style.toArray(new String[0])).categorical(categorical.toArray(new String[0]))
+                .missingCodes(missing.toArray(new String[0]));
+        reference.forEach(survey::reference);
+        for (String m : missingIn) {
+            int eq = m.indexOf('=');
+            if (eq <= 0) {
+                throw new IllegalArgumentException("--missing-in takes COL=CODE[,CODE...], got '" + m + "'");
+            }
+            survey.missingCodesFor(m.substring(0, eq), m.substring(eq + 1).split(","));
+        }
+        if (weight != null) {
+            survey.weight(weight);
+        }
+        return new FitRequest(file, survey.build(), sampling.model(), settings, out, overwrite, options(settings));
     }
 
     private Map<String, Object> options(SamplerSettings settings) {

@@ -2,6 +2,7 @@ package org.rungs.cli;
 
 import java.io.UncheckedIOException;
 import org.rungs.models.survey.SurveyInputException;
+import org.rungs.sampler.run.CheckpointPolicy;
 import org.rungs.sampler.run.FitJob;
 import org.rungs.sampler.run.FitOutcome;
 import org.rungs.sampler.run.FitRequest;
@@ -11,10 +12,14 @@ final class Runs {
     private Runs() {
     }
 
-    /** Runs the fit; with {@code report}, also writes report.html into the output folder. */
-    static int fit(FitRequest request, boolean report) {
+    /**
+     * Runs or resumes the fit, saving its chains as {@code policy} says; on Ctrl-C the chains are
+     * saved, what was kept is written and summarised, and the exit code is 130. With
+     * {@code report}, also writes report.html into the output folder.
+     */
+    static int fit(FitRequest request, boolean report, CheckpointPolicy policy) {
         try (Interruption interruption = new Interruption()) {
-            FitOutcome outcome = FitJob.run(request, System.out, System.err, interruption.flag());
+            FitOutcome outcome = FitJob.run(request, System.out, System.err, interruption.flag(), policy);
             if (report) {
                 writeReport(request.out());
             }

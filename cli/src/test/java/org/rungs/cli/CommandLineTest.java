@@ -166,12 +166,18 @@ final class CommandLineTest {
     }
 
     @Test
-    void sameSeedGivesIdenticalDrawsWithOneOrTwoThreads() throws IOException {
+    void sameSeedGivesIdenticalFilesWithOneTwoOrEightThreads() throws IOException {
         Path one = dir.resolve("one");
-        Path two = dir.resolve("two");
         assertEquals(0, fitSimulated(one, "99", "1").exit());
-        assertEquals(0, fitSimulated(two, "99", "2").exit());
-        assertArrayEquals(Files.readAllBytes(one.resolve("draws.csv")), Files.readAllBytes(two.resolve("draws.csv")));
+        for (String threads : new String[] {"2", "8"}) {
+            Path other = dir.resolve("threads-" + threads);
+            assertEquals(0, fitSimulated(other, "99", threads).exit());
+            for (String file : new String[] {"draws.csv", "summary.csv", "derived_draws.csv", "groups.csv",
+                    "distributions.csv", "coefficients.csv"}) {
+                assertArrayEquals(Files.readAllBytes(one.resolve(file)), Files.readAllBytes(other.resolve(file)),
+                        file + " with " + threads + " threads");
+            }
+        }
     }
 
     /** Writes {@code content} to {@code name}, fits it and checks exit 2, the message and an untouched output. */

@@ -96,9 +96,22 @@ public final class Benchmark {
                 new Scenario.ThresholdDeviations.Drawn(0.15), seed);
     }
 
+    /** The same scenario with a coarse class of about a quarter of the respondents (MODEL.md 4a). */
+    public static Scenario coarseScenario(int respondents, long seed) {
+        Scenario plain = scenario(respondents, seed);
+        return new Scenario(plain.scale(), plain.groups(), plain.levelCovariates(), plain.groupLevels(), plain.thresholds(),
+                plain.thresholdDeviations(),
+                new Scenario.StyleClasses.Coarse(List.of(), new Scenario.GroupLevels.Drawn(-0.67, 0.2)),
+                Scenario.NumberAttraction.none(), seed);
+    }
+
     /** A simulated survey of {@code respondents}, in the simulator's row order (sorted by group only). */
     public static Survey survey(int respondents, long seed) {
-        SimulatedSurvey data = Simulator.simulate(scenario(respondents, seed), seed);
+        return survey(scenario(respondents, seed), seed);
+    }
+
+    private static Survey survey(Scenario scenario, long seed) {
+        SimulatedSurvey data = Simulator.simulate(scenario, seed);
         int[] rating = data.rating();
         byte[] category = new byte[rating.length];
         for (int i = 0; i < rating.length; i++) {
@@ -146,6 +159,18 @@ public final class Benchmark {
                     n, sweeps, t.seconds(), t.nanosPerRespondentSweep());
         }
 
+        ModelSpec coarseModel = model.withStyleClasses(org.rungs.models.StyleClasses.coarse(null));
+        List<Timing> coarseTimings = new ArrayList<>();
+        for (int n : settings.sizes()) {
+            int sweeps = (int) Math.max(2, Math.round((double) settings.sweeps() * largest / n / 2));
+            Survey survey = survey(coarseScenario(n, settings.seed()), settings.seed());
+            FitResult result = fit(survey, coarseModel, new SamplerSettings(1, sweeps / 2, sweeps - sweeps / 2, settings.seed(), 1));
+            Timing t = new Timing(n, sweeps, result.seconds());
+            coarseTimings.add(t);
+            log.printf(Locale.ROOT, "benchmark: coarse class, %,d respondents, %d sweeps, %.1f s, %.1f ns per respondent per sweep%n",
+                    n, sweeps, t.seconds(), t.nanosPerRespondentSweep());
+        }
+
         List<Ess> ess = new ArrayList<>();
         for (int n : settings.essSizes()) {
             SamplerSettings s = new SamplerSettings(2, settings.essWarmup(), settings.essDraws(), settings.seed(), 2);
@@ -163,7 +188,25 @@ public final class Benchmark {
             log.printf(Locale.ROOT, "benchmark: memory at %,d respondents: survey %.1f, fit %.1f bytes per respondent%n",
                     n, m.surveyBytes(), m.fitBytes());
         }
-        return markdown(settings, timings, ess, memory);
+        return markdown(settings, timings, coarseTimings, ess, memory);
+    }
+
+    private static void timingTable(StringBuilder sb, List<Timing> timings) {
+        sb.append("| respondents | sweeps | seconds | ns per respondent per sweep | time per sweep vs previous size |\n");
+        sb.append("|---:|---:|---:|---:|---:|\n");
+        Timing previous = null;
+        for (Timing t : timings) {
+            String ratio = "";
+            if (previous != null) {
+                double perSweep = t.seconds() / t.sweeps();
+                double previousPerSweep = previous.seconds() / previous.sweeps();
+                ratio = String.format(Locale.ROOT, "%.2fx for %.0fx respondents", perSweep / previousPerSweep,
+                        (double) t.respondents() / previous.respondents());
+            }
+            sb.append(String.format(Locale.ROOT, "| %,d | %d | %.1f | %.1f | %s |%n", t.respondents(), t.sweeps(),
+                    t.seconds(), t.nanosPerRespondentSweep(), ratio));
+            previous = t;
+        }
     }
 
     /** Writes {@code text} to {@code file}. */
@@ -266,28 +309,18 @@ public final class Benchmark {
                 Runtime.getRuntime().maxMemory() >> 20);
     }
 
-    private static String markdown(Settings settings, List<Timing> timings, List<Ess> ess, List<Memory> memory) {
+    private static String markdown(Settings settings, List<Timing> timings, List<Timing> coarseTimings, List<Ess> ess,
+                                   List<Memory> memory) {
         StringBuilder sb = new StringBuilder();
         sb.append("Machine: ").append(machine()).append("\n\n");
         sb.append(String.format(Locale.ROOT, "Survey: %d groups, 4 numeric level covariates, scale 0..10, by-group thresholds, seed %d.%n%n",
                 GROUPS, settings.seed()));
-        sb.append("Speed: 1 chain on 1 thread, half warm-up and half kept sweeps; time is the sampler's wall clock.\n\n");
-        sb.append("| respondents | sweeps | seconds | ns per respondent per sweep | time per sweep vs previous size |\n");
-        sb.append("|---:|---:|---:|---:|---:|\n");
-        Timing previous = null;
-        for (Timing t : timings) {
-            String ratio = "";
-            if (previous != null) {
-                double perSweep = t.seconds() / t.sweeps();
-                double previousPerSweep = previous.seconds() / previous.sweeps();
-                ratio = String.format(Locale.ROOT, "%.2fx for %.0fx respondents", perSweep / previousPerSweep,
-                        (double) t.respondents() / previous.respondents());
-            }
-            sb.append(String.format(Locale.ROOT, "| %,d | %d | %.1f | %.1f | %s |%n", t.respondents(), t.sweeps(),
-                    t.seconds(), t.nanosPerRespondentSweep(), ratio));
-            previous = t;
-        }
-        if (!ess.isEmpty()) {
+        sb.append("Speed of the plain ordered probit (style classes off): 1 chain on 1 thread, half warm-up and half kept sweeps; "
+                + "time is the sampler's wall clock.\n\n");
+        timingTable(sb, timings);
+        sb.append("\nSpeed with the coarse class on (a quarter of the respondents coarse, intercept-only class probit), "
+                + "measured the same way.\n\n");
+             if (!ess.isEmpty()) {
             sb.append("\nBulk ESS per second: 2 chains on 2 threads, seconds are wall clock; ESS over all parameters.\n\n");
             sb.append("| respondents | warm-up + kept per chain | seconds | min bulk ESS (parameter) | median bulk ESS | min ESS/s | median ESS/s |\n");
             sb.append("|---:|---:|---:|---:|---:|---:|---:|\n");

@@ -88,6 +88,33 @@ public final class ResponseLikelihood {
         return logSum(Math.log1p(-q) + full, Math.log(q) + logCoarse(channel, thresholds, base, r, eta, -1, 0));
     }
 
+    /**
+     * log P(r = j | full, eta) under number attraction (MODEL.md 4b):
+     * log pi[j] + a[j] - log sum_k pi[k] exp(a[k]), with {@code attraction[k]} = a[g,k] (0 for
+     * numbers outside the attraction set). The normaliser is 1 + sum_k pi[k] (exp(a[k]) - 1), which
+     * stays at least min(1, exp(min a)) however far eta lies in a tail, so only log pi[j] needs
+     * the log-space path.
+     */
+    public static double logFullAttracted(double[] thresholds, int base, int j, double eta, double[] attraction) {
+        double normaliser = 1;
+        for (int k = 0; k < attraction.length; k++) {
+            if (attraction[k] != 0) {
+                normaliser += full(thresholds, base, k, eta, -1, 0) * Math.expm1(attraction[k]);
+            }
+        }
+        return logFull(thresholds, base, j, eta) + attraction[j] - Math.log(normaliser);
+    }
+
+    /** MODEL.md 4c with attraction on the full-scale class: log((1 - q) P(r | full, a) + q P(r | coarse)). */
+    public static double logRespondentAttracted(RoundingChannel channel, double[] thresholds, int base, int r, double eta,
+                                                double q, double[] attraction) {
+        double full = logFullAttracted(thresholds, base, r, eta, attraction);
+        if (channel == null || !channel.isPoint(r)) {
+            return (channel == null ? 0 : Math.log1p(-q)) + full;
+        }
+        return logSum(Math.log1p(-q) + full, Math.log(q) + logCoarse(channel, thresholds, base, r, eta, -1, 0));
+    }
+
     private static double at(double[] thresholds, int base, int k, int moved, double delta) {
         return k == moved ? thresholds[base + k] + delta : thresholds[base + k];
     }

@@ -108,4 +108,47 @@ class ResponseLikelihoodTest {
         double bottom = ResponseLikelihood.logFull(thr, 0, 0, 40);
         assertEquals(org.rungs.priors.StandardNormal.logCdf(-2.1 - 40), bottom, 1e-9 * Math.abs(bottom));
     }
+
+    /**
+     * Number attraction (MODEL.md 4b) against the formula computed directly here:
+     * P(r | full) = pi_r exp(a_r) / sum_k pi_k exp(a_k), mixed with the coarse class as in 4c.
+     */
+    @Test
+    void attractionMatchesDirectComputation() {
+        Scale scale = new Scale(0, 10);
+        int[] points = {0, 5, 10};
+        RoundingChannel channel = RoundingChannel.of(scale, points);
+        double[] thr = row(-2.1, -1.7, -1.3, -0.9, -0.4, 0.1, 0.6, 1.2, 1.8, 2.6);
+        double[] a = new double[11];
+        a[7] = 0.47;
+        a[4] = -0.69;
+        a[3] = 0.1;
+        for (double eta : new double[] {-1.0, 0.3, 1.9}) {
+            double denominator = 0;
+            for (int k = 0; k <= 10; k++) {
+                denominator += (PHI.cumulativeProbability(thr[k + 1] - eta) - PHI.cumulativeProbability(thr[k] - eta)) * Math.exp(a[k]);
+            }
+            for (int r = 0; r <= 10; r++) {
+                double pi = PHI.cumulativeProbability(thr[r + 1] - eta) - PHI.cumulativeProbability(thr[r] - eta);
+                double full = pi * Math.exp(a[r]) / denominator;
+                double coarse = Math.exp(direct(thr, points, r, eta, 1.0));
+                double expected = Math.log(0.75 * full + 0.25 * (channel.isPoint(r) ? coarse : 0));
+                assertEquals(expected, ResponseLikelihood.logRespondentAttracted(channel, thr, 0, r, eta, 0.25, a), 1e-10,
+                        "r=" + r + " eta=" + eta);
+            }
+        }
+    }
+
+    /** Far in the tail the attracted probabilities stay finite and the certain category has log-probability 0. */
+    @Test
+    void attractionFarTailStaysFinite() {
+        double[] thr = row(-2.1, -1.7, -1.3, -0.9, -0.4, 0.1, 0.6, 1.2, 1.8, 2.6);
+        double[] a = new double[11];
+        a[7] = 0.8;
+        a[9] = -0.5;
+        for (int r = 0; r <= 10; r++) {
+            assertTrue(Double.isFinite(ResponseLikelihood.logFullAttracted(thr, 0, r, -45, a)), "r=" + r);
+        }
+        assertEquals(0.0, ResponseLikelihood.logFullAttracted(thr, 0, 0, -45, a), 1e-12);
+    }
 }

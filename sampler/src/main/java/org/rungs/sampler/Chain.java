@@ -1,9 +1,13 @@
 package org.rungs.sampler;
 
+import java.io.DataInput;
+import java.io.DataOutput;
+import java.io.IOException;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.concurrent.atomic.AtomicBoolean;
-import org.apache.commons.rng.UniformRandomProvider;
+import org.apache.commons.rng.RestorableUniformRandomProvider;
+import org.apache.commons.rng.core.RandomProviderDefaultState;
 import org.rungs.models.ModelSpec;
 import org.rungs.models.ParameterLayout;
 import org.rungs.models.RoundingChannel;
@@ -16,19 +20,24 @@ import org.rungs.posteriors.Draws;
  * One Markov chain: its state and the cycle of updates of one sweep, in the order thresholds,
  * threshold hyperparameters, style classes (when on), latent levels, level coefficients and
  * group levels, their pooling, then the coarse class's coefficients and pooling.
+ *
+ * <p>Its future depends only on its state, the state of its updates and its random stream, which
+ * together make its checkpoint: restoring them continues the chain bit for bit.
  */
-final class Chain {
+final class Chain implements Checkpointed {
     private final ChainState state;
     private final List<Update> sweep;
     private final ThresholdUpdate thresholdUpdate;
+    private final RestorableUniformRandomProvider rng;
 
-    private Chain(ChainState state, List<Update> sweep, ThresholdUpdate thresholdUpdate) {
+    private Chain(ChainState state, List<Update> sweep, ThresholdUpdate thresholdUpdate, RestorableUniformRandomProvider rng) {
         this.state = state;
         this.sweep = sweep;
         this.thresholdUpdate = thresholdUpdate;
+        this.rng = rng;
     }
 
-    static Chain of(SurveyOrder order, ModelSpec spec, boolean byGroup, UniformRandomProvider rng) {
+    static Chain of(SurveyOrder order, ModelSpec spec, boolean byGroup, RestorableUniformRandomProvider rng) {
         Priors priors = spec.priors();
         StyleClasses classes = spec.styleClasses();
         Scale scale = order.survey().scale();
@@ -58,16 +67,29 @@ final class Chain {
                 sweep.add(PoolingUpdate.of(state.style, priors.styleMean(), priors.styleSd(), rng));
             }
         }
-        return new Chain(state, List.copyOf(sweep), thresholds);
+        return new Chain(state, List.copyOf(sweep), thresholds, rng);
     }
 
-    /** Runs warm-up then sampling; returns the number of kept draws written. */
+    /**
+     * Runs warm-up then sampling, from the checkpoint's position when it restored one; returns the
+     * number of kept draws written. With a checkpoint, kept draws are appended to it as they are
+     * made, and the state is saved when the checkpoint is due and when the run ends or stops.
+     */
     int run(int chain, SamplerSettings settings, ParameterLayout layout, Draws draws,
-            ProgressListener progress, AtomicBoolean stop) {
+            ProgressListener progress, AtomicBoolean stop, ChainCheckpoint checkpoint) throws IOException {
         int total = settings.warmup() + settings.draws();
         double[] row = new double[layout.size()];
+        int it = 0;
         int kept = 0;
-        for (int it = 0; it < total; it++) {
+        if (checkpoint != null) {
+            ChainCheckpoint.Position at = checkpoint.restore(this, draws);
+            it = at.iterations();
+            kept = at.kept();
+            if (it > 0) {
+                progress.iterationDone(chain, it, total, it <= settings.warmup());
+            }
+        }
+        for (; it < total; it++) {
             if (stop.get()) {
                 break;
             }
@@ -78,10 +100,46 @@ final class Chain {
             if (!warmingUp) {
                 state.writeRow(layout, row);
                 draws.putRow(chain, kept++, row);
+                if (checkpoint != null) {
+                    checkpoint.append(row);
+                }
             }
             progress.iterationDone(chain, it + 1, total, warmingUp);
+            if (checkpoint != null && checkpoint.due()) {
+                checkpoint.save(this, it + 1, kept);
+            }
+        }
+        if (checkpoint != null) {
+            checkpoint.save(this, it, kept);
         }
         return kept;
+    }
+
+    /** The random stream's state, the chain state, then each stateful update in sweep order. */
+    @Override
+    public void save(DataOutput out) throws IOException {
+        byte[] stream = ((RandomProviderDefaultState) rng.saveState()).getState();
+        out.writeInt(stream.length);
+        out.write(stream);
+        state.save(out);
+        for (Update u : sweep) {
+            if (u instanceof Checkpointed) {
+                ((Checkpointed) u).save(out);
+            }
+        }
+    }
+
+    @Override
+    public void restore(DataInput in) throws IOException {
+        byte[] stream = new byte[in.readInt()];
+        in.readFully(stream);
+        rng.restoreState(new RandomProviderDefaultState(stream));
+        state.restore(in);
+        for (Update u : sweep) {
+            if (u instanceof Checkpointed) {
+                ((Checkpointed) u).restore(in);
+            }
+        }
     }
 
     double thresholdAcceptance() {

@@ -1,5 +1,8 @@
 package org.rungs.sampler;
 
+import java.io.DataInput;
+import java.io.DataOutput;
+import java.io.IOException;
 import org.rungs.models.ParameterLayout;
 import org.rungs.models.RoundingChannel;
 import org.rungs.models.survey.Survey;
@@ -10,7 +13,7 @@ import org.rungs.models.survey.Survey;
  * {@code thresholds[g*(M+1) .. g*(M+1)+M]} with {@code -inf} first and {@code +inf} last, so
  * category k of group g lies between {@code thresholds[g*(M+1)+k]} and the next entry.
  */
-final class ChainState {
+final class ChainState implements Checkpointed {
     final Survey survey;
     final byte[] category;
     final int[] group;
@@ -97,5 +100,35 @@ final class ChainState {
             int j = layout.perUnitColumn(u);
             row[layout.perUnitOffset() + u] = level.coefficient[j] / survey.level().scale(j);
         }
+    }
+
+    @Override
+    public void save(DataOutput out) throws IOException {
+        level.save(out);
+        out.writeBoolean(style != null);
+        if (style != null) {
+            style.save(out);
+            out.writeInt(coarse.length);
+            out.write(coarse);
+        }
+        Checkpointed.writeDoubles(out, common);
+        Checkpointed.writeDoubles(out, thresholds);
+        Checkpointed.writeDouble(out, thresholdSd);
+    }
+
+    @Override
+    public void restore(DataInput in) throws IOException {
+        level.restore(in);
+        if (in.readBoolean() != (style != null)) {
+            throw new IOException("the checkpoint was made with the coarse class " + (style == null ? "on" : "off"));
+        }
+        if (style != null) {
+            style.restore(in);
+            Checkpointed.expectLength(in.readInt(), coarse.length);
+            in.readFully(coarse);
+        }
+        Checkpointed.readDoubles(in, common);
+        Checkpointed.readDoubles(in, thresholds);
+        thresholdSd = Checkpointed.readDouble(in);
     }
 }

@@ -1,5 +1,7 @@
 package org.rungs.sampler;
 
+import java.io.IOException;
+import java.io.UncheckedIOException;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.concurrent.ExecutionException;
@@ -7,7 +9,7 @@ import java.util.concurrent.ExecutorService;
 import java.util.concurrent.Executors;
 import java.util.concurrent.Future;
 import java.util.concurrent.atomic.AtomicBoolean;
-import org.apache.commons.rng.UniformRandomProvider;
+import org.apache.commons.rng.RestorableUniformRandomProvider;
 import org.rungs.models.ModelSpec;
 import org.rungs.models.ParameterLayout;
 import org.rungs.models.ThresholdMode;
@@ -28,6 +30,17 @@ public final class Fitter {
      */
     public static FitResult fit(Survey survey, ModelSpec spec, SamplerSettings settings,
                                 ProgressListener progress, AtomicBoolean stop) {
+        return fit(survey, spec, settings, progress, stop, Checkpoints.none());
+    }
+
+    /**
+     * As {@link #fit(Survey, ModelSpec, SamplerSettings, ProgressListener, AtomicBoolean)}, saving
+     * each chain to {@code checkpoints} (and resuming from it when asked).
+     *
+     * @throws UncheckedIOException when a checkpoint cannot be written, or read back on resume
+     */
+    public static FitResult fit(Survey survey, ModelSpec spec, SamplerSettings settings,
+                                ProgressListener progress, AtomicBoolean stop, Checkpoints checkpoints) {
         ParameterLayout layout = ParameterLayout.of(survey, spec);
         SurveyOrder order = SurveyOrder.of(survey);
         boolean byGroup = spec.effectiveThresholdMode(survey.groupCount()) == ThresholdMode.BY_GROUP;
@@ -45,9 +58,13 @@ public final class Fitter {
             for (int c = 0; c < settings.chains(); c++) {
                 int chain = c;
                 futures.add(pool.submit(() -> {
-                    UniformRandomProvider rng = ChainSeeds.stream(settings.seed(), chain);
+                    RestorableUniformRandomProvider rng = ChainSeeds.stream(settings.seed(), chain);
                     Chain run = Chain.of(order, spec, byGroup, rng);
-                    kept[chain] = run.run(chain, settings, layout, draws, progress, stop);
+                    try (ChainCheckpoint checkpoint = checkpoints.open(chain, settings, layout.size())) {
+                        kept[chain] = run.run(chain, settings, layout, draws, progress, stop, checkpoint);
+                    } catch (IOException e) {
+                        throw new UncheckedIOException("checkpoint of chain " + (chain + 1) + ": " + e.getMessage(), e);
+                    }
                     acceptance[chain] = run.thresholdAcceptance();
                 }));
             }

@@ -1,5 +1,8 @@
 package org.rungs.sampler;
 
+import java.io.DataInput;
+import java.io.DataOutput;
+import java.io.IOException;
 import org.rungs.models.survey.Covariates;
 
 /**
@@ -8,7 +11,7 @@ import org.rungs.models.survey.Covariates;
  * coefficients on the internal covariate scale, and the sufficient statistics of its latent
  * values, which the latent draws fill and the conjugate update reads.
  */
-final class RegressionBlock {
+final class RegressionBlock implements Checkpointed {
     final double[][] columns;
     final int count;
     final int groups;
@@ -49,5 +52,22 @@ final class RegressionBlock {
         for (int g = 0; g < groups; g++) {
             intercept[g] += amount;
         }
+    }
+
+    /** Intercepts, coefficients, mean and sd; the latent sums are refilled every sweep. */
+    @Override
+    public void save(DataOutput out) throws IOException {
+        Checkpointed.writeDoubles(out, intercept);
+        Checkpointed.writeDoubles(out, coefficient);
+        Checkpointed.writeDouble(out, mean);
+        Checkpointed.writeDouble(out, sd);
+    }
+
+    @Override
+    public void restore(DataInput in) throws IOException {
+        Checkpointed.readDoubles(in, intercept);
+        Checkpointed.readDoubles(in, coefficient);
+        mean = Checkpointed.readDouble(in);
+        sd = Checkpointed.readDouble(in);
     }
 }

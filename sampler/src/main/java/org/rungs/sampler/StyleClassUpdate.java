@@ -1,5 +1,8 @@
 package org.rungs.sampler;
 
+import java.io.DataInput;
+import java.io.DataOutput;
+import java.io.IOException;
 import java.util.Arrays;
 import org.apache.commons.rng.UniformRandomProvider;
 import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
@@ -25,7 +28,7 @@ import org.rungs.priors.StandardNormal;
  * the class's probit latent from its normal truncated to the class's side of zero (Albert & Chib
  * 1993, section 3), keeping only the sums the conjugate update of gamma and delta needs.
  */
-final class StyleClassUpdate implements Update {
+final class StyleClassUpdate implements Update, Checkpointed {
     private static final double TARGET_ACCEPTANCE = 0.44;
     private final ChainState state;
     private final UniformRandomProvider rng;
@@ -234,5 +237,20 @@ final class StyleClassUpdate implements Update {
                 style.latentCross[j] += style.columns[j][i] * latent;
             }
         }
+    }
+
+    /** The adapted scales; the per-respondent caches are rebuilt at the start of every update. */
+    @Override
+    public void save(DataOutput out) throws IOException {
+        Checkpointed.writeDoubles(out, logScale);
+        Checkpointed.writeDouble(out, coefficientLogScale);
+        out.writeInt(warmupStep);
+    }
+
+    @Override
+    public void restore(DataInput in) throws IOException {
+        Checkpointed.readDoubles(in, logScale);
+        coefficientLogScale = Checkpointed.readDouble(in);
+        warmupStep = in.readInt();
     }
 }

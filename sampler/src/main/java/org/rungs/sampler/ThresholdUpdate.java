@@ -1,5 +1,8 @@
 package org.rungs.sampler;
 
+import java.io.DataInput;
+import java.io.DataOutput;
+import java.io.IOException;
 import org.apache.commons.rng.UniformRandomProvider;
 import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
 import org.rungs.models.ResponseLikelihood;
@@ -29,7 +32,7 @@ import org.rungs.priors.StandardNormal;
  * answers and the prior holds c[g,k] close to c[k]. Each step's scale adapts during warm-up
  * only (Roberts & Rosenthal 2009, section 3) towards acceptance 0.44.
  */
-final class ThresholdUpdate implements Update {
+final class ThresholdUpdate implements Update, Checkpointed {
     private static final double TARGET_ACCEPTANCE = 0.44;
     /**
      * Passes over the thresholds per sweep: neighbouring cut-points are correlated, so one pass of
@@ -431,5 +434,22 @@ final class ThresholdUpdate implements Update {
     /** Share of accepted proposals while sampling. */
     double acceptanceRate() {
         return tried == 0 ? Double.NaN : (double) accepted / tried;
+    }
+
+    /** The adapted scales and counters; the per-respondent caches are rebuilt by {@link #refresh}. */
+    @Override
+    public void save(DataOutput out) throws IOException {
+        Checkpointed.writeDoubles(out, logScale);
+        out.writeInt(warmupStep);
+        out.writeLong(accepted);
+        out.writeLong(tried);
+    }
+
+    @Override
+    public void restore(DataInput in) throws IOException {
+        Checkpointed.readDoubles(in, logScale);
+        warmupStep = in.readInt();
+        accepted = in.readLong();
+        tried = in.readLong();
     }
 }

@@ -16,6 +16,8 @@ public final class Covariates {
 
     /** Largest magnitude of a raw numeric value: squares and sums of squares stay finite. */
     public static final double MAX_MAGNITUDE = 1e150;
+    /** Smallest standard deviation of a numeric covariate: per-unit effects are divided by it. */
+    public static final double MIN_SPREAD = 1e-150;
 
     private static final Covariates NONE = new Covariates(0, new String[0], new double[0][], new boolean[0],
             new String[0], new double[0], new double[0], new String[0]);
@@ -283,6 +285,12 @@ public final class Covariates {
             squares += d * d;
         }
         double sd = Math.sqrt(squares / (n - 1));
+        double spread = Math.scalb(sd, -k);
+        if (!(spread >= MIN_SPREAD)) {
+            throw new CovariateProblem(name, "covariate " + Text.quote(name) + " varies by less than " + MIN_SPREAD
+                    + " (standard deviation " + spread + "), so its effects per unit would overflow",
+                    "a spread of at least " + MIN_SPREAD + " (rescale the column)");
+        }
         for (int i = 0; i < n; i++) {
             raw[i] = (Math.scalb(raw[i], k) - mean) / sd;
         }

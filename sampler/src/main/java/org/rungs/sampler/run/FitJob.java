@@ -1,6 +1,7 @@
 package org.rungs.sampler.run;
 
 import java.io.PrintStream;
+import java.nio.file.Path;
 import java.time.Instant;
 import java.util.LinkedHashMap;
 import java.util.List;
@@ -21,6 +22,7 @@ import org.rungs.posteriors.DrawsCsv;
 import org.rungs.posteriors.ParameterSummary;
 import org.rungs.posteriors.SummaryTable;
 import org.rungs.posteriors.Summaries;
+import org.rungs.sampler.Checkpoints;
 import org.rungs.sampler.ConsoleProgress;
 import org.rungs.sampler.FitResult;
 import org.rungs.sampler.Fitter;
@@ -28,6 +30,8 @@ import org.rungs.sampler.Fitter;
 /**
  * A fit from a survey file to an output folder: read, fit, summarise, write {@code draws.csv},
  * {@code summary.csv} and {@code run.json}. Input errors surface before anything is written.
+ * While it runs, the chains are saved in {@code .checkpoint} (see {@link SavedFit}), which is
+ * removed once every output of a finished fit is written, and kept when the fit was interrupted.
  */
 public final class FitJob {
     /**
@@ -50,12 +54,46 @@ public final class FitJob {
      */
     public static FitOutcome run(FitRequest request, PrintStream out, PrintStream err, AtomicBoolean stop)
             throws SurveyInputException {
-        OutputFolder folder = OutputFolder.check(request.out(), request.overwrite());
+        return run(request, out, err, stop, CheckpointPolicy.start(List.of(), CheckpointPolicy.DEFAULT_SECONDS));
+    }
+
+    /**
+     * As {@link #run(FitRequest, PrintStream, PrintStream, AtomicBoolean)}, keeping the checkpoint
+     * as {@code policy} says. When resuming, {@code request} must be the one that started the fit,
+     * with its seed; the draws are then identical, bit for bit, to an uninterrupted fit's.
+     *
+     * @throws IllegalArgumentException also when resuming a folder with no checkpoint, or when the
+     *                                  input file changed since the fit started
+     */
+    public static FitOutcome run(FitRequest request, PrintStream out, PrintStream err, AtomicBoolean stop,
+                                 CheckpointPolicy policy) throws SurveyInputException {
+        OutputFolder folder = policy.resume() ? OutputFolder.resuming(request.out())
+                : OutputFolder.check(request.out(), request.overwrite());
         long readStart = System.nanoTime();
         Survey survey = SurveyReader.read(request.file(), request.survey());
         double readSeconds = (System.nanoTime() - readStart) / 1e9;
         Exclusions exclusions = survey.exclusions();
         err.println(exclusions.describe());
+        String sha256 = RunRecord.sha256(request.file());
+        Path checkpointDir = folder.resolve(SavedFit.FOLDER);
+        Checkpoints checkpoints;
+        if (policy.resume()) {
+            SavedFit saved = SavedFit.read(folder.dir());
+            if (!saved.sha256().equals(sha256)) {
+                throw new IllegalArgumentException("the input file " + request.file() + " has changed since the fit in "
+                        + folder.dir() + " started (SHA-256 " + sha256 + ", was " + saved.sha256() + "); it cannot be resumed");
+            }
+            if (saved.seed() != request.settings().seed()) {
+                throw new IllegalArgumentException("the fit in " + folder.dir() + " was started with seed " + saved.seed()
+                        + ", not " + request.settings().seed());
+            }
+            err.println("rungs: resuming the fit in " + folder.dir());
+            checkpoints = Checkpoints.resume(checkpointDir, policy.seconds());
+        } else {
+            SavedFit.delete(folder.dir());
+            new SavedFit(request.file().toAbsolutePath(), sha256, request.settings().seed(), policy.arguments()).write(folder.dir());
+            checkpoints = Checkpoints.start(checkpointDir, policy.seconds());
+        }
 
         err.println("rungs: seed " + request.settings().seed() + ", " + request.settings().chains() + " chains of "
                 + request.settings().warmup() + " warm-up + " + request.settings().draws() + " kept iterations");
@@ -65,7 +103,13 @@ public final class FitJob {
             err.println("warning: " + w);
         }
         FitResult result = Fitter.fit(survey, request.model(), request.settings(),
-                new ConsoleProgress(err, request.settings().chains(), 2.0), stop);
+                new ConsoleProgress(err, request.settings().chains(), 2.0), stop, checkpoints);
+        String whereSaved = "the chains are saved in " + checkpointDir.toAbsolutePath()
+                + (policy.resume() || !policy.arguments().isEmpty() ? "; continue with: rungs fit --resume " + folder.dir() : "");
+        if (result.interrupted() && result.draws().iterations() == 0) {
+            err.println("rungs: interrupted before every chain kept a draw; nothing to summarise; " + whereSaved);
+            return new FitOutcome(survey, result, List.of(), "interrupted before any draw was kept", record.warnings(), List.of());
+        }
         List<ParameterSummary> summaries = Summaries.of(result.draws());
         String verdict = SummaryTable.verdict(summaries);
         if (result.interrupted()) {
@@ -87,7 +131,7 @@ public final class FitJob {
             derivedSummaries = Summaries.of(derived.draws());
             writeDerived(request, survey, folder, derived, derivedSummaries, err, stop);
         }
-        record.put("input", input(request, survey, exclusions, readSeconds));
+        record.put("input", input(request, survey, exclusions, sha256, readSeconds));
         record.put("options", request.options());
         record.put("model", model(request, survey, result.layout()));
         record.put("sampler", sampler(result));
@@ -96,7 +140,11 @@ public final class FitJob {
             record.warn("derived quantities: " + SummaryTable.verdict(derivedSummaries));
         }
         record.put("finished", Instant.now().toString());
+        record.put("resumed", policy.resume());
         folder.writeText(OutputFolder.RUN_RECORD, record.toJson());
+        if (!result.interrupted()) {
+            SavedFit.delete(folder.dir());
+        }
 
         out.print(SummaryTable.format(summaries));
         out.println(verdict);
@@ -109,6 +157,9 @@ public final class FitJob {
                 + "derived_summary.csv, groups.csv, distributions.csv"
                 + (request.model().styleClasses().coarse() ? ", coarse_shares.csv" : "")
                 + (survey.level().count() > 0 ? ", coefficients.csv" : "") + ", run.json");
+        if (result.interrupted()) {
+            err.println("rungs: interrupted; " + whereSaved);
+        }
         return new FitOutcome(survey, result, summaries, verdict, record.warnings(), derivedSummaries);
     }
 
@@ -139,10 +190,11 @@ public final class FitJob {
         }
     }
 
-    private static Map<String, Object> input(FitRequest request, Survey survey, Exclusions exclusions, double seconds) {
+    private static Map<String, Object> input(FitRequest request, Survey survey, Exclusions exclusions, String sha256,
+                                             double seconds) {
         Map<String, Object> m = new LinkedHashMap<>();
         m.put("file", request.file().toAbsolutePath().toString());
-        m.put("sha256", RunRecord.sha256(request.file()));
+        m.put("sha256", sha256);
         m.put("rows_read", exclusions.rowsRead());
         m.put("rows_used", exclusions.rowsUsed());
         m.put("rows_excluded", exclusions.rowsRead() - exclusions.rowsUsed());

@@ -34,11 +34,27 @@ public final class OutputFolder {
             if (!Files.isDirectory(dir)) {
                 throw new IllegalArgumentException("output " + dir + " exists and is not a folder");
             }
+            if (!overwrite && SavedFit.existsIn(dir)) {
+                throw new IllegalArgumentException("output folder " + dir + " holds an unfinished fit; continue it with"
+                        + " 'rungs fit --resume " + dir + "', choose another folder or add --overwrite to replace it");
+            }
             if (!overwrite && !isEmpty(dir)) {
                 String what = Files.exists(dir.resolve(RUN_RECORD)) ? "holds another run" : "is not empty";
                 throw new IllegalArgumentException("output folder " + dir + " " + what
                         + "; choose another folder or add --overwrite to replace its files");
             }
+        }
+        return new OutputFolder(dir);
+    }
+
+    /**
+     * The folder of an unfinished fit being resumed, whose files it will replace.
+     *
+     * @throws IllegalArgumentException when {@code dir} holds no checkpoint
+     */
+    public static OutputFolder resuming(Path dir) {
+        if (!SavedFit.existsIn(dir)) {
+            SavedFit.read(dir);
         }
         return new OutputFolder(dir);
     }

@@ -4,6 +4,7 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
 import org.rungs.models.ModelSpec;
+import org.rungs.models.StyleClasses;
 import org.rungs.models.ThresholdMode;
 import org.rungs.models.survey.Scale;
 import org.rungs.priors.Priors;
@@ -12,13 +13,14 @@ import org.rungs.priors.Priors;
  * One simulation-based calibration (Talts et al. 2018): the simulated design, the model the data
  * are drawn from, the model that is fitted, the sampler and the number of replications. The two
  * model specs are equal for a calibration of the engine; making them differ in one component
- * (a prior, the threshold mode, later the style and attraction modes carried by {@link ModelSpec})
- * is how a deliberately wrong component is planted.
+ * (a prior, the threshold mode, the style classes carried by {@link ModelSpec}) is how a
+ * deliberately wrong component is planted.
  *
  * @param scale               the rating scale
  * @param groups              number of groups G
  * @param respondents         respondents per group
  * @param covariates          numeric level covariates, drawn standard normal before standardising
+ * @param styleCovariates     numeric style covariates (MODEL.md 4, w), drawn likewise; only with the coarse class
  * @param simulation          model and priors the parameters and ratings are drawn from
  * @param fit                 model and priors of the fit
  * @param chains              chains per fit
@@ -29,7 +31,8 @@ import org.rungs.priors.Priors;
  * @param replications        number of replications
  * @param alpha               family-wise false-alarm rate of the verdicts over all parameters
  */
-public record CalibrationConfig(Scale scale, int groups, int respondents, int covariates, ModelSpec simulation,
+public record CalibrationConfig(Scale scale, int groups, int respondents, int covariates, int styleCovariates,
+        ModelSpec simulation,
         ModelSpec fit, int chains, int warmup, int draws, int rankDraws, long seed, int replications, double alpha) {
 
     /** The file of a calibration folder that records the configuration. */
@@ -42,6 +45,16 @@ public record CalibrationConfig(Scale scale, int groups, int respondents, int co
         }
         if (covariates > 0 && groups * respondents < covariates + 2) {
             throw new IllegalArgumentException(covariates + " covariates need more than " + (covariates + 1) + " respondents");
+        }
+        if (styleCovariates < 0) {
+            throw new IllegalArgumentException("the number of style covariates cannot be negative, got " + styleCovariates);
+        }
+        if (styleCovariates > 0 && !simulation.styleClasses().coarse() && !fit.styleClasses().coarse()) {
+            throw new IllegalArgumentException("style covariates enter only the coarse class; choose the coarse style classes");
+        }
+        if (styleCovariates > 0 && groups * respondents < styleCovariates + 2) {
+            throw new IllegalArgumentException(styleCovariates + " style covariates need more than " + (styleCovariates + 1)
+                    + " respondents");
         }
         if (chains < 1 || warmup < 0 || draws < 1) {
             throw new IllegalArgumentException("need chains >= 1, warm-up >= 0 and draws >= 1");
@@ -64,31 +77,42 @@ public record CalibrationConfig(Scale scale, int groups, int respondents, int co
      */
     public static CalibrationConfig small(long seed, int replications) {
         ModelSpec model = new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults());
-        return new CalibrationConfig(new Scale(0, 4), 3, 40, 1, model, model, 2, 200, 200, 99, seed, replications, 0.01);
+        return new CalibrationConfig(new Scale(0, 4), 3, 40, 1, 0, model, model, 2, 200, 200, 99, seed, replications, 0.01);
+    }
+
+    /**
+     * The small configuration of the coarse class used in CI: scale 0..4 with the default coarse
+     * points {0, 2, 4} (so ratings 1 and 3 are ties), 3 groups of 60, one level and one style
+     * covariate, by-group thresholds, default priors, 2 chains of 300 warm-up and 300 kept
+     * iterations thinned to 99.
+     */
+    public static CalibrationConfig coarse(long seed, int replications) {
+        ModelSpec model = new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults(), StyleClasses.coarse(null));
+        return new CalibrationConfig(new Scale(0, 4), 3, 60, 1, 1, model, model, 2, 300, 300, 99, seed, replications, 0.01);
     }
 
     public CalibrationConfig withFit(ModelSpec f) {
-        return new CalibrationConfig(scale, groups, respondents, covariates, simulation, f, chains, warmup, draws,
+        return new CalibrationConfig(scale, groups, respondents, covariates, styleCovariates, simulation, f, chains, warmup, draws,
                 rankDraws, seed, replications, alpha);
     }
 
     public CalibrationConfig withModel(ModelSpec both) {
-        return new CalibrationConfig(scale, groups, respondents, covariates, both, both, chains, warmup, draws,
+        return new CalibrationConfig(scale, groups, respondents, covariates, styleCovariates, both, both, chains, warmup, draws,
                 rankDraws, seed, replications, alpha);
     }
 
     public CalibrationConfig withDesign(int g, int perGroup, int p) {
-        return new CalibrationConfig(scale, g, perGroup, p, simulation, fit, chains, warmup, draws, rankDraws, seed,
+        return new CalibrationConfig(scale, g, perGroup, p, styleCovariates, simulation, fit, chains, warmup, draws, rankDraws, seed,
                 replications, alpha);
     }
 
     public CalibrationConfig withReplications(int r) {
-        return new CalibrationConfig(scale, groups, respondents, covariates, simulation, fit, chains, warmup, draws,
+        return new CalibrationConfig(scale, groups, respondents, covariates, styleCovariates, simulation, fit, chains, warmup, draws,
                 rankDraws, seed, r, alpha);
     }
 
     public CalibrationConfig withSampler(int c, int w, int d, int l) {
-        return new CalibrationConfig(scale, groups, respondents, covariates, simulation, fit, c, w, d, l, seed,
+        return new CalibrationConfig(scale, groups, respondents, covariates, styleCovariates, simulation, fit, c, w, d, l, seed,
                 replications, alpha);
     }
 
@@ -110,13 +134,27 @@ public record CalibrationConfig(Scale scale, int groups, int respondents, int co
         return names;
     }
 
+    /** Names of the simulated style covariates, {@code w1..wQ}. */
+    public List<String> styleCovariateNames() {
+        List<String> names = new ArrayList<>(styleCovariates);
+        for (int j = 1; j <= styleCovariates; j++) {
+            names.add("w" + j);
+        }
+        return names;
+    }
+
+    /** Whether the data are simulated or fitted with the coarse class. */
+    public boolean coarseClass() {
+        return simulation.styleClasses().coarse() || fit.styleClasses().coarse();
+    }
+
     /**
      * The text of {@value #FILE}: one {@code key = value} line per component. Two folders hold
      * replications of the same calibration exactly when these texts are equal.
      */
     public String describe() {
         StringBuilder sb = new StringBuilder();
-        line(sb, "model", "ordered-probit");
+        line(sb, "model", coarseClass() ? "ordered-probit with coarse class" : "ordered-probit");
         line(sb, "scale", scale.toString());
         line(sb, "groups", Integer.toString(groups));
         line(sb, "respondents_per_group", Integer.toString(respondents));
@@ -125,6 +163,12 @@ public record CalibrationConfig(Scale scale, int groups, int respondents, int co
         line(sb, "simulation_priors", simulation.priors().toString());
         line(sb, "fit_thresholds", fit.thresholdMode().label());
         line(sb, "fit_priors", fit.priors().toString());
+        if (coarseClass()) {
+            // only with the coarse class, so that folders of ordered-probit calibrations keep their text
+            line(sb, "style_covariates", Integer.toString(styleCovariates));
+            line(sb, "simulation_style_classes", simulation.styleClasses().label());
+            line(sb, "fit_style_classes", fit.styleClasses().label());
+        }
         line(sb, "chains", Integer.toString(chains));
         line(sb, "warmup", Integer.toString(warmup));
         line(sb, "draws", Integer.toString(draws));

@@ -6,8 +6,9 @@ import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
 import org.rungs.priors.Priors;
 
 /**
- * Draws the parameters of the ordered probit from its prior (MODEL.md sections 2, 3 and 5),
- * written apart from the sampler so that a mistake in one is not repeated in the other.
+ * Draws the parameters of the ordered probit and of the coarse class from their prior (MODEL.md
+ * sections 2 to 5), written apart from the sampler so that a mistake in one is not repeated in
+ * the other.
  *
  * <p>The threshold prior is the product of b[k] ~ N(0, sd_b), tau_d ~ HN(sd_d) and
  * s[g,k] ~ N(0, tau_d), restricted to the region where the common thresholds c = b - mean(b) and
@@ -80,6 +81,31 @@ final class PriorSampler {
         }
         throw new IllegalArgumentException("no ordered thresholds in " + MAX_PROPOSALS
                 + " draws from the threshold prior; widen the threshold prior or narrow threshold_sd");
+    }
+
+    /**
+     * Draws the coarse class's parameters from their prior (MODEL.md 4 and 5): delta[j] ~ style prior,
+     * mu_gamma ~ style_mean prior, tau_gamma ~ style_sd prior and gamma[g] = mu_gamma + tau_gamma v[g]
+     * with v[g] ~ N(0,1); with one group gamma = mu_gamma and there is no tau_gamma.
+     */
+    static StyleParameters drawStyle(Priors priors, int covariates, int groups, UniformRandomProvider rng) {
+        ZigguratSampler.NormalizedGaussian normal = ZigguratSampler.NormalizedGaussian.of(rng);
+        double[] delta = new double[covariates];
+        for (int j = 0; j < covariates; j++) {
+            delta[j] = priors.style().mean() + priors.style().sd() * normal.sample();
+        }
+        double mean = priors.styleMean().mean() + priors.styleMean().sd() * normal.sample();
+        double[] gamma = new double[groups];
+        double sd = Double.NaN;
+        if (groups > 1) {
+            sd = Math.abs(priors.styleSd().sd() * normal.sample());
+            for (int g = 0; g < groups; g++) {
+                gamma[g] = mean + sd * normal.sample();
+            }
+        } else {
+            gamma[0] = mean;
+        }
+        return new StyleParameters(delta, mean, sd, gamma);
     }
 
     /** Subtracts the mean: c = b - mean(b), d = s - mean(s). */

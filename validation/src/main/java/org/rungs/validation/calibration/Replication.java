@@ -1,6 +1,7 @@
 package org.rungs.validation.calibration;
 
 import java.util.ArrayList;
+import java.util.Arrays;
 import java.util.List;
 import java.util.Map;
 import java.util.concurrent.atomic.AtomicBoolean;
@@ -9,6 +10,7 @@ import org.rungs.models.ThresholdMode;
 import org.rungs.posteriors.Draws;
 import org.rungs.posteriors.ParameterSummary;
 import org.rungs.posteriors.Summaries;
+import org.rungs.priors.StandardNormal;
 import org.rungs.sampler.FitResult;
 import org.rungs.sampler.Fitter;
 import org.rungs.sampler.ProgressListener;
@@ -16,12 +18,15 @@ import org.rungs.sampler.SamplerSettings;
 
 /**
  * One replication of simulation-based calibration (Talts et al. 2018, algorithm 1): draw the
- * parameters from the prior, simulate a survey from them, fit it, and rank every true value among
- * L thinned posterior draws. Everything random comes from the stream of (base seed, index).
+ * parameters from the prior, simulate a survey from them, fit it, and rank every true value (and
+ * the derived intended means and, with the coarse class, coarse shares) among L thinned posterior
+ * draws. Everything random comes from the stream of (base seed, index).
  */
 public final class Replication {
     /** Prefix of the derived intended mean of each group. */
     public static final String INTENDED_MEAN = "intended_mean.";
+    /** Prefix of the derived coarse share of each group. */
+    public static final String COARSE_SHARE = "coarse_share.";
 
     private Replication() {
     }
@@ -44,6 +49,9 @@ public final class Replication {
         List<ParameterRank> ranks = new ArrayList<>();
         Map<String, Double> truth = data.truth().named(config.covariateNames(), config.groupLabels(),
                 config.scale().lowest());
+        if (data.style() != null) {
+            data.style().name(config.styleCovariateNames(), config.groupLabels(), truth);
+        }
         List<ParameterSummary> summaries = Summaries.of(draws);
         for (Map.Entry<String, Double> e : truth.entrySet()) {
             int column = draws.indexOf(e.getKey());
@@ -52,6 +60,9 @@ public final class Replication {
             }
         }
         addIntendedMeans(config, data, draws, ranks, rng);
+        if (data.style() != null && config.fit().styleClasses().coarse()) {
+            addCoarseShares(config, data, draws, ranks, rng);
+        }
         return new ReplicationResult(index, ranks);
     }
 
@@ -117,6 +128,66 @@ public final class Replication {
         for (int g = 0; g < groups; g++) {
             String name = INTENDED_MEAN + labels.get(g);
             ranks.add(rank(name, trueMeans[g], means[g], Summaries.of(name, means[g]), config, rng));
+        }
+    }
+
+    /**
+     * The coarse share of each group (MODEL.md 6, unweighted): the mean of
+     * q_i = Phi(gamma[g] + w_i' delta) over the group's respondents, per draw and at the truth.
+     */
+    private static void addCoarseShares(CalibrationConfig config, SimulatedData data, Draws draws,
+            List<ParameterRank> ranks, UniformRandomProvider rng) {
+        int groups = config.groups();
+        List<String> labels = config.groupLabels();
+        List<String> names = config.styleCovariateNames();
+        double[][] w = data.styleStandardised();
+        int[] deltaColumn = new int[w.length];
+        for (int j = 0; j < w.length; j++) {
+            deltaColumn[j] = draws.indexOf("style." + names.get(j));
+        }
+        int[] gammaColumn = new int[groups];
+        for (int g = 0; g < groups; g++) {
+            gammaColumn[g] = draws.indexOf(groups > 1 ? "style_group." + labels.get(g) : "style_mean");
+        }
+        int[] group = data.survey().group();
+        int[] sizes = data.survey().groupSizes();
+        int chains = draws.chains();
+        int iterations = draws.iterations();
+        double[][][] shares = new double[groups][chains][iterations];
+        double[] delta = new double[w.length];
+        double[] gamma = new double[groups];
+        double[] out = new double[groups];
+        for (int c = 0; c < chains; c++) {
+            for (int t = 0; t < iterations; t++) {
+                for (int j = 0; j < w.length; j++) {
+                    delta[j] = draws.get(deltaColumn[j], c, t);
+                }
+                for (int g = 0; g < groups; g++) {
+                    gamma[g] = draws.get(gammaColumn[g], c, t);
+                }
+                coarseShares(gamma, delta, w, group, sizes, out);
+                for (int g = 0; g < groups; g++) {
+                    shares[g][c][t] = out[g];
+                }
+            }
+        }
+        StyleParameters truth = data.style();
+        double[] trueShares = new double[groups];
+        coarseShares(truth.gamma(), truth.delta(), w, group, sizes, trueShares);
+        for (int g = 0; g < groups; g++) {
+            String name = COARSE_SHARE + labels.get(g);
+            ranks.add(rank(name, trueShares[g], shares[g], Summaries.of(name, shares[g]), config, rng));
+        }
+    }
+
+    private static void coarseShares(double[] gamma, double[] delta, double[][] w, int[] group, int[] sizes,
+            double[] out) {
+        Arrays.fill(out, 0);
+        for (int i = 0; i < group.length; i++) {
+            out[group[i]] += StandardNormal.cdf(StyleParameters.linear(gamma, delta, w, group[i], i));
+        }
+        for (int g = 0; g < out.length; g++) {
+            out[g] /= sizes[g];
         }
     }
 }

@@ -5,39 +5,44 @@ import java.util.Arrays;
 import java.util.List;
 import org.apache.commons.rng.UniformRandomProvider;
 import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
+import org.rungs.models.StyleClasses;
 import org.rungs.models.ThresholdMode;
 import org.rungs.models.survey.Covariates;
+import org.rungs.models.survey.Scale;
 import org.rungs.models.survey.Survey;
+import org.rungs.priors.StandardNormal;
 
 /**
  * One simulated data set: parameters drawn from the simulation prior and ratings drawn from them
- * by MODEL.md sections 2 and 3, with covariates that are standardised here exactly as the engine
- * does (mean and sample sd with n-1), so the drawn coefficients are the engine's parameters.
+ * by MODEL.md sections 2, 3 and 4 (4a, 4c with the coarse class), with covariates that are
+ * standardised here exactly as the engine does (mean and sample sd with n-1), so the drawn
+ * coefficients are the engine's parameters.
  *
- * @param survey       the survey handed to the fit (raw covariates; the engine standardises them)
- * @param truth        the drawn parameters
- * @param standardised the covariates on the internal scale, [covariate][respondent]
+ * @param survey            the survey handed to the fit (raw covariates; the engine standardises them)
+ * @param truth             the drawn parameters
+ * @param style             the drawn coarse-class parameters, or null without the coarse class
+ * @param standardised      the level covariates on the internal scale, [covariate][respondent]
+ * @param styleStandardised the style covariates on the internal scale, [covariate][respondent]
  */
-record SimulatedData(Survey survey, TrueParameters truth, double[][] standardised) {
+record SimulatedData(Survey survey, TrueParameters truth, StyleParameters style, double[][] standardised,
+        double[][] styleStandardised) {
 
     static SimulatedData draw(CalibrationConfig config, UniformRandomProvider rng) {
         int groups = config.groups();
         int m = config.scale().categories();
         boolean byGroup = config.simulation().effectiveThresholdMode(groups) == ThresholdMode.BY_GROUP;
+        StyleClasses classes = config.simulation().styleClasses();
         TrueParameters truth = PriorSampler.draw(config.simulation().priors(), config.covariates(), groups, m, byGroup, rng);
+        StyleParameters style = classes.coarse()
+                ? PriorSampler.drawStyle(config.simulation().priors(), config.styleCovariates(), groups, rng) : null;
         ZigguratSampler.NormalizedGaussian normal = ZigguratSampler.NormalizedGaussian.of(rng);
         int n = groups * config.respondents();
-        int p = config.covariates();
-        List<double[]> raw = new ArrayList<>(p);
-        double[][] x = new double[p][];
-        for (int j = 0; j < p; j++) {
-            double[] column = new double[n];
-            for (int i = 0; i < n; i++) {
-                column[i] = normal.sample();
-            }
-            raw.add(column);
-            x[j] = standardise(column);
-        }
+        List<double[]> raw = new ArrayList<>();
+        double[][] x = columns(config.covariates(), n, normal, raw);
+        List<double[]> rawStyle = new ArrayList<>();
+        double[][] w = columns(config.styleCovariates(), n, normal, rawStyle);
+        int[] points = classes.coarse() ? coarsePoints(config.scale(), classes) : null;
+        int lowest = config.scale().lowest();
         int[] group = new int[n];
         byte[] category = new byte[n];
         for (int i = 0; i < n; i++) {
@@ -49,11 +54,52 @@ record SimulatedData(Survey survey, TrueParameters truth, double[][] standardise
             while (k < c.length && c[k] < latent) {
                 k++;
             }
+            // MODEL.md 4: coarse with probability q_i = Phi(gamma[g] + w_i' delta); 4a: report the nearest coarse point
+            if (style != null
+                    && rng.nextDouble() < StandardNormal.cdf(StyleParameters.linear(style.gamma(), style.delta(), w, g, i))) {
+                k = nearest(points, lowest + k, rng) - lowest;
+            }
             category[i] = (byte) k;
         }
-        Covariates level = p == 0 ? Covariates.none() : Covariates.fromNumeric(config.covariateNames(), raw);
-        Survey survey = Survey.of(config.scale(), category, group, config.groupLabels(), level, Covariates.none(), null);
-        return new SimulatedData(survey, truth, x);
+        Covariates level = x.length == 0 ? Covariates.none() : Covariates.fromNumeric(config.covariateNames(), raw);
+        Covariates styleCovariates = w.length == 0 ? Covariates.none()
+                : Covariates.fromNumeric(config.styleCovariateNames(), rawStyle);
+        Survey survey = Survey.of(config.scale(), category, group, config.groupLabels(), level, styleCovariates, null);
+        return new SimulatedData(survey, truth, style, x, w);
+    }
+
+    /** Standard normal raw columns (added to {@code raw}), returned standardised. */
+    private static double[][] columns(int count, int n, ZigguratSampler.NormalizedGaussian normal, List<double[]> raw) {
+        double[][] z = new double[count][];
+        for (int j = 0; j < count; j++) {
+            double[] column = new double[n];
+            for (int i = 0; i < n; i++) {
+                column[i] = normal.sample();
+            }
+            raw.add(column);
+            z[j] = standardise(column);
+        }
+        return z;
+    }
+
+    /** The coarse points as ratings, increasing: the user's, or {L, floor((L+U)/2), U} (MODEL.md 4a). */
+    static int[] coarsePoints(Scale scale, StyleClasses classes) {
+        int[] points = classes.coarsePoints() != null ? classes.coarsePoints().clone()
+                : new int[] {scale.lowest(), Math.floorDiv(scale.lowest() + scale.highest(), 2), scale.highest()};
+        Arrays.sort(points);
+        return points;
+    }
+
+    /** The coarse point nearest to rating k; a k equally near two points goes to each with probability 1/2 (MODEL.md 4a). */
+    static int nearest(int[] points, int k, UniformRandomProvider rng) {
+        int best = points[0];
+        for (int p : points) {
+            int d = Math.abs(p - k) - Math.abs(best - k);
+            if (d < 0 || d == 0 && p != best && rng.nextBoolean()) {
+                best = p;
+            }
+        }
+        return best;
     }
 
     /** eta_i = alpha[g] + x_i' beta (MODEL.md section 2). */

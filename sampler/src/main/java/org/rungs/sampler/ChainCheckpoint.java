@@ -1,0 +1,154 @@
+package org.rungs.sampler;
+
+import java.io.BufferedInputStream;
+import java.io.BufferedOutputStream;
+import java.io.ByteArrayInputStream;
+import java.io.ByteArrayOutputStream;
+import java.io.Closeable;
+import java.io.DataInputStream;
+import java.io.DataOutputStream;
+import java.io.IOException;
+import java.io.InputStream;
+import java.nio.channels.FileChannel;
+import java.nio.file.AtomicMoveNotSupportedException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.nio.file.StandardCopyOption;
+import java.nio.file.StandardOpenOption;
+import org.rungs.posteriors.Draws;
+
+/**
+ * The checkpoint of one chain: {@code chain-K.bin}, the chain's full state at an iteration,
+ * replaced atomically (written to a temporary file, then renamed), and {@code draws-K.bin}, its
+ * kept draws as raw doubles, appended as they are made and flushed with every save. The draws
+ * file may run ahead of the state after a kill; a resume cuts it back to the saved count.
+ */
+final class ChainCheckpoint implements Closeable {
+    /** "RUNGSCK1": marks the file and its format. */
+    private static final long MAGIC = 0x52554E4753434B31L;
+
+    /** Iterations done (warm-up included) and kept draws at a save. */
+    record Position(int iterations, int kept) {
+    }
+
+    private final Path stateFile;
+    private final Path drawsFile;
+    private final int chain;
+    private final SamplerSettings settings;
+    private final int parameters;
+    private final long intervalNanos;
+    private final boolean resume;
+    private long lastSave;
+    private DataOutputStream drawsOut;
+
+    ChainCheckpoint(Path dir, int chain, SamplerSettings settings, int parameters, long intervalNanos, boolean resume) {
+        this.stateFile = dir.resolve("chain-" + chain + ".bin");
+        this.drawsFile = dir.resolve("draws-" + chain + ".bin");
+        this.chain = chain;
+        this.settings = settings;
+        this.parameters = parameters;
+        this.intervalNanos = intervalNanos;
+        this.resume = resume;
+    }
+
+    /**
+     * When resuming and a state was saved: restores {@code target} and puts the saved kept draws
+     * into {@code draws}; otherwise starts empty files. Opens the draws file for appending.
+     */
+    Position restore(Chain target, Draws draws) throws IOException {
+        Files.createDirectories(stateFile.getParent());
+        Position at = new Position(0, 0);
+        if (resume && Files.exists(stateFile)) {
+            try (DataInputStream in = new DataInputStream(new ByteArrayInputStream(Files.readAllBytes(stateFile)))) {
+                at = readHeader(in);
+                target.restore(in);
+            }
+            readDraws(draws, at.kept());
+        }
+        try (FileChannel channel = FileChannel.open(drawsFile, StandardOpenOption.CREATE, StandardOpenOption.WRITE)) {
+            channel.truncate((long) at.kept() * parameters * Double.BYTES);
+        }
+        drawsOut = new DataOutputStream(new BufferedOutputStream(
+                Files.newOutputStream(drawsFile, StandardOpenOption.APPEND), 1 << 16));
+        lastSave = System.nanoTime();
+        return at;
+    }
+
+    private Position readHeader(DataInputStream in) throws IOException {
+        if (in.readLong() != MAGIC) {
+            throw new IOException(stateFile + " is not a checkpoint of this version");
+        }
+        int savedChain = in.readInt();
+        long seed = in.readLong();
+        int warmup = in.readInt();
+        int kept = in.readInt();
+        int savedParameters = in.readInt();
+        if (savedChain != chain || seed != settings.seed() || warmup != settings.warmup() || kept != settings.draws()
+                || savedParameters != parameters) {
+            throw new IOException(stateFile + " was saved by another fit (chain " + savedChain + ", seed " + seed + ", "
+                    + warmup + " warm-up + " + kept + " kept iterations, " + savedParameters + " parameters)");
+        }
+        return new Position(in.readInt(), in.readInt());
+    }
+
+    private void readDraws(Draws draws, int kept) throws IOException {
+        long needed = (long) kept * parameters * Double.BYTES;
+        if (Files.size(drawsFile) < needed) {
+            throw new IOException(drawsFile + " holds fewer than the " + kept + " kept draws its checkpoint counts");
+        }
+        double[] row = new double[parameters];
+        try (InputStream file = Files.newInputStream(drawsFile);
+             DataInputStream in = new DataInputStream(new BufferedInputStream(file, 1 << 16))) {
+            for (int t = 0; t < kept; t++) {
+                for (int p = 0; p < parameters; p++) {
+                    row[p] = Double.longBitsToDouble(in.readLong());
+                }
+                draws.putRow(chain, t, row);
+            }
+        }
+    }
+
+    /** Appends one kept draw. */
+    void append(double[] row) throws IOException {
+        for (double v : row) {
+            drawsOut.writeLong(Double.doubleToRawLongBits(v));
+        }
+    }
+
+    /** Whether the save interval has passed; only when a save happens depends on the clock, never what is saved. */
+    boolean due() {
+        return System.nanoTime() - lastSave >= intervalNanos;
+    }
+
+    /** Flushes the kept draws, then atomically replaces the saved state with {@code target}'s. */
+    void save(Chain target, int iterations, int kept) throws IOException {
+        drawsOut.flush();
+        ByteArrayOutputStream bytes = new ByteArrayOutputStream();
+        try (DataOutputStream out = new DataOutputStream(bytes)) {
+            out.writeLong(MAGIC);
+            out.writeInt(chain);
+            out.writeLong(settings.seed());
+            out.writeInt(settings.warmup());
+            out.writeInt(settings.draws());
+            out.writeInt(parameters);
+            out.writeInt(iterations);
+            out.writeInt(kept);
+            target.save(out);
+        }
+        Path tmp = stateFile.resolveSibling(stateFile.getFileName() + ".partial");
+        Files.write(tmp, bytes.toByteArray());
+        try {
+            Files.move(tmp, stateFile, StandardCopyOption.ATOMIC_MOVE, StandardCopyOption.REPLACE_EXISTING);
+        } catch (AtomicMoveNotSupportedException e) {
+            Files.move(tmp, stateFile, StandardCopyOption.REPLACE_EXISTING);
+        }
+        lastSave = System.nanoTime();
+    }
+
+    @Override
+    public void close() throws IOException {
+        if (drawsOut != null) {
+            drawsOut.close();
+        }
+    }
+}

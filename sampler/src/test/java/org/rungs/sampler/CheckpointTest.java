@@ -1,0 +1,152 @@
+package org.rungs.sampler;
+
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertThrows;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.io.IOException;
+import java.io.UncheckedIOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.nio.file.StandardCopyOption;
+import java.util.List;
+import java.util.SplittableRandom;
+import java.util.concurrent.atomic.AtomicBoolean;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+import org.rungs.models.ModelSpec;
+import org.rungs.models.StyleClasses;
+import org.rungs.models.ThresholdMode;
+import org.rungs.models.survey.Covariates;
+import org.rungs.models.survey.Survey;
+import org.rungs.posteriors.Draws;
+import org.rungs.priors.Priors;
+
+/**
+ * Stopping a fit at a pseudo-random iteration and resuming it from its checkpoint gives draws
+ * identical, bit for bit, to those of the uninterrupted fit, with the coarse class on (every
+ * stateful update in the sweep), once, twice, and after a simulated kill that leaves the draws
+ * file ahead of the saved state. Exact equality is the contract, so there is no tolerance.
+ */
+final class CheckpointTest {
+    /** 2 chains in 2 threads, so the chains stop at different iterations. */
+    private static final SamplerSettings SETTINGS = new SamplerSettings(2, 30, 40, 17L, 2);
+    private static final int TOTAL = 70;
+    /** Long enough that only the saves at a stop or at the end happen, unless a test asks for more. */
+    private static final double RARELY = 3600;
+
+    @TempDir
+    Path dir;
+
+    private static Survey survey() {
+        Survey plain = FitterTest.smallSurvey(11L, 40);
+        Covariates style = Covariates.fromNumeric(List.of("w"), List.of(plain.level().column(0).clone()));
+        return Survey.of(plain.scale(), plain.category(), plain.group(), List.of("north", "south", "east", "west"),
+                plain.level(), style, null);
+    }
+
+    private static ModelSpec spec() {
+        return new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults(), StyleClasses.coarse(null));
+    }
+
+    /** A listener that sets {@code stop} once chain 0 has finished {@code at} iterations. */
+    private static ProgressListener stopAt(int at, AtomicBoolean stop) {
+        return (chain, done, total, warmingUp) -> {
+            if (chain == 0 && done == at) {
+                stop.set(true);
+            }
+        };
+    }
+
+    private static FitResult fit(ProgressListener progress, AtomicBoolean stop, Checkpoints checkpoints) {
+        return Fitter.fit(survey(), spec(), SETTINGS, progress, stop, checkpoints);
+    }
+
+    private static void assertSameDraws(Draws expected, Draws actual) {
+        assertEquals(expected.names(), actual.names());
+        assertEquals(expected.iterations(), actual.iterations());
+        for (int p = 0; p < expected.parameterCount(); p++) {
+            for (int c = 0; c < expected.chains(); c++) {
+                assertArrayEquals(expected.chainsOf(p)[c], actual.chainsOf(p)[c], expected.names().get(p) + ", chain " + c);
+            }
+        }
+    }
+
+    @Test
+    void resumingAfterOneOrTwoStopsReproducesTheUninterruptedDraws() {
+        Draws reference = fit(ProgressListener.NONE, new AtomicBoolean(), Checkpoints.none()).draws();
+        SplittableRandom random = new SplittableRandom(20261202L);
+        for (int stops = 1; stops <= 2; stops++) {
+            Path here = dir.resolve("stops-" + stops);
+            int first = 1 + random.nextInt(TOTAL - 2);
+            AtomicBoolean stop = new AtomicBoolean();
+            FitResult part = fit(stopAt(first, stop), stop, Checkpoints.start(here, RARELY));
+            assertTrue(part.interrupted(), "stopped at iteration " + first);
+            if (stops == 2) {
+                int second = first + 1 + random.nextInt(TOTAL - first - 1);
+                AtomicBoolean again = new AtomicBoolean();
+                assertTrue(fit(stopAt(second, again), again, Checkpoints.resume(here, RARELY)).interrupted(),
+                        "stopped again at iteration " + second);
+            }
+            FitResult resumed = fit(ProgressListener.NONE, new AtomicBoolean(), Checkpoints.resume(here, RARELY));
+            assertFalse(resumed.interrupted());
+            assertSameDraws(reference, resumed.draws());
+            assertArrayEquals(fit(ProgressListener.NONE, new AtomicBoolean(), Checkpoints.none()).thresholdAcceptance(),
+                    resumed.thresholdAcceptance(), "acceptance counters are part of the state");
+        }
+    }
+
+    /**
+     * A kill leaves the state of the last save and a draws file that may hold later draws: the
+     * state files are copied when chain 0 reaches a pseudo-random iteration (saving at every
+     * iteration), the fit runs on to the end, then the copies are put back as a kill would have left them.
+     */
+    @Test
+    void resumingAfterAKillDropsTheDrawsPastTheSavedState() throws IOException {
+        Draws reference = fit(ProgressListener.NONE, new AtomicBoolean(), Checkpoints.none()).draws();
+        Path snapshot = Files.createDirectories(dir.resolve("snapshot"));
+        Path here = dir.resolve("killed");
+        int at = 31 + new SplittableRandom(7L).nextInt(TOTAL - 32);
+        ProgressListener copyAt = (chain, done, total, warmingUp) -> {
+            if (chain == 0 && done == at) {
+                try {
+                    for (int c = 0; c < SETTINGS.chains(); c++) {
+                        Path saved = here.resolve("chain-" + c + ".bin");
+                        if (Files.exists(saved)) {
+                            Files.copy(saved, snapshot.resolve(saved.getFileName()), StandardCopyOption.REPLACE_EXISTING);
+                        }
+                    }
+                } catch (IOException e) {
+                    throw new UncheckedIOException(e);
+                }
+            }
+        };
+        assertFalse(fit(copyAt, new AtomicBoolean(), Checkpoints.start(here, 0)).interrupted());
+        assertTrue(Files.exists(snapshot.resolve("chain-0.bin")), "chain 0 had saved before iteration " + at);
+        for (int c = 0; c < SETTINGS.chains(); c++) {
+            Path copy = snapshot.resolve("chain-" + c + ".bin");
+            Path saved = here.resolve("chain-" + c + ".bin");
+            if (Files.exists(copy)) {
+                Files.copy(copy, saved, StandardCopyOption.REPLACE_EXISTING);
+            } else {
+                Files.delete(saved);
+            }
+        }
+        assertTrue(Files.size(here.resolve("draws-0.bin")) > (long) (at - 1 - SETTINGS.warmup()) * reference.parameterCount() * Double.BYTES,
+                "the draws file ran ahead of the restored state");
+        assertSameDraws(reference, fit(ProgressListener.NONE, new AtomicBoolean(), Checkpoints.resume(here, RARELY)).draws());
+    }
+
+    @Test
+    void aCheckpointOfAnotherFitIsRefused() {
+        Path here = dir.resolve("other");
+        AtomicBoolean stop = new AtomicBoolean();
+        fit(stopAt(10, stop), stop, Checkpoints.start(here, RARELY));
+        SamplerSettings otherSeed = new SamplerSettings(2, 30, 40, 18L, 2);
+        UncheckedIOException e = assertThrows(UncheckedIOException.class, () -> Fitter.fit(survey(), spec(), otherSeed,
+                ProgressListener.NONE, new AtomicBoolean(), Checkpoints.resume(here, RARELY)));
+        assertTrue(e.getMessage().contains("another fit"), e.getMessage());
+    }
+}
