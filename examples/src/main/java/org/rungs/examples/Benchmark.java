@@ -320,7 +320,8 @@ public final class Benchmark {
         timingTable(sb, timings);
         sb.append("\nSpeed with the coarse class on (a quarter of the respondents coarse, intercept-only class probit), "
                 + "measured the same way.\n\n");
-             if (!ess.isEmpty()) {
+        timingTable(sb, coarseTimings);
+        if (!ess.isEmpty()) {
             sb.append("\nBulk ESS per second: 2 chains on 2 threads, seconds are wall clock; ESS over all parameters.\n\n");
             sb.append("| respondents | warm-up + kept per chain | seconds | min bulk ESS (parameter) | median bulk ESS | min ESS/s | median ESS/s |\n");
             sb.append("|---:|---:|---:|---:|---:|---:|---:|\n");

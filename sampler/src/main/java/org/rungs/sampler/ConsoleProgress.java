@@ -50,7 +50,7 @@ public final class ConsoleProgress implements ProgressListener {
                 sb.append(" | ");
             }
             sb.append("chain ").append(c + 1).append(' ')
-                    .append(d == total ? "done" : warming.get(c) == 1 ? "warm-up" : "sampling")
+                    .append(d == total ? "done" : d == 0 ? "waiting" : warming.get(c) == 1 ? "warm-up" : "sampling")
                     .append(' ').append(d).append('/').append(total);
         }
         long all = (long) total * done.length();

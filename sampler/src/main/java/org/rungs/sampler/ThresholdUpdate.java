@@ -63,6 +63,8 @@ final class ThresholdUpdate implements Update, Checkpointed {
     /** Per respondent: the smaller normal tail at the lower and at the upper bound of its category. */
     final double[] lowerTail;
     final double[] upperTail;
+    /** Per respondent: the tail at the moved bound under the pending proposal, kept if it is accepted. */
+    private final double[] proposedTail;
     /**
      * Per respondent reporting a coarse point (coarse class on): q, P(r | full) and
      * P(r | coarse) at the current state, so a step recomputes only the part it changes.
@@ -88,6 +90,7 @@ final class ThresholdUpdate implements Update, Checkpointed {
         this.covariatePart = new double[state.size];
         this.lowerTail = new double[state.size];
         this.upperTail = new double[state.size];
+        this.proposedTail = new double[state.size];
         int mixtureSize = state.channel == null ? 0 : state.size;
         this.mixtureQ = new double[mixtureSize];
         this.mixtureFull = new double[mixtureSize];
@@ -211,7 +214,7 @@ final class ThresholdUpdate implements Update, Checkpointed {
                 s.shareCommonThresholds();
             }
             shiftLevel(b, -share);
-            moveTails(b, k, delta);
+            moveTails(b, k);
         }
         if (adapt) {
             logScale[slot] += Math.pow(warmupStep + 1.0, -0.6) * ((accept ? 1 : 0) - TARGET_ACCEPTANCE);
@@ -287,7 +290,9 @@ final class ThresholdUpdate implements Update, Checkpointed {
                         double low = lower - eta;
                         double high = cut - eta;
                         double before = interval(low, lowerTail[i], high, upperTail[i]);
-                        double after = interval(low, lowerTail[i], high + delta, tail(high + delta));
+                        double moved = tail(high + delta);
+                        proposedTail[i] = moved;
+                        double after = interval(low, lowerTail[i], high + delta, moved);
                         product = accumulate(product, before, after, low, high, low, high + delta);
                         if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
                             change += Math.log(product);
@@ -303,7 +308,9 @@ final class ThresholdUpdate implements Update, Checkpointed {
                         double low = cut - eta;
                         double high = upper - eta;
                         double before = interval(low, lowerTail[i], high, upperTail[i]);
-                        double after = interval(low + delta, tail(low + delta), high, upperTail[i]);
+                        double moved = tail(low + delta);
+                        proposedTail[i] = moved;
+                        double after = interval(low + delta, moved, high, upperTail[i]);
                         product = accumulate(product, before, after, low, high, low + delta, high);
                         if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
                             change += Math.log(product);
@@ -332,19 +339,24 @@ final class ThresholdUpdate implements Update, Checkpointed {
                 StandardNormal.logIntervalProbability(newLow, newHigh) - StandardNormal.logIntervalProbability(low, high))));
     }
 
-    /** After an accepted move of threshold k by delta: the tails at k of the two runs beside it. */
-    private void moveTails(int b, int k, double delta) {
+    /**
+     * After an accepted move of threshold k: the tails at k of the two runs beside it, as computed
+     * for the proposal (recomputed for coarse-point runs, whose step took the mixture path).
+     */
+    private void moveTails(int b, int k) {
         ChainState s = state;
         int m = s.categories;
         double[] t = s.thresholds;
         for (int g = firstGroup(b); g <= lastGroup(b); g++) {
             double alpha = s.level.intercept[g];
             double cut = t[g * stride + k];
+            boolean belowIsPoint = s.channel != null && s.channel.isPoint(k - 1);
+            boolean aboveIsPoint = s.channel != null && s.channel.isPoint(k);
             for (int i = start[g * m + k - 1], end = start[g * m + k]; i < end; i++) {
-                upperTail[i] = tail(cut - alpha - covariatePart[i]);
+                upperTail[i] = belowIsPoint ? tail(cut - alpha - covariatePart[i]) : proposedTail[i];
             }
             for (int i = start[g * m + k], end = start[g * m + k + 1]; i < end; i++) {
-                lowerTail[i] = tail(cut - alpha - covariatePart[i]);
+                lowerTail[i] = aboveIsPoint ? tail(cut - alpha - covariatePart[i]) : proposedTail[i];
             }
             if (s.channel != null) {
                 for (int j : visited[k]) {

@@ -1,15 +1,11 @@
 package org.rungs.sampler.derived;
 
-import java.io.BufferedWriter;
 import java.io.IOException;
-import java.io.Writer;
-import java.nio.charset.StandardCharsets;
-import java.nio.file.Files;
 import java.nio.file.Path;
-import java.nio.file.StandardCopyOption;
 import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
+import org.rungs.posteriors.AtomicFiles;
 import org.rungs.posteriors.Draws;
 import org.rungs.posteriors.ParameterSummary;
 
@@ -23,10 +19,6 @@ final class DerivedTables {
     private static final int TOP = 3;
 
     private DerivedTables() {
-    }
-
-    private interface Content {
-        void writeTo(Writer out) throws IOException;
     }
 
     /**
@@ -46,7 +38,7 @@ final class DerivedTables {
             }
         }
         header.append(",p_top").append(TOP).append("_intended,p_top").append(TOP).append("_harmonised,rank_change\n");
-        write(file, out -> {
+        AtomicFiles.write(file, out -> {
             out.append(header);
             StringBuilder line = new StringBuilder();
             for (int g = 0; g < labels.size(); g++) {
@@ -75,7 +67,7 @@ final class DerivedTables {
     static void writeDistributions(DerivedResult r, List<ParameterSummary> summaries, Path file) throws IOException {
         Map<String, ParameterSummary> byName = byName(summaries);
         List<String> labels = r.groupLabels();
-        write(file, out -> {
+        AtomicFiles.write(file, out -> {
             out.append("group,rating,observed_count,reported_share,intended_share_mean,intended_share_q5,"
                     + "intended_share_q95,harmonised_share_mean,harmonised_share_q5,harmonised_share_q95,"
                     + "replicated_mean,replicated_q5,replicated_q95,outside_90\n");
@@ -102,7 +94,7 @@ final class DerivedTables {
     /** column, level, share_mean, share_q5, share_q95; only the header without categorical style covariates. */
     static void writeCoarseShares(DerivedResult r, List<ParameterSummary> summaries, Path file) throws IOException {
         Map<String, ParameterSummary> byName = byName(summaries);
-        write(file, out -> {
+        AtomicFiles.write(file, out -> {
             out.append("column,level,share_mean,share_q5,share_q95\n");
             StringBuilder line = new StringBuilder();
             for (DerivedResult.StyleLevel level : r.coarseLevels()) {
@@ -165,19 +157,5 @@ final class DerivedTables {
             }
         }
         return value;
-    }
-
-    /** Through a temporary file in the same folder and an atomic rename, so readers never see half a file. */
-    private static void write(Path file, Content content) throws IOException {
-        Path target = file.toAbsolutePath();
-        Path temporary = Files.createTempFile(target.getParent(), "." + target.getFileName(), ".tmp");
-        try {
-            try (BufferedWriter out = Files.newBufferedWriter(temporary, StandardCharsets.UTF_8)) {
-                content.writeTo(out);
-            }
-            Files.move(temporary, target, StandardCopyOption.ATOMIC_MOVE, StandardCopyOption.REPLACE_EXISTING);
-        } finally {
-            Files.deleteIfExists(temporary);
-        }
     }
 }

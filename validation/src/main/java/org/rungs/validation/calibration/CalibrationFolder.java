@@ -1,19 +1,17 @@
 package org.rungs.validation.calibration;
 
-import java.io.BufferedWriter;
 import java.io.IOException;
 import java.io.UncheckedIOException;
 import java.nio.charset.StandardCharsets;
-import java.nio.file.AtomicMoveNotSupportedException;
 import java.nio.file.Files;
 import java.nio.file.Path;
-import java.nio.file.StandardCopyOption;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
 import java.util.Map;
 import java.util.TreeMap;
 import java.util.stream.Stream;
+import org.rungs.posteriors.AtomicFiles;
 
 /**
  * A calibration's folder: {@value CalibrationConfig#FILE} (the configuration), one file per
@@ -164,19 +162,7 @@ public final class CalibrationFolder {
         Path target = dir.resolve(relative);
         try {
             Files.createDirectories(target.getParent());
-            Path tmp = Files.createTempFile(target.getParent(), "." + target.getFileName(), ".partial");
-            try {
-                try (BufferedWriter out = Files.newBufferedWriter(tmp, StandardCharsets.UTF_8)) {
-                    out.write(text);
-                }
-                try {
-                    Files.move(tmp, target, StandardCopyOption.ATOMIC_MOVE, StandardCopyOption.REPLACE_EXISTING);
-                } catch (AtomicMoveNotSupportedException e) {
-                    Files.move(tmp, target, StandardCopyOption.REPLACE_EXISTING);
-                }
-            } finally {
-                Files.deleteIfExists(tmp);
-            }
+            AtomicFiles.write(target, out -> out.write(text));
         } catch (IOException e) {
             throw new UncheckedIOException("could not write " + target + ": " + e.getMessage(), e);
         }
