@@ -26,7 +26,8 @@ import picocli.CommandLine.Parameters;
 /** {@code rungs calibrate}: simulation-based calibration of the engine, and {@code calibrate merge} of shards. */
 @Command(name = "calibrate", mixinStandardHelpOptions = true, sortOptions = false,
         subcommands = CalibrateCommand.Merge.class,
-        description = {"Simulation-based calibration (Talts et al. 2018): each replication draws parameters from the prior,",
+        description = {"Check the sampler by simulation-based calibration (Talts et al. 2018).",
+                "Each replication draws parameters from the prior,",
                 "simulates a survey, fits it and ranks every true value among thinned posterior draws. Writes ranks.csv,",
                 "fits.csv, verdicts.csv and plots/*.svg to the output folder; a rerun with the same folder skips finished",
                 "replications. Exit code 1 when a quantity fails the uniformity verdict. See VALIDATION.md."})
