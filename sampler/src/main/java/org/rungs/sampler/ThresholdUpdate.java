@@ -283,45 +283,41 @@ final class ThresholdUpdate implements Update, Checkpointed {
                         change += mixtureLogRatio(i, row, j, s.level.intercept[g] + covariatePart[i], k, delta);
                     }
                 } else if (j == k - 1) {
-                    double alpha = s.level.intercept[g];
-                    double product = 1;
-                    for (int i = from; i < to; i++) {
-                        double eta = alpha + covariatePart[i];
-                        double low = lower - eta;
-                        double high = cut - eta;
-                        double before = interval(low, lowerTail[i], high, upperTail[i]);
-                        double moved = tail(high + delta);
-                        proposedTail[i] = moved;
-                        double after = interval(low, lowerTail[i], high + delta, moved);
-                        product = accumulate(product, before, after, low, high, low, high + delta);
-                        if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
-                            change += Math.log(product);
-                            product = 1;
-                        }
-                    }
-                    change += Math.log(product);
+                    change += runChange(from, to, s.level.intercept[g], lower, cut, true, delta);
                 } else {
-                    double alpha = s.level.intercept[g];
-                    double product = 1;
-                    for (int i = from; i < to; i++) {
-                        double eta = alpha + covariatePart[i];
-                        double low = cut - eta;
-                        double high = upper - eta;
-                        double before = interval(low, lowerTail[i], high, upperTail[i]);
-                        double moved = tail(low + delta);
-                        proposedTail[i] = moved;
-                        double after = interval(low + delta, moved, high, upperTail[i]);
-                        product = accumulate(product, before, after, low, high, low + delta, high);
-                        if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
-                            change += Math.log(product);
-                            product = 1;
-                        }
-                    }
-                    change += Math.log(product);
+                    change += runChange(from, to, s.level.intercept[g], cut, upper, false, delta);
                 }
             }
         }
         return change;
+    }
+
+    /**
+     * The log-likelihood change of a run of full-scale respondents of one category whose upper
+     * bound ({@code upperMoves}) or lower bound moves by delta, from the cached tails; the tail at
+     * the moved bound is kept in {@link #proposedTail} in case the step is accepted.
+     */
+    private double runChange(int from, int to, double alpha, double lowerBound, double upperBound,
+                             boolean upperMoves, double delta) {
+        double change = 0;
+        double product = 1;
+        for (int i = from; i < to; i++) {
+            double eta = alpha + covariatePart[i];
+            double low = lowerBound - eta;
+            double high = upperBound - eta;
+            double newLow = upperMoves ? low : low + delta;
+            double newHigh = upperMoves ? high + delta : high;
+            double moved = tail(upperMoves ? newHigh : newLow);
+            proposedTail[i] = moved;
+            double before = interval(low, lowerTail[i], high, upperTail[i]);
+            double after = upperMoves ? interval(low, lowerTail[i], newHigh, moved) : interval(newLow, moved, high, upperTail[i]);
+            product = accumulate(product, before, after, low, high, newLow, newHigh);
+            if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
+                change += Math.log(product);
+                product = 1;
+            }
+        }
+        return change + Math.log(product);
     }
 
     /**
