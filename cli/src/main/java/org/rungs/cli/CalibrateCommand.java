@@ -8,6 +8,7 @@ import java.util.List;
 import java.util.Locale;
 import java.util.concurrent.Callable;
 import org.rungs.models.ModelSpec;
+import org.rungs.models.NumberAttraction;
 import org.rungs.models.RoundingChannel;
 import org.rungs.models.StyleClasses;
 import org.rungs.models.ThresholdMode;
@@ -62,6 +63,10 @@ final class CalibrateCommand implements Callable<Integer> {
     @Option(names = "--style-covariates", paramLabel = "Q",
             description = "Numeric style covariates (standard normal before standardising), with --style-classes coarse. Default: 1 with the coarse class.")
     Integer styleCovariates;
+
+    @Option(names = "--attraction", paramLabel = "SET", defaultValue = "none",
+            description = "Number attraction of simulation and fit (MODEL.md 4b): none, default (every number but the coarse points) or ratings such as 1,3. Default: ${DEFAULT-VALUE}.")
+    String attraction;
 
     @Option(names = "--prior", paramLabel = "NAME=DIST",
             description = "Replace a default prior of both simulation and fit, e.g. level=normal(0,2). Names: " + Priors.NAMES + ".")
@@ -128,8 +133,10 @@ final class CalibrateCommand implements Callable<Integer> {
                         : RoundingChannel.defaultPoints(ratings));
             }
             int q = styleCovariates != null ? styleCovariates : classes.coarse() ? 1 : 0;
+            NumberAttraction numbers = NumberAttraction.parse(attraction);
+            numbers.resolve(ratings, classes); // rejects a bad set before any replication runs
             config = new CalibrationConfig(ratings, groups, respondents, covariates, q,
-                    new ModelSpec(mode, simulation, classes), new ModelSpec(mode, fit, classes), chains, warmup, draws,
+                    new ModelSpec(mode, simulation, classes, numbers), new ModelSpec(mode, fit, classes, numbers), chains, warmup, draws,
                     rankDraws, seed, replications, alpha);
             slice = shard == null ? Shard.ALL : Shard.parse(shard);
         } catch (IllegalArgumentException e) {

@@ -4,6 +4,7 @@ import java.security.SecureRandom;
 import java.util.ArrayList;
 import java.util.List;
 import org.rungs.models.ModelSpec;
+import org.rungs.models.NumberAttraction;
 import org.rungs.models.StyleClasses;
 import org.rungs.models.ThresholdMode;
 import org.rungs.priors.Priors;
@@ -23,6 +24,10 @@ final class SamplingOptions {
     @Option(names = "--coarse-points", split = ",", paramLabel = "RATING",
             description = "The coarse points of the coarse class. Default: the two ends and the middle of the scale (0,5,10 on 0..10).")
     int[] coarsePoints;
+
+    @Option(names = "--attraction", paramLabel = "SET", defaultValue = "none",
+            description = "Number attraction: none, default (every number but the coarse points, which are the reference), or the numbers to test (e.g. 3,7). Off by default: its sampler mixes slowly (see the README). Default: ${DEFAULT-VALUE}.")
+    String attraction;
 
     @Option(names = "--prior", paramLabel = "NAME=DIST",
             description = "Replace a default prior, e.g. level=normal(0,2.5) or group_sd=half-normal(0.5). Names: " + Priors.NAMES + ".")
@@ -54,7 +59,7 @@ final class SamplingOptions {
             case "none": classes = StyleClasses.none(); break;
             default: throw new IllegalArgumentException("--style-classes must be 'coarse' or 'none', got '" + styleClasses + "'");
         }
-        return new ModelSpec(ThresholdMode.parse(thresholds), p, classes);
+        return new ModelSpec(ThresholdMode.parse(thresholds), p, classes, NumberAttraction.parse(attraction));
     }
 
     SamplerSettings settings() {

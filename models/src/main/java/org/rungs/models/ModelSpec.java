@@ -3,14 +3,19 @@ package org.rungs.models;
 import org.rungs.priors.Priors;
 
 /**
- * What is fitted: the threshold mode, the response-style classes (MODEL.md 4) and the priors.
- * Number attraction (MODEL.md 4b) is not yet part of the model.
+ * What is fitted: the threshold mode, the response-style classes (MODEL.md 4), the number
+ * attraction (MODEL.md 4b) and the priors.
  */
-public record ModelSpec(ThresholdMode thresholdMode, Priors priors, StyleClasses styleClasses) {
+public record ModelSpec(ThresholdMode thresholdMode, Priors priors, StyleClasses styleClasses, NumberAttraction attraction) {
 
-    /** The plain hierarchical ordered probit (style classes off). */
+    /** The plain hierarchical ordered probit (style classes and attraction off). */
     public ModelSpec(ThresholdMode thresholdMode, Priors priors) {
         this(thresholdMode, priors, StyleClasses.none());
+    }
+
+    /** Attraction off. */
+    public ModelSpec(ThresholdMode thresholdMode, Priors priors, StyleClasses styleClasses) {
+        this(thresholdMode, priors, styleClasses, NumberAttraction.none());
     }
 
     public static ModelSpec defaults() {
@@ -24,6 +29,16 @@ public record ModelSpec(ThresholdMode thresholdMode, Priors priors, StyleClasses
 
     /** The same model with other style classes. */
     public ModelSpec withStyleClasses(StyleClasses classes) {
-        return new ModelSpec(thresholdMode, priors, classes);
+        return new ModelSpec(thresholdMode, priors, classes, attraction);
+    }
+
+    /** The same model with another number attraction. */
+    public ModelSpec withAttraction(NumberAttraction numbers) {
+        return new ModelSpec(thresholdMode, priors, styleClasses, numbers);
+    }
+
+    /** The same model with other priors. */
+    public ModelSpec withPriors(Priors other) {
+        return new ModelSpec(thresholdMode, other, styleClasses, attraction);
     }
 }

@@ -11,7 +11,10 @@ import org.rungs.models.survey.Survey;
  * The named scalar parameters of a fit, in the column order of {@code draws.csv}. Names follow
  * the README: {@code level.<covariate>} (per internal unit), {@code group_mean}, {@code group_sd},
  * {@code group.<label>}, {@code threshold.<k>} (the latent value above which the answer is at
- * least k), {@code threshold_sd}, {@code threshold.<label>.<k>}, and the derived
+ * least k), {@code threshold_sd}, {@code threshold.<label>.<k>}, the coarse class's
+ * {@code style.<covariate>}, {@code style_mean}, {@code style_sd}, {@code style_group.<label>},
+ * the attraction's {@code attraction.<j>} (abar[j]; a[j] itself with one group),
+ * {@code attraction_sd}, {@code attraction.<label>.<j>} (a[g,j]), and the derived
  * {@code level.<covariate>.per_unit} on the user's scale of each numeric covariate.
  */
 public final class ParameterLayout {
@@ -29,10 +32,14 @@ public final class ParameterLayout {
     private final int styleMeanIndex;
     private final int styleSdIndex;
     private final int styleGroupOffset;
+    private final int[] attractionSet;
+    private final int attractionOffset;
+    private final int attractionSdIndex;
+    private final int groupAttractionOffset;
     private final int perUnitOffset;
     private final int[] perUnitColumns;
 
-    private ParameterLayout(Survey survey, ThresholdMode mode, boolean coarseClass) {
+    private ParameterLayout(Survey survey, ThresholdMode mode, boolean coarseClass, int[] attractionSet) {
         List<String> n = new ArrayList<>();
         Covariates level = survey.level();
         Scale scale = survey.scale();
@@ -98,6 +105,24 @@ public final class ParameterLayout {
             styleSdIndex = -1;
             styleGroupOffset = -1;
         }
+        this.attractionSet = attractionSet.clone();
+        attractionOffset = n.size();
+        for (int j : attractionSet) {
+            n.add("attraction." + j);
+        }
+        if (attractionSet.length > 0 && groups > 1) {
+            attractionSdIndex = n.size();
+            n.add("attraction_sd");
+            groupAttractionOffset = n.size();
+            for (String label : survey.groupLabels()) {
+                for (int j : attractionSet) {
+                    n.add("attraction." + label + "." + j);
+                }
+            }
+        } else {
+            attractionSdIndex = -1;
+            groupAttractionOffset = -1;
+        }
         perUnitOffset = n.size();
         List<Integer> numeric = new ArrayList<>();
         for (int j = 0; j < levelCount; j++) {
@@ -111,7 +136,8 @@ public final class ParameterLayout {
     }
 
     public static ParameterLayout of(Survey survey, ModelSpec spec) {
-        return new ParameterLayout(survey, spec.effectiveThresholdMode(survey.groupCount()), spec.styleClasses().coarse());
+        return new ParameterLayout(survey, spec.effectiveThresholdMode(survey.groupCount()), spec.styleClasses().coarse(),
+                spec.attraction().resolve(survey.scale(), spec.styleClasses()));
     }
 
     public List<String> names() {
@@ -180,6 +206,26 @@ public final class ParameterLayout {
     /** -1 unless the coarse class is on and there are several groups. */
     public int styleGroupOffset() {
         return styleGroupOffset;
+    }
+
+    /** The attraction set A as ratings in increasing order; empty when attraction is off. */
+    public int[] attractionSet() {
+        return attractionSet.clone();
+    }
+
+    /** Offset of abar[j] (a[j] with one group), one per number of A in its order. */
+    public int attractionOffset() {
+        return attractionOffset;
+    }
+
+    /** -1 unless attraction is on and there are several groups. */
+    public int attractionSdIndex() {
+        return attractionSdIndex;
+    }
+
+    /** -1 unless attraction is on and there are several groups; a[g,j] at offset + g*|A| + (position of j in A). */
+    public int groupAttractionOffset() {
+        return groupAttractionOffset;
     }
 
     public int perUnitOffset() {

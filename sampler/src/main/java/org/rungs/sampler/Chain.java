@@ -18,8 +18,16 @@ import org.rungs.posteriors.Draws;
 
 /**
  * One Markov chain: its state and the cycle of updates of one sweep, in the order thresholds,
- * threshold hyperparameters, style classes (when on), latent levels, level coefficients and
- * group levels, their pooling, then the coarse class's coefficients and pooling.
+ * threshold hyperparameters, style classes (when on), number attraction (when on), latent
+ * levels, level coefficients and group levels, their pooling, then the coarse class's
+ * coefficients and pooling.
+ *
+ * <p>The thresholds are drawn with the classes and latent levels integrated out but given the
+ * rejected draws of the attraction scheme; the classes' intercepts with everything but the
+ * attraction integrated out; the classes, then the attraction given the classes, then the
+ * latent levels and rejected draws given both. Each quantity integrated out is redrawn before
+ * any later step conditions on it, so the cycle leaves the posterior invariant (van Dyk & Park
+ * 2008, Partially collapsed Gibbs samplers, JASA 103, section 3).
  *
  * <p>Its future depends only on its state, the state of its updates and its random stream, which
  * together make its checkpoint: restoring them continues the chain bit for bit.
@@ -44,7 +52,9 @@ final class Chain implements Checkpointed {
         RoundingChannel channel = classes.coarse()
                 ? RoundingChannel.of(scale, classes.coarsePoints() != null ? classes.coarsePoints() : RoundingChannel.defaultPoints(scale))
                 : null;
-        ChainState state = new ChainState(order, byGroup, channel);
+        int lowest = scale.lowest();
+        int[] attracted = java.util.Arrays.stream(spec.attraction().resolve(scale, classes)).map(r -> r - lowest).toArray();
+        ChainState state = new ChainState(order, byGroup, channel, attracted);
         InitialValues.apply(state, priors.styleMean().mean(), rng);
         ThresholdUpdate thresholds = ThresholdUpdate.of(state, order.start(), priors, rng);
         List<Update> sweep = new ArrayList<>();
@@ -55,6 +65,9 @@ final class Chain implements Checkpointed {
         }
         if (channel != null) {
             sweep.add(StyleClassUpdate.of(state, priors, rng));
+        }
+        if (state.attractionOn()) {
+            sweep.add(AttractionUpdate.of(state, priors, rng));
         }
         sweep.add(LatentLevelUpdate.of(state, rng));
         sweep.add(RegressionUpdate.of(state.level, priors.level(), priors.groupMean(), rng));

@@ -39,7 +39,28 @@ final class ChainState implements Checkpointed {
     final double[] thresholds;
     double thresholdSd;
 
+    /** Positions (rating - L) of the attraction set A (MODEL.md 4b); empty when attraction is off. */
+    final int[] attracted;
+    /** a[g,k] for group g and position k at {@code g*M + k}; 0 outside A. */
+    final double[] attraction;
+    /** The common terms abar[k] by position; 0 outside A (with one group a = abar). */
+    final double[] attractionMean;
+    double attractionSd;
+    /**
+     * The rejected draws of the last latent-level update (see {@link LatentLevelUpdate}): for each,
+     * the respondent and the category it fell in; {@link #rejectedCount} per respondent, saturating.
+     */
+    int rejections;
+    int[] rejectedRespondent;
+    byte[] rejectedCategory;
+    final byte[] rejectedCount;
+
+    /** Attraction off. */
     ChainState(SurveyOrder order, boolean byGroup, RoundingChannel channel) {
+        this(order, byGroup, channel, new int[0]);
+    }
+
+    ChainState(SurveyOrder order, boolean byGroup, RoundingChannel channel, int[] attracted) {
         Survey survey = order.survey();
         this.start = order.start();
         this.survey = survey;
@@ -53,6 +74,12 @@ final class ChainState implements Checkpointed {
         this.channel = channel;
         this.style = channel == null ? null : new RegressionBlock(survey.style(), group, groups);
         this.coarse = channel == null ? null : new byte[size];
+        this.attracted = attracted.clone();
+        this.attraction = new double[groups * categories];
+        this.attractionMean = new double[categories];
+        this.rejectedCount = attracted.length > 0 ? new byte[size] : null;
+        this.rejectedRespondent = new int[attracted.length > 0 ? Math.max(16, size / 4) : 0];
+        this.rejectedCategory = new byte[rejectedRespondent.length];
         common = new double[categories + 1];
         thresholds = new double[groups * (categories + 1)];
         common[0] = Double.NEGATIVE_INFINITY;
@@ -62,6 +89,42 @@ final class ChainState implements Checkpointed {
     /** Linear predictor eta_i = alpha[g_i] + x_i' beta (MODEL.md section 2). */
     double eta(int i) {
         return level.linear(i, group[i]);
+    }
+
+    boolean attractionOn() {
+        return attracted.length > 0;
+    }
+
+    /** max(0, max_k a[g,k]): the bound of the redraw scheme; numbers outside A have a = 0. */
+    double attractionTop(int g) {
+        double top = 0;
+        for (int k : attracted) {
+            top = Math.max(top, attraction[g * categories + k]);
+        }
+        return top;
+    }
+
+    /** Records a rejected draw of respondent i in category k, growing the buffers when full. */
+    void reject(int i, int k) {
+        if (rejections == rejectedRespondent.length) {
+            int grown = Math.max(16, rejections * 2);
+            rejectedRespondent = java.util.Arrays.copyOf(rejectedRespondent, grown);
+            rejectedCategory = java.util.Arrays.copyOf(rejectedCategory, grown);
+        }
+        rejectedRespondent[rejections] = i;
+        rejectedCategory[rejections] = (byte) k;
+        rejections++;
+        if (rejectedCount[i] < Byte.MAX_VALUE) {
+            rejectedCount[i]++;
+        }
+    }
+
+    /** Forgets the rejected draws (before a latent-level update draws new ones). */
+    void clearRejections() {
+        for (int r = 0; r < rejections; r++) {
+            rejectedCount[rejectedRespondent[r]] = 0;
+        }
+        rejections = 0;
     }
 
     /** Copies the common thresholds into every group's row (shared mode). */
@@ -96,6 +159,18 @@ final class ChainState implements Checkpointed {
                 System.arraycopy(style.intercept, 0, row, layout.styleGroupOffset(), groups);
             }
         }
+        int na = attracted.length;
+        for (int j = 0; j < na; j++) {
+            row[layout.attractionOffset() + j] = groups > 1 ? attractionMean[attracted[j]] : attraction[attracted[j]];
+        }
+        if (layout.attractionSdIndex() >= 0) {
+            row[layout.attractionSdIndex()] = attractionSd;
+            for (int g = 0; g < groups; g++) {
+                for (int j = 0; j < na; j++) {
+                    row[layout.groupAttractionOffset() + g * na + j] = attraction[g * categories + attracted[j]];
+                }
+            }
+        }
         for (int u = 0; u < layout.perUnitCount(); u++) {
             int j = layout.perUnitColumn(u);
             row[layout.perUnitOffset() + u] = level.coefficient[j] / survey.level().scale(j);
@@ -114,6 +189,17 @@ final class ChainState implements Checkpointed {
         Checkpointed.writeDoubles(out, common);
         Checkpointed.writeDoubles(out, thresholds);
         Checkpointed.writeDouble(out, thresholdSd);
+        out.writeInt(attracted.length);
+        if (attractionOn()) {
+            Checkpointed.writeDoubles(out, attraction);
+            Checkpointed.writeDoubles(out, attractionMean);
+            Checkpointed.writeDouble(out, attractionSd);
+            out.writeInt(rejections);
+            for (int r = 0; r < rejections; r++) {
+                out.writeInt(rejectedRespondent[r]);
+                out.writeByte(rejectedCategory[r]);
+            }
+        }
     }
 
     @Override
@@ -130,5 +216,22 @@ final class ChainState implements Checkpointed {
         Checkpointed.readDoubles(in, common);
         Checkpointed.readDoubles(in, thresholds);
         thresholdSd = Checkpointed.readDouble(in);
+        if (in.readInt() != attracted.length) {
+            throw new IOException("the checkpoint was made with another attraction set");
+        }
+        if (attractionOn()) {
+            Checkpointed.readDoubles(in, attraction);
+            Checkpointed.readDoubles(in, attractionMean);
+            attractionSd = Checkpointed.readDouble(in);
+            clearRejections();
+            int count = in.readInt();
+            for (int r = 0; r < count; r++) {
+                int i = in.readInt();
+                if (i < 0 || i >= size) {
+                    throw new IOException("the checkpoint names respondent " + i + " of " + size);
+                }
+                reject(i, in.readByte());
+            }
+        }
     }
 }

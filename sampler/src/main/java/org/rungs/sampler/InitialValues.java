@@ -49,6 +49,15 @@ final class InitialValues {
         if (s.style != null) {
             disperse(s.style, styleMean, rng);
         }
+        if (s.attractionOn()) {
+            s.attractionSd = Math.exp(uniform(rng, Math.log(0.05), Math.log(0.3)));
+            for (int k : s.attracted) {
+                s.attractionMean[k] = uniform(rng, -0.2, 0.2);
+                for (int g = 0; g < s.groups; g++) {
+                    s.attraction[g * m + k] = s.groups > 1 ? s.attractionMean[k] + uniform(rng, -0.1, 0.1) : s.attractionMean[k];
+                }
+            }
+        }
     }
 
     /** Intercepts, mean, spread and coefficients of a block jittered around {@code centre}. */

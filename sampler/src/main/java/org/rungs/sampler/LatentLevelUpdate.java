@@ -2,6 +2,7 @@ package org.rungs.sampler;
 
 import java.util.Arrays;
 import org.apache.commons.rng.UniformRandomProvider;
+import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
 import org.rungs.models.RoundingChannel;
 import org.rungs.priors.StandardNormal;
 
@@ -13,6 +14,16 @@ import org.rungs.priors.StandardNormal;
  * reported point, each half-weighted tie category being a separate piece. Only the sufficient
  * statistics of the conjugate level update are kept: the latent sum per group and the
  * cross-products with each covariate; the latent values themselves are not stored.
+ *
+ * <p>Under number attraction (MODEL.md 4b) a full-scale answer is the first accepted draw of a
+ * redraw scheme: draw y ~ Normal(eta, 1), accept its category k with probability
+ * exp(a[g,k] - A[g]), A[g] = max(0, max_k a[g,k]), else draw again; the accepted category has
+ * exactly the tilted probabilities of 4b. The rejected draws before the accepted one are
+ * independent of it given eta, a geometric number of draws from the rejected part (Rao, Lin &
+ * Dunson 2016, Data augmentation for models based on rejection sampling, Biometrika 103,
+ * section 2), so they are drawn by running the scheme until its first acceptance. Every draw is
+ * a Normal(eta, 1) value, so all of them enter the conjugate update; their categories are kept
+ * for the threshold update, which conditions on them.
  */
 final class LatentLevelUpdate implements Update {
     private final ChainState state;
@@ -21,11 +32,16 @@ final class LatentLevelUpdate implements Update {
     /** Bounds of the piece chosen by {@link #intendedPiece}. */
     private double pieceLower;
     private double pieceUpper;
+    private final ZigguratSampler.NormalizedGaussian normal;
+    /** exp(a[g,k] - A[g]) by group and position: the acceptance probability of a draw in category k. */
+    private final double[] acceptance;
 
     private LatentLevelUpdate(ChainState state, UniformRandomProvider rng) {
         this.state = state;
         this.rng = rng;
         this.truncatedNormal = TruncatedNormalSampler.of(rng);
+        this.normal = ZigguratSampler.NormalizedGaussian.of(rng);
+        this.acceptance = new double[state.attractionOn() ? state.groups * state.categories : 0];
     }
 
     static LatentLevelUpdate of(ChainState state, UniformRandomProvider rng) {
@@ -47,6 +63,18 @@ final class LatentLevelUpdate implements Update {
         double[][] columns = level.columns;
         int p = level.count;
         int stride = s.categories + 1;
+        int m = s.categories;
+        boolean attraction = s.attractionOn();
+        if (attraction) {
+            s.clearRejections();
+            level.clearExtra();
+            for (int g = 0; g < s.groups; g++) {
+                double top = s.attractionTop(g);
+                for (int k = 0; k < m; k++) {
+                    acceptance[g * m + k] = Math.exp(s.attraction[g * m + k] - top);
+                }
+            }
+        }
         for (int i = 0; i < s.size; i++) {
             int g = group[i];
             double eta = level.linear(i, g);
@@ -57,6 +85,8 @@ final class LatentLevelUpdate implements Update {
                 intendedPiece(g * stride, category[i], eta);
                 lower = pieceLower;
                 upper = pieceUpper;
+            } else if (attraction) {
+                redraw(i, g, eta);
             }
             double latent = eta + truncatedNormal.sample(lower - eta, upper - eta);
             sums[g] += latent;
@@ -64,6 +94,42 @@ final class LatentLevelUpdate implements Update {
                 cross[j] += columns[j][i] * latent;
             }
         }
+    }
+
+    /** The rejected draws of full-scale respondent i: the redraw scheme run to its first acceptance. */
+    private void redraw(int i, int g, double eta) {
+        ChainState s = state;
+        RegressionBlock level = s.level;
+        int m = s.categories;
+        int row = g * (m + 1);
+        while (true) {
+            double y = eta + normal.sample();
+            int k = categoryOf(s.thresholds, row, m, y);
+            if (rng.nextDouble() < acceptance[g * m + k]) {
+                return;
+            }
+            s.reject(i, k);
+            level.latentSum[g] += y;
+            for (int j = 0; j < level.count; j++) {
+                level.latentCross[j] += level.columns[j][i] * y;
+            }
+            level.addExtra(i, g);
+        }
+    }
+
+    /** The category k with t[k] < y <= t[k+1] in the row at {@code row}, by bisection. */
+    static int categoryOf(double[] t, int row, int m, double y) {
+        int low = 0;
+        int high = m - 1;
+        while (low < high) {
+            int mid = (low + high + 1) >>> 1;
+            if (t[row + mid] < y) {
+                low = mid;
+            } else {
+                high = mid - 1;
+            }
+        }
+        return low;
     }
 
     /**

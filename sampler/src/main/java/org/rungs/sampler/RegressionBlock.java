@@ -22,6 +22,14 @@ final class RegressionBlock implements Checkpointed {
     final double[] latentSum;
     final double[] latentCross;
     final DesignSums sums;
+    /**
+     * Latent values beyond one per respondent (the rejected draws under number attraction, see
+     * {@link LatentLevelUpdate}): their count per group, their covariate sums per group and their
+     * covariate cross-products, added to {@link #sums} by the conjugate update.
+     */
+    final double[] extraCount;
+    final double[][] extraGroupCovariate;
+    final double[][] extraGram;
 
     RegressionBlock(Covariates covariates, int[] group, int groups) {
         this.count = covariates.count();
@@ -35,6 +43,9 @@ final class RegressionBlock implements Checkpointed {
         this.latentSum = new double[groups];
         this.latentCross = new double[count];
         this.sums = DesignSums.of(group, groups, columns);
+        this.extraCount = new double[groups];
+        this.extraGroupCovariate = new double[groups][count];
+        this.extraGram = new double[count][count];
     }
 
     /** intercept[g] + x_i' coefficient for respondent i of group g. */
@@ -44,6 +55,31 @@ final class RegressionBlock implements Checkpointed {
             e += columns[j][i] * coefficient[j];
         }
         return e;
+    }
+
+    /** Forgets the extra latent values. */
+    void clearExtra() {
+        java.util.Arrays.fill(extraCount, 0);
+        for (double[] row : extraGroupCovariate) {
+            java.util.Arrays.fill(row, 0);
+        }
+        for (double[] row : extraGram) {
+            java.util.Arrays.fill(row, 0);
+        }
+    }
+
+    /** Adds one more latent value of respondent i in group g to the design. */
+    void addExtra(int i, int g) {
+        extraCount[g]++;
+        double[] groupRow = extraGroupCovariate[g];
+        for (int j = 0; j < count; j++) {
+            double xj = columns[j][i];
+            groupRow[j] += xj;
+            double[] gramRow = extraGram[j];
+            for (int k = 0; k < count; k++) {
+                gramRow[k] += xj * columns[k][i];
+            }
+        }
     }
 
     /** Moves the intercepts and their mean together (with one group the intercept is the mean). */

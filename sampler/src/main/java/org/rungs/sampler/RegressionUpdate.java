@@ -11,7 +11,8 @@ import org.rungs.priors.Normal;
  * of MODEL.md 2 and 4). The intercept block of the precision is diagonal, so the coefficients
  * are drawn from their marginal (the Schur complement) and then the intercepts given them:
  * exact, at a cost of O(G P^2) per sweep whatever the number of respondents. With one group the
- * intercept is the block's mean itself, with the mean's prior.
+ * intercept is the block's mean itself, with the mean's prior. Extra latent values of a
+ * respondent (the rejected draws under attraction) enter as further observations of its eta.
  */
 final class RegressionUpdate implements Update {
     private final RegressionBlock block;
@@ -24,6 +25,7 @@ final class RegressionUpdate implements Update {
     private final double[] draw;
     private final double[] groupPrecision;
     private final double[] groupRhs;
+    private final double[][] groupCovariate;
 
     private RegressionUpdate(RegressionBlock block, Normal coefficientPrior, Normal meanPrior, UniformRandomProvider rng) {
         this.block = block;
@@ -37,6 +39,7 @@ final class RegressionUpdate implements Update {
         this.draw = new double[p];
         this.groupPrecision = new double[block.groups];
         this.groupRhs = new double[block.groups];
+        this.groupCovariate = new double[block.groups][p];
     }
 
     static RegressionUpdate of(RegressionBlock block, Normal coefficientPrior, Normal meanPrior, UniformRandomProvider rng) {
@@ -59,16 +62,22 @@ final class RegressionUpdate implements Update {
         }
         int[] sizes = b.sums.groupSizes();
         for (int g = 0; g < groups; g++) {
-            groupPrecision[g] = sizes[g] + priorPrecision;
+            groupPrecision[g] = sizes[g] + b.extraCount[g] + priorPrecision;
             groupRhs[g] = b.latentSum[g] + priorPrecision * priorMean;
         }
-        double[][] groupCov = b.sums.groupCovariateSums();
+        double[][] groupCov = groupCovariate;
+        double[][] baseCov = b.sums.groupCovariateSums();
+        for (int g = 0; g < groups; g++) {
+            for (int j = 0; j < p; j++) {
+                groupCov[g][j] = baseCov[g][j] + b.extraGroupCovariate[g][j];
+            }
+        }
         if (p > 0) {
             double[][] gram = b.sums.covariateGram();
             double betaPrecision = coefficientPrior.precision();
             for (int j = 0; j < p; j++) {
                 for (int k = 0; k < p; k++) {
-                    precision.unsafe_set(j, k, gram[j][k] + (j == k ? betaPrecision : 0));
+                    precision.unsafe_set(j, k, gram[j][k] + b.extraGram[j][k] + (j == k ? betaPrecision : 0));
                 }
                 h[j] = b.latentCross[j] + betaPrecision * coefficientPrior.mean();
             }

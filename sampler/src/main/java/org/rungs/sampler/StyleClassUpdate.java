@@ -41,6 +41,8 @@ final class StyleClassUpdate implements Update, Checkpointed {
     private final double[] coarse;
     private final double[] linear;
     private final double[] coefficientStep;
+    /** exp(a[g,k]) - 1 by group and position (attraction on). */
+    private final double[] excess;
     private double coefficientLogScale;
     private int warmupStep;
 
@@ -61,6 +63,7 @@ final class StyleClassUpdate implements Update, Checkpointed {
         this.coarse = new double[state.size];
         this.linear = new double[state.size];
         this.coefficientStep = new double[state.style.count];
+        this.excess = new double[state.attractionOn() ? state.groups * m : 0];
         this.coefficientLogScale = Math.log(1.0 / Math.sqrt(1.0 + state.size));
     }
 
@@ -92,9 +95,15 @@ final class StyleClassUpdate implements Update, Checkpointed {
         }
     }
 
-    /** Caches each respondent's P(r | full), P(r | coarse) and style linear predictor. */
+    /** Caches each respondent's P(r | full) (with attraction, MODEL.md 4b), P(r | coarse) and style linear predictor. */
     private void prepare(int g, int from, int to) {
         ChainState s = state;
+        int m = s.categories;
+        if (s.attractionOn()) {
+            for (int k = 0; k < m; k++) {
+                excess[g * m + k] = Math.expm1(s.attraction[g * m + k]);
+            }
+        }
         RoundingChannel channel = s.channel;
         int row = g * (s.categories + 1);
         for (int i = from; i < to; i++) {
@@ -104,6 +113,10 @@ final class StyleClassUpdate implements Update, Checkpointed {
             if (channel.isPoint(r)) {
                 double eta = s.eta(i);
                 full[at] = ResponseLikelihood.full(s.thresholds, row, r, eta, -1, 0);
+                if (s.attractionOn()) {
+                    full[at] *= Math.exp(s.attraction[g * m + r])
+                            / ResponseLikelihood.attractionNormaliser(s.thresholds, row, m, eta, excess, g * m);
+                }
                 coarse[at] = ResponseLikelihood.coarse(channel, s.thresholds, row, r, eta, -1, 0);
             } else {
                 full[at] = Double.NaN;

@@ -31,6 +31,12 @@ import org.rungs.priors.StandardNormal;
  * c[g] can only follow each other through the prior, which is slow where a category has few
  * answers and the prior holds c[g,k] close to c[k]. Each step's scale adapts during warm-up
  * only (Roberts & Rosenthal 2009, section 3) towards acceptance 0.44.
+ *
+ * <p>Under number attraction the step conditions on the rejected draws of the redraw scheme (see
+ * {@link LatentLevelUpdate}) and integrates out their latent values: a rejected draw in category
+ * k contributes pi[g,k](eta), like one more answer k of its respondent, and a respondent with
+ * rejected draws is full-scale for sure. The accepted answer contributes pi[g,r](eta) times
+ * exp(a[g,r] - A[g]), which matters only where the coarse class competes for the answer.
  */
 final class ThresholdUpdate implements Update, Checkpointed {
     private static final double TARGET_ACCEPTANCE = 0.44;
@@ -70,6 +76,17 @@ final class ThresholdUpdate implements Update, Checkpointed {
      * P(r | coarse) at the current state, so a step recomputes only the part it changes.
      */
     private final double[] mixtureQ;
+    /** Per such respondent: exp(a[g,r] - A[g]) with no rejected draws; with some, 1 (and q taken as 0). */
+    private final double[] mixtureTilt;
+    /**
+     * The rejected draws as pseudo-answers sorted by (group, category), runs starting at
+     * {@link #pseudoStart}, with the covariate part and the cached tails of each (as for respondents).
+     */
+    private final int[] pseudoStart;
+    private double[] pseudoPart = new double[0];
+    private double[] pseudoLower = new double[0];
+    private double[] pseudoUpper = new double[0];
+    private double[] pseudoProposed = new double[0];
     final double[] mixtureFull;
     final double[] mixtureCoarse;
     private long accepted;
@@ -95,6 +112,8 @@ final class ThresholdUpdate implements Update, Checkpointed {
         this.mixtureQ = new double[mixtureSize];
         this.mixtureFull = new double[mixtureSize];
         this.mixtureCoarse = new double[mixtureSize];
+        this.mixtureTilt = new double[mixtureSize];
+        this.pseudoStart = new int[state.attractionOn() ? state.groups * state.categories + 1 : 0];
         this.visited = new int[cuts + 1][];
         for (int k = 1; k <= cuts; k++) {
             int kk = k;
@@ -164,10 +183,52 @@ final class ThresholdUpdate implements Update, Checkpointed {
             lowerTail[i] = tail(t[at] - eta);
             upperTail[i] = tail(t[at + 1] - eta);
             if (s.channel != null && s.channel.isPoint(s.category[i])) {
-                mixtureQ[i] = StandardNormal.cdf(s.style.linear(i, g));
+                boolean rejected = s.attractionOn() && s.rejectedCount[i] > 0;
+                mixtureQ[i] = rejected ? 0 : StandardNormal.cdf(s.style.linear(i, g));
+                mixtureTilt[i] = !s.attractionOn() || rejected ? 1
+                        : Math.exp(s.attraction[g * s.categories + s.category[i]] - s.attractionTop(g));
                 refreshMixture(i, g * stride, s.category[i], eta);
             }
         }
+        if (s.attractionOn()) {
+            sortRejections();
+        }
+    }
+
+    /** Counting sort of the rejected draws into runs by (group, category), with their tails. */
+    private void sortRejections() {
+        ChainState s = state;
+        int m = s.categories;
+        int n = s.rejections;
+        if (pseudoPart.length < n) {
+            int capacity = Math.max(n, pseudoPart.length * 2);
+            pseudoPart = new double[capacity];
+            pseudoLower = new double[capacity];
+            pseudoUpper = new double[capacity];
+            pseudoProposed = new double[capacity];
+        }
+        java.util.Arrays.fill(pseudoStart, 0);
+        for (int r = 0; r < n; r++) {
+            pseudoStart[s.group[s.rejectedRespondent[r]] * m + s.rejectedCategory[r] + 1]++;
+        }
+        for (int b = 1; b < pseudoStart.length; b++) {
+            pseudoStart[b] += pseudoStart[b - 1];
+        }
+        for (int r = 0; r < n; r++) {
+            int i = s.rejectedRespondent[r];
+            int g = s.group[i];
+            int bucket = g * m + s.rejectedCategory[r];
+            int at = pseudoStart[bucket]++;
+            pseudoPart[at] = covariatePart[i];
+            double eta = s.level.intercept[g] + covariatePart[i];
+            int row = g * stride + s.rejectedCategory[r];
+            pseudoLower[at] = tail(s.thresholds[row] - eta);
+            pseudoUpper[at] = tail(s.thresholds[row + 1] - eta);
+        }
+        for (int b = pseudoStart.length - 1; b > 0; b--) {
+            pseudoStart[b] = pseudoStart[b - 1];
+        }
+        pseudoStart[0] = 0;
     }
 
     private void refreshMixture(int i, int row, int j, double eta) {
@@ -283,22 +344,30 @@ final class ThresholdUpdate implements Update, Checkpointed {
                         change += mixtureLogRatio(i, row, j, s.level.intercept[g] + covariatePart[i], k, delta);
                     }
                 } else if (j == k - 1) {
-                    change += runChange(from, to, s.level.intercept[g], lower, cut, true, delta);
+                    change += runChange(from, to, s.level.intercept[g], lower, cut, true, delta, covariatePart, lowerTail, upperTail, proposedTail);
                 } else {
-                    change += runChange(from, to, s.level.intercept[g], cut, upper, false, delta);
+                    change += runChange(from, to, s.level.intercept[g], cut, upper, false, delta, covariatePart, lowerTail, upperTail, proposedTail);
                 }
+            }
+            if (s.attractionOn()) {
+                change += runChange(pseudoStart[g * m + k - 1], pseudoStart[g * m + k], s.level.intercept[g], lower, cut, true, delta,
+                        pseudoPart, pseudoLower, pseudoUpper, pseudoProposed);
+                change += runChange(pseudoStart[g * m + k], pseudoStart[g * m + k + 1], s.level.intercept[g], cut, upper, false, delta,
+                        pseudoPart, pseudoLower, pseudoUpper, pseudoProposed);
             }
         }
         return change;
     }
 
     /**
-     * The log-likelihood change of a run of full-scale respondents of one category whose upper
-     * bound ({@code upperMoves}) or lower bound moves by delta, from the cached tails; the tail at
-     * the moved bound is kept in {@link #proposedTail} in case the step is accepted.
+     * The log-likelihood change of a run of full-scale answers of one category whose upper bound
+     * ({@code upperMoves}) or lower bound moves by delta, from the cached tails ({@code lowerTail},
+     * {@code upperTail}); the tail at the moved bound is kept in {@code proposedTail} in case the
+     * step is accepted. The arrays are the respondents' or the rejected draws'.
      */
-    private double runChange(int from, int to, double alpha, double lowerBound, double upperBound,
-                             boolean upperMoves, double delta) {
+    private static double runChange(int from, int to, double alpha, double lowerBound, double upperBound,
+                                    boolean upperMoves, double delta, double[] covariatePart,
+                                    double[] lowerTail, double[] upperTail, double[] proposedTail) {
         double change = 0;
         double product = 1;
         for (int i = from; i < to; i++) {
@@ -354,6 +423,14 @@ final class ThresholdUpdate implements Update, Checkpointed {
             for (int i = start[g * m + k], end = start[g * m + k + 1]; i < end; i++) {
                 lowerTail[i] = aboveIsPoint ? tail(cut - alpha - covariatePart[i]) : proposedTail[i];
             }
+            if (s.attractionOn()) {
+                for (int i = pseudoStart[g * m + k - 1], end = pseudoStart[g * m + k]; i < end; i++) {
+                    pseudoUpper[i] = pseudoProposed[i];
+                }
+                for (int i = pseudoStart[g * m + k], end = pseudoStart[g * m + k + 1]; i < end; i++) {
+                    pseudoLower[i] = pseudoProposed[i];
+                }
+            }
             if (s.channel != null) {
                 for (int j : visited[k]) {
                     if (s.channel.isPoint(j)) {
@@ -367,25 +444,28 @@ final class ThresholdUpdate implements Update, Checkpointed {
     }
 
     /**
-     * The change of log((1 - q) P(r = j | full) + q P(r = j | coarse)) (MODEL.md 4c, the class
-     * summed out) when boundary k moves by delta, for a respondent reporting coarse point j.
+     * The change of log((1 - q) tilt P(r = j | full) + q P(r = j | coarse)) (MODEL.md 4c, the class
+     * summed out; tilt as in {@link #mixtureTilt}) when boundary k moves by delta, for a respondent
+     * reporting coarse point j.
      */
     private double mixtureLogRatio(int i, int row, int j, double eta, int k, double delta) {
         RoundingChannel channel = state.channel;
         double[] t = state.thresholds;
         double q = mixtureQ[i];
+        double tilt = mixtureTilt[i];
         double fullBefore = mixtureFull[i];
         double coarseBefore = mixtureCoarse[i];
         double fullAfter = j == k - 1 || j == k ? ResponseLikelihood.full(t, row, j, eta, k, delta) : fullBefore;
         double coarseAfter = channel.dependsOn(j, k) ? ResponseLikelihood.coarse(channel, t, row, j, eta, k, delta) : coarseBefore;
-        double before = (1 - q) * fullBefore + q * coarseBefore;
-        double after = (1 - q) * fullAfter + q * coarseAfter;
+        double before = (1 - q) * tilt * fullBefore + q * coarseBefore;
+        double after = (1 - q) * tilt * fullAfter + q * coarseAfter;
         if (after > 1e-280 && before > 1e-280) {
             return Math.log(after / before);
         }
-        double logBefore = ResponseLikelihood.logSum(Math.log1p(-q) + ResponseLikelihood.logFull(t, row, j, eta),
+        double logTilt = Math.log(tilt);
+        double logBefore = ResponseLikelihood.logSum(Math.log1p(-q) + logTilt + ResponseLikelihood.logFull(t, row, j, eta),
                 Math.log(q) + ResponseLikelihood.logCoarse(channel, t, row, j, eta, -1, 0));
-        double logAfter = ResponseLikelihood.logSum(Math.log1p(-q) + logFullMoved(t, row, j, eta, k, delta),
+        double logAfter = ResponseLikelihood.logSum(Math.log1p(-q) + logTilt + logFullMoved(t, row, j, eta, k, delta),
                 Math.log(q) + ResponseLikelihood.logCoarse(channel, t, row, j, eta, k, delta));
         return logAfter - logBefore;
     }

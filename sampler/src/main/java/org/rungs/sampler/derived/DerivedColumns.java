@@ -8,8 +8,10 @@ import org.rungs.models.survey.Scale;
 
 /**
  * Names and positions of the derived scalars of MODEL.md section 6, one column each of the
- * derived draws: per-group means, bias, coarse share and ranks, then the per-group shares and
- * replicated counts by rating, the coarse share by style level, and the average marginal effects.
+ * derived draws: per-group means, bias (and its split under number attraction), coarse share and
+ * ranks, then the per-group shares and replicated counts by rating, the coarse share by style
+ * level, and the average marginal effects. The attraction columns exist only with attraction on,
+ * so a fit without it has the columns it always had, in the same order.
  */
 final class DerivedColumns {
     final int groups;
@@ -17,6 +19,10 @@ final class DerivedColumns {
     final int intendedMean;
     final int harmonisedMean;
     final int meanBias;
+    /** -1 without number attraction; likewise the two parts of the mean bias and the attracted shares. */
+    final int attractedMean;
+    final int meanBiasAttraction;
+    final int meanBiasRounding;
     /** -1 without the coarse class. */
     final int coarseShare;
     final int rankIntended;
@@ -24,6 +30,7 @@ final class DerivedColumns {
     /** Group g's share of position k is at {@code intendedShare + g*M + k}; likewise the next two. */
     final int intendedShare;
     final int harmonisedShare;
+    final int attractedShare;
     final int replicated;
     /** Start of the coarse shares by style level, in the order of {@code levels}. */
     final int coarseShareBy;
@@ -33,18 +40,23 @@ final class DerivedColumns {
     final int[] amePerUnit;
     final List<String> names;
 
-    DerivedColumns(List<String> groupLabels, Scale scale, Covariates level, boolean coarse, List<DerivedResult.StyleLevel> levels) {
+    DerivedColumns(List<String> groupLabels, Scale scale, Covariates level, boolean coarse, boolean attraction,
+            List<DerivedResult.StyleLevel> levels) {
         groups = groupLabels.size();
         categories = scale.categories();
         List<String> n = new ArrayList<>();
         intendedMean = perGroup(n, "intended_mean", groupLabels);
         harmonisedMean = perGroup(n, "harmonised_mean", groupLabels);
         meanBias = perGroup(n, "mean_bias", groupLabels);
+        attractedMean = attraction ? perGroup(n, "attracted_mean", groupLabels) : -1;
+        meanBiasAttraction = attraction ? perGroup(n, "mean_bias_attraction", groupLabels) : -1;
+        meanBiasRounding = attraction ? perGroup(n, "mean_bias_rounding", groupLabels) : -1;
         coarseShare = coarse ? perGroup(n, "coarse_share", groupLabels) : -1;
         rankIntended = perGroup(n, "rank_intended", groupLabels);
         rankHarmonised = perGroup(n, "rank_harmonised", groupLabels);
         intendedShare = perRating(n, "intended_share", groupLabels, scale);
         harmonisedShare = perRating(n, "harmonised_share", groupLabels, scale);
+        attractedShare = attraction ? perRating(n, "attracted_share", groupLabels, scale) : -1;
         replicated = perRating(n, "replicated", groupLabels, scale);
         coarseShareBy = n.size();
         for (DerivedResult.StyleLevel l : levels) {

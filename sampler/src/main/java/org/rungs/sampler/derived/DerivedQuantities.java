@@ -26,6 +26,13 @@ import org.rungs.posteriors.ParameterSummary;
  * group's own and with the common thresholds, weighted by the survey weights;
  * <li>{@code intended_mean.<label>}, {@code harmonised_mean.<label>}, {@code mean_bias.<label>}
  * (observed weighted mean minus intended mean);
+ * <li>with number attraction only, {@code attracted_share.<label>.<k>}: coarse rounding removed,
+ * attraction kept, the weighted mean over the group of pi[g,k](eta_i) exp(a[g,k]) / sum_k
+ * pi[g,k](eta_i) exp(a[g,k]) (MODEL.md 4b); {@code attracted_mean.<label>}; and the mean bias
+ * split as {@code mean_bias = mean_bias_rounding + mean_bias_attraction}:
+ * {@code mean_bias_attraction.<label>} = attracted minus intended mean,
+ * {@code mean_bias_rounding.<label>} = reported minus attracted mean (coarse rounding, plus the
+ * difference between the observed mean and its expectation under the model);
  * <li>{@code coarse_share.<label>} and {@code coarse_share_by.<column>=<level>}, the weighted mean of
  * q_i in a group and at each level (reference included) of a categorical style covariate, with
  * the coarse class only;
@@ -34,7 +41,8 @@ import org.rungs.posteriors.ParameterSummary;
  * the intended expected rating from the column's reference level to this level, the other
  * covariates as observed) and {@code ame.<covariate>.per_unit} (numeric columns, per unit of the
  * user's column);
- * <li>{@code replicated.<label>.<k>}: a posterior predictive count of rating k (MODEL.md 4c).
+ * <li>{@code replicated.<label>.<k>}: a posterior predictive count of rating k (MODEL.md 4c), the
+ * full-scale answers drawn with attraction when it is on.
  * </ul>
  */
 public final class DerivedQuantities {
@@ -92,8 +100,9 @@ public final class DerivedQuantities {
             channel = RoundingChannel.of(survey.scale(), points != null ? points : RoundingChannel.defaultPoints(survey.scale()));
             partition = StylePartition.of(survey.style(), survey.size(), weight);
         }
+        boolean attraction = layout.attractionSet().length > 0;
         DerivedColumns columns = new DerivedColumns(survey.groupLabels(), survey.scale(), survey.level(), coarse,
-                partition.levels);
+                attraction, partition.levels);
         Draws derived = new Draws(columns.names, draws.chains(), used.length);
 
         int total = draws.chains() * used.length;
@@ -115,7 +124,7 @@ public final class DerivedQuantities {
         };
         run(worker, workers);
         return new DerivedResult(derived, survey.groupLabels(), survey.scale(), used, counts, shares, reportedMeans,
-                coarse, partition.levels);
+                coarse, attraction, partition.levels);
     }
 
     /** groups.csv: one row per group with the means, bias, coarse share and ranks; see {@link DerivedTables}. */
@@ -123,7 +132,7 @@ public final class DerivedQuantities {
         DerivedTables.writeGroups(r, derivedSummaries, file);
     }
 
-    /** distributions.csv: per group and rating, observed, intended, harmonised and replicated. */
+    /** distributions.csv: per group and rating, observed, intended, harmonised, attracted (attraction on) and replicated. */
     public static void writeDistributions(DerivedResult r, List<ParameterSummary> derivedSummaries, Path file)
             throws IOException {
         DerivedTables.writeDistributions(r, derivedSummaries, file);

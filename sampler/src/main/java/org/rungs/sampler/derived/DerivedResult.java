@@ -16,11 +16,13 @@ import org.rungs.posteriors.Draws;
  * @param reportedShares weighted share of each position among the group's respondents
  * @param reportedMeans weighted mean reported rating per group
  * @param coarseClass whether the model has the coarse class (and so coarse shares)
+ * @param attraction whether the model has number attraction (and so attracted shares and the split
+ *     of the mean bias)
  * @param coarseLevels the style levels with a coarse share, in column order
  */
 public record DerivedResult(Draws draws, List<String> groupLabels, Scale scale, int[] usedIterations,
         int[][] observedCounts, double[][] reportedShares, double[] reportedMeans, boolean coarseClass,
-        List<StyleLevel> coarseLevels) {
+        boolean attraction, List<StyleLevel> coarseLevels) {
 
     /** One level of a categorical style covariate, e.g. column {@code education}, level {@code tertiary}. */
     public record StyleLevel(String column, String level) {

@@ -14,8 +14,8 @@ import org.rungs.posteriors.ParameterSummary;
  * (the summaries' q5 and q95); numbers are written in full precision, independent of the locale.
  */
 final class DerivedTables {
-    private static final String[] GROUP_QUANTITIES = {"intended_mean", "harmonised_mean", "mean_bias", "coarse_share",
-        "rank_intended", "rank_harmonised"};
+    private static final String[] GROUP_QUANTITIES = {"intended_mean", "harmonised_mean", "attracted_mean", "mean_bias",
+        "mean_bias_attraction", "mean_bias_rounding", "coarse_share", "rank_intended", "rank_harmonised"};
     private static final int TOP = 3;
 
     private DerivedTables() {
@@ -23,7 +23,8 @@ final class DerivedTables {
 
     /**
      * group, respondents, reported_mean, then mean/q5/q95 of intended_mean, harmonised_mean,
-     * mean_bias, coarse_share (with the coarse class), rank_intended and rank_harmonised,
+     * attracted_mean (with attraction), mean_bias, mean_bias_attraction and mean_bias_rounding
+     * (with attraction), coarse_share (with the coarse class), rank_intended and rank_harmonised,
      * p_top3_intended and p_top3_harmonised (share of draws ranking the group in the top 3), and
      * rank_change (posterior mean intended rank minus the rank by reported mean).
      */
@@ -32,7 +33,7 @@ final class DerivedTables {
         List<String> labels = r.groupLabels();
         StringBuilder header = new StringBuilder("group,respondents,reported_mean");
         for (String quantity : GROUP_QUANTITIES) {
-            if (r.coarseClass() || !quantity.equals("coarse_share")) {
+            if (present(r, quantity)) {
                 header.append(',').append(quantity).append("_mean,").append(quantity).append("_q5,")
                         .append(quantity).append("_q95");
             }
@@ -46,7 +47,7 @@ final class DerivedTables {
                 line.setLength(0);
                 line.append(quote(label)).append(',').append(r.respondents(g)).append(',').append(number(r.reportedMeans()[g]));
                 for (String quantity : GROUP_QUANTITIES) {
-                    if (r.coarseClass() || !quantity.equals("coarse_share")) {
+                    if (present(r, quantity)) {
                         interval(line, summary(byName, DerivedColumns.groupName(quantity, label)));
                     }
                 }
@@ -59,10 +60,19 @@ final class DerivedTables {
         });
     }
 
+    /** Whether groups.csv has the columns of {@code quantity}: the coarse share and the attraction terms only with their component. */
+    private static boolean present(DerivedResult r, String quantity) {
+        if (quantity.equals("coarse_share")) {
+            return r.coarseClass();
+        }
+        return r.attraction() || !(quantity.equals("attracted_mean") || quantity.startsWith("mean_bias_"));
+    }
+
     /**
      * Long format, one row per group and rating: observed_count, reported_share (weighted), the
-     * mean/q5/q95 of the intended and harmonised shares and of the replicated count, and
-     * outside_90, true when the observed count lies outside the replicated 90% interval.
+     * mean/q5/q95 of the intended and harmonised shares, of the attracted share (with attraction)
+     * and of the replicated count, and outside_90, true when the observed count lies outside the
+     * replicated 90% interval.
      */
     static void writeDistributions(DerivedResult r, List<ParameterSummary> summaries, Path file) throws IOException {
         Map<String, ParameterSummary> byName = byName(summaries);
@@ -70,6 +80,7 @@ final class DerivedTables {
         AtomicFiles.write(file, out -> {
             out.append("group,rating,observed_count,reported_share,intended_share_mean,intended_share_q5,"
                     + "intended_share_q95,harmonised_share_mean,harmonised_share_q5,harmonised_share_q95,"
+                    + (r.attraction() ? "attracted_share_mean,attracted_share_q5,attracted_share_q95," : "")
                     + "replicated_mean,replicated_q5,replicated_q95,outside_90\n");
             StringBuilder line = new StringBuilder();
             for (int g = 0; g < labels.size(); g++) {
@@ -82,6 +93,9 @@ final class DerivedTables {
                             .append(number(r.reportedShares()[g][k]));
                     interval(line, summary(byName, DerivedColumns.ratingName("intended_share", label, rating)));
                     interval(line, summary(byName, DerivedColumns.ratingName("harmonised_share", label, rating)));
+                    if (r.attraction()) {
+                        interval(line, summary(byName, DerivedColumns.ratingName("attracted_share", label, rating)));
+                    }
                     ParameterSummary replicated = summary(byName, DerivedColumns.ratingName("replicated", label, rating));
                     interval(line, replicated);
                     line.append(',').append(observed < replicated.q05() || observed > replicated.q95()).append('\n');
@@ -144,12 +158,12 @@ final class DerivedTables {
     }
 
     /** Shortest text that reads back to the same double; Double.toString ignores the locale. */
-    private static String number(double v) {
+    static String number(double v) {
         return Double.toString(v);
     }
 
     /** RFC 4180: quoted, quotes doubled, when the field holds a comma, quote or line break. */
-    private static String quote(String value) {
+    static String quote(String value) {
         for (int i = 0; i < value.length(); i++) {
             char ch = value.charAt(i);
             if (ch == ',' || ch == '"' || ch == '\n' || ch == '\r') {

@@ -29,6 +29,9 @@ final class DrawEvaluator {
     private final int lowest;
     private final boolean byGroup;
     private final boolean coarse;
+    private final boolean attraction;
+    /** Positions (rating - L) of the attraction set A, in the order of the layout. */
+    private final int[] attracted;
     private final double[][] levelColumns;
     private final double[][] styleColumns;
     private final double[] levelScale;
@@ -58,6 +61,11 @@ final class DrawEvaluator {
     private final double[] harmonised;
     private final double[] intendedSum;
     private final double[] harmonisedSum;
+    /** exp(a[g,k]) in G rows of M, 1 outside the attraction set (MODEL.md 4b). */
+    private final double[] tilt;
+    /** One respondent's pi[g,k](eta) exp(a[g,k]) for k = 0..M-1. */
+    private final double[] tilted;
+    private final double[] attractedSum;
     private final int[] replicated;
     private final double[] coarseSum;
     private final double[] slotSum;
@@ -77,6 +85,12 @@ final class DrawEvaluator {
         this.lowest = survey.scale().lowest();
         this.byGroup = layout.groupThresholdOffset() >= 0;
         this.coarse = channel != null;
+        int[] set = layout.attractionSet();
+        this.attraction = set.length > 0;
+        this.attracted = new int[set.length];
+        for (int j = 0; j < set.length; j++) {
+            attracted[j] = set[j] - lowest;
+        }
         this.partition = partition;
         this.groupWeight = groupWeight;
         double total = 0;
@@ -149,6 +163,10 @@ final class DrawEvaluator {
         harmonised[categories] = 1;
         intendedSum = new double[groups * categories];
         harmonisedSum = new double[groups * categories];
+        tilt = new double[groups * categories];
+        Arrays.fill(tilt, 1);
+        tilted = new double[categories];
+        attractedSum = new double[groups * categories];
         replicated = new int[groups * categories];
         coarseSum = new double[groups];
         slotSum = new double[partition.levels.size()];
@@ -163,6 +181,7 @@ final class DrawEvaluator {
         linearPredictors();
         Arrays.fill(intendedSum, 0);
         Arrays.fill(harmonisedSum, 0);
+        Arrays.fill(attractedSum, 0);
         Arrays.fill(replicated, 0);
         Arrays.fill(coarseSum, 0);
         Arrays.fill(slotSum, 0);
@@ -189,6 +208,19 @@ final class DrawEvaluator {
                 }
                 for (int k = 0; k < m; k++) {
                     harmonisedSum[cell + k] += w * (harmonised[k + 1] - harmonised[k]);
+                }
+            }
+            double normaliser = 1;
+            if (attraction) {
+                // MODEL.md 4b: P(r = k | full, eta) = pi[g,k](eta) exp(a[g,k]) / sum_k pi[g,k](eta) exp(a[g,k]);
+                // the sum is at least min(1, exp(min a)), so the plain sum is accurate in absolute terms
+                normaliser = 0;
+                for (int k = 0; k < m; k++) {
+                    tilted[k] = (own[k + 1] - own[k]) * tilt[cell + k];
+                    normaliser += tilted[k];
+                }
+                for (int k = 0; k < m; k++) {
+                    attractedSum[cell + k] += w * tilted[k] / normaliser;
                 }
             }
             if (anyNumeric) {
@@ -230,15 +262,27 @@ final class DrawEvaluator {
                     slotSum[slot[i]] += w * q;
                 }
             }
-            // posterior predictive (MODEL.md 4c): class, intended answer, rounding of coarse ones
+            // posterior predictive (MODEL.md 4c): class, then a full-scale answer (attracted, MODEL.md
+            // 4b) or an intended answer rounded to the nearest coarse point (MODEL.md 4a)
             boolean coarseResponder = coarse && rng.nextDouble() < q;
             double u = rng.nextDouble();
             int k = 0;
-            while (k < m - 1 && u >= own[k + 1]) {
-                k++;
-            }
-            if (coarseResponder) {
-                k = roundLow[k] != roundHigh[k] && rng.nextDouble() < 0.5 ? roundHigh[k] : roundLow[k];
+            if (attraction && !coarseResponder) {
+                // inverse of the tilted distribution function; the running sum adds the terms in the
+                // order the normaliser did, so it reaches the normaliser exactly at the last position
+                double target = u * normaliser;
+                double cumulative = tilted[0];
+                while (k < m - 1 && target >= cumulative) {
+                    k++;
+                    cumulative += tilted[k];
+                }
+            } else {
+                while (k < m - 1 && u >= own[k + 1]) {
+                    k++;
+                }
+                if (coarseResponder) {
+                    k = roundLow[k] != roundHigh[k] && rng.nextDouble() < 0.5 ? roundHigh[k] : roundLow[k];
+                }
             }
             replicated[cell + k]++;
         }
@@ -280,6 +324,14 @@ final class DrawEvaluator {
             }
             for (int j = 0; j < delta.length; j++) {
                 delta[j] = draws.get(layout.styleOffset() + j, chain, iteration);
+            }
+        }
+        // a[g,j] with several groups, else the common a[j] (ParameterLayout)
+        int groupAttraction = layout.groupAttractionOffset();
+        for (int g = 0; g < groups; g++) {
+            for (int j = 0; j < attracted.length; j++) {
+                int column = groupAttraction >= 0 ? groupAttraction + g * attracted.length + j : layout.attractionOffset() + j;
+                tilt[g * m + attracted[j]] = Math.exp(draws.get(column, chain, iteration));
             }
         }
     }
@@ -328,6 +380,18 @@ final class DrawEvaluator {
             row[columns.intendedMean + g] = intendedMean;
             row[columns.harmonisedMean + g] = harmonisedMean;
             row[columns.meanBias + g] = reportedMeans[g] - intendedMean;
+            if (attraction) {
+                double attractedMean = 0;
+                for (int k = 0; k < m; k++) {
+                    double attractedShare = attractedSum[g * m + k] / groupWeight[g];
+                    row[columns.attractedShare + g * m + k] = attractedShare;
+                    attractedMean += (lowest + k) * attractedShare;
+                }
+                // mean_bias = (reported - attracted) + (attracted - intended)
+                row[columns.attractedMean + g] = attractedMean;
+                row[columns.meanBiasAttraction + g] = attractedMean - intendedMean;
+                row[columns.meanBiasRounding + g] = reportedMeans[g] - attractedMean;
+            }
             if (coarse) {
                 row[columns.coarseShare + g] = coarseSum[g] / groupWeight[g];
             }

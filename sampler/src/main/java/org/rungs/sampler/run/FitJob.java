@@ -3,6 +3,7 @@ package org.rungs.sampler.run;
 import java.io.PrintStream;
 import java.nio.file.Path;
 import java.time.Instant;
+import java.util.Arrays;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
@@ -10,8 +11,10 @@ import java.util.Map;
 import java.util.concurrent.atomic.AtomicBoolean;
 import org.rungs.models.ModelSpec;
 import org.rungs.models.NaiveRegression;
+import org.rungs.models.NumberAttraction;
 import org.rungs.models.ParameterLayout;
 import org.rungs.models.StyleClasses;
+import org.rungs.sampler.derived.AttractionProfile;
 import org.rungs.sampler.derived.DerivedQuantities;
 import org.rungs.sampler.derived.DerivedResult;
 import org.rungs.models.survey.Exclusions;
@@ -29,7 +32,8 @@ import org.rungs.sampler.Fitter;
 
 /**
  * A fit from a survey file to an output folder: read, fit, summarise, write {@code draws.csv},
- * {@code summary.csv} and {@code run.json}. Input errors surface before anything is written.
+ * {@code summary.csv}, {@code attraction.csv} (number attraction on), the derived quantities and
+ * {@code run.json}. Input errors surface before anything is written.
  * While it runs, the chains are saved in {@code .checkpoint} (see {@link SavedFit}), which is
  * removed once every output of a finished fit is written, and kept when the fit was interrupted.
  */
@@ -123,6 +127,13 @@ public final class FitJob {
 
         folder.write("draws.csv", tmp -> DrawsCsv.write(result.draws(), tmp));
         folder.write("summary.csv", tmp -> SummaryTable.writeCsv(summaries, tmp));
+        boolean attraction = result.layout().attractionSet().length > 0;
+        List<AttractionProfile.Row> profile = attraction
+                ? AttractionProfile.of(result.draws(), result.layout(), request.model().priors(), survey.groupLabels())
+                : List.of();
+        if (attraction) {
+            folder.write("attraction.csv", tmp -> AttractionProfile.write(profile, tmp));
+        }
 
         List<ParameterSummary> derivedSummaries = List.of();
         DerivedResult derived = null;
@@ -154,7 +165,12 @@ public final class FitJob {
             out.println();
             out.print(GroupTable.format(derived, derivedSummaries));
         }
-        out.println("Files written to " + folder.dir().toAbsolutePath() + ": draws.csv, summary.csv, derived_draws.csv, "
+        if (attraction) {
+            out.println();
+            out.print(AttractionWords.format(profile, survey.groupLabels()));
+        }
+        out.println("Files written to " + folder.dir().toAbsolutePath() + ": draws.csv, summary.csv"
+                + (attraction ? ", attraction.csv" : "") + ", derived_draws.csv, "
                 + "derived_summary.csv, groups.csv, distributions.csv"
                 + (request.model().styleClasses().coarse() ? ", coarse_shares.csv" : "")
                 + (survey.level().count() > 0 ? ", coefficients.csv" : "") + ", run.json");
@@ -175,9 +191,11 @@ public final class FitJob {
             folder.write("coarse_shares.csv", tmp -> DerivedQuantities.writeCoarseShares(derived, derivedSummaries, tmp));
         }
         List<ParameterSummary> plain = null;
-        if (request.model().styleClasses().coarse() && survey.level().count() > 0 && !stop.get()) {
-            err.println("rungs: fitting the plain ordered probit (style classes off) for the comparison of effects...");
-            ModelSpec plainSpec = request.model().withStyleClasses(StyleClasses.none());
+        boolean attraction = request.model().attraction().on();
+        if ((request.model().styleClasses().coarse() || attraction) && survey.level().count() > 0 && !stop.get()) {
+            err.println("rungs: fitting the plain ordered probit (style classes " + (attraction ? "and attraction " : "")
+                    + "off) for the comparison of effects...");
+            ModelSpec plainSpec = request.model().withStyleClasses(StyleClasses.none()).withAttraction(NumberAttraction.none());
             FitResult plainFit = Fitter.fit(survey, plainSpec, request.settings(),
                     new ConsoleProgress(err, request.settings().chains(), 2.0), stop);
             DerivedResult plainDerived = DerivedQuantities.compute(survey, plainFit.draws(), plainFit.layout(), plainSpec,
@@ -210,7 +228,11 @@ public final class FitJob {
         Map<String, Object> m = new LinkedHashMap<>();
         m.put("thresholds", request.model().effectiveThresholdMode(survey.groupCount()).label());
         m.put("style_classes", request.model().styleClasses().label());
-        m.put("attraction", "none");
+        m.put("attraction", request.model().attraction().label());
+        int[] set = layout.attractionSet();
+        if (set.length > 0) {
+            m.put("attraction_set", Arrays.stream(set).boxed().toList());
+        }
         Map<String, Object> priors = new LinkedHashMap<>();
         var p = request.model().priors();
         priors.put("level", p.level().toString());
@@ -222,6 +244,10 @@ public final class FitJob {
             priors.put("style", p.style().toString());
             priors.put("style_mean", p.styleMean().toString());
             priors.put("style_sd", p.styleSd().toString());
+        }
+        if (set.length > 0) {
+            priors.put("attraction_mean", p.attractionMean().toString());
+            priors.put("attraction_sd", p.attractionSd().toString());
         }
         m.put("priors", priors);
         Map<String, Object> covariates = new LinkedHashMap<>();

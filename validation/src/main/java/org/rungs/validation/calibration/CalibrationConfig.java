@@ -4,6 +4,7 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
 import org.rungs.models.ModelSpec;
+import org.rungs.models.NumberAttraction;
 import org.rungs.models.StyleClasses;
 import org.rungs.models.ThresholdMode;
 import org.rungs.models.survey.Scale;
@@ -91,6 +92,15 @@ public record CalibrationConfig(Scale scale, int groups, int respondents, int co
         return new CalibrationConfig(new Scale(0, 4), 3, 60, 1, 1, model, model, 2, 300, 300, 99, seed, replications, 0.01);
     }
 
+    /**
+     * The small configuration of the complete model used in CI: the coarse configuration with
+     * number attraction on its default set, which on 0..4 with coarse points {0, 2, 4} is {1, 3}.
+     */
+    public static CalibrationConfig attraction(long seed, int replications) {
+        CalibrationConfig coarse = coarse(seed, replications);
+        return coarse.withModel(coarse.fit().withAttraction(NumberAttraction.besidesCoarsePoints()));
+    }
+
     public CalibrationConfig withFit(ModelSpec f) {
         return new CalibrationConfig(scale, groups, respondents, covariates, styleCovariates, simulation, f, chains, warmup, draws,
                 rankDraws, seed, replications, alpha);
@@ -168,6 +178,11 @@ public record CalibrationConfig(Scale scale, int groups, int respondents, int co
             line(sb, "style_covariates", Integer.toString(styleCovariates));
             line(sb, "simulation_style_classes", simulation.styleClasses().label());
             line(sb, "fit_style_classes", fit.styleClasses().label());
+        }
+        if (simulation.attraction().on() || fit.attraction().on()) {
+            // only with attraction, so that folders of earlier calibrations keep their text
+            line(sb, "simulation_attraction", simulation.attraction().label());
+            line(sb, "fit_attraction", fit.attraction().label());
         }
         line(sb, "chains", Integer.toString(chains));
         line(sb, "warmup", Integer.toString(warmup));

@@ -108,6 +108,27 @@ final class PriorSampler {
         return new StyleParameters(delta, mean, sd, gamma);
     }
 
+    /**
+     * Draws the attraction of the numbers of A from their prior (MODEL.md 4b and 5):
+     * abar[j] ~ attraction_mean prior, tau_a ~ attraction_sd prior, a[g,j] = abar[j] + tau_a v[g,j]
+     * with v ~ N(0,1); with one group a = abar and there is no tau_a.
+     */
+    static AttractionParameters drawAttraction(Priors priors, int[] numbers, int groups, UniformRandomProvider rng) {
+        ZigguratSampler.NormalizedGaussian normal = ZigguratSampler.NormalizedGaussian.of(rng);
+        double[] mean = new double[numbers.length];
+        for (int j = 0; j < numbers.length; j++) {
+            mean[j] = priors.attractionMean().mean() + priors.attractionMean().sd() * normal.sample();
+        }
+        double sd = groups > 1 ? Math.abs(priors.attractionSd().sd() * normal.sample()) : Double.NaN;
+        double[][] a = new double[groups][numbers.length];
+        for (int g = 0; g < groups; g++) {
+            for (int j = 0; j < numbers.length; j++) {
+                a[g][j] = groups > 1 ? mean[j] + sd * normal.sample() : mean[j];
+            }
+        }
+        return new AttractionParameters(numbers.clone(), mean, sd, a);
+    }
+
     /** Subtracts the mean: c = b - mean(b), d = s - mean(s). */
     private static void centre(double[] values) {
         double sum = 0;

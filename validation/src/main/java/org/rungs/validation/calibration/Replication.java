@@ -52,6 +52,9 @@ public final class Replication {
         if (data.style() != null) {
             data.style().name(config.styleCovariateNames(), config.groupLabels(), truth);
         }
+        if (data.attraction() != null) {
+            data.attraction().name(config.groupLabels(), truth);
+        }
         List<ParameterSummary> summaries = Summaries.of(draws);
         for (Map.Entry<String, Double> e : truth.entrySet()) {
             int column = draws.indexOf(e.getKey());

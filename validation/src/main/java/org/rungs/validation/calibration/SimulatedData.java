@@ -21,11 +21,12 @@ import org.rungs.priors.StandardNormal;
  * @param survey            the survey handed to the fit (raw covariates; the engine standardises them)
  * @param truth             the drawn parameters
  * @param style             the drawn coarse-class parameters, or null without the coarse class
+ * @param attraction        the drawn attraction, or null without number attraction
  * @param standardised      the level covariates on the internal scale, [covariate][respondent]
  * @param styleStandardised the style covariates on the internal scale, [covariate][respondent]
  */
-record SimulatedData(Survey survey, TrueParameters truth, StyleParameters style, double[][] standardised,
-        double[][] styleStandardised) {
+record SimulatedData(Survey survey, TrueParameters truth, StyleParameters style, AttractionParameters attraction,
+        double[][] standardised, double[][] styleStandardised) {
 
     static SimulatedData draw(CalibrationConfig config, UniformRandomProvider rng) {
         int groups = config.groups();
@@ -35,6 +36,9 @@ record SimulatedData(Survey survey, TrueParameters truth, StyleParameters style,
         TrueParameters truth = PriorSampler.draw(config.simulation().priors(), config.covariates(), groups, m, byGroup, rng);
         StyleParameters style = classes.coarse()
                 ? PriorSampler.drawStyle(config.simulation().priors(), config.styleCovariates(), groups, rng) : null;
+        int[] numbers = config.simulation().attraction().resolve(config.scale(), classes);
+        AttractionParameters attraction = numbers.length > 0
+                ? PriorSampler.drawAttraction(config.simulation().priors(), numbers, groups, rng) : null;
         ZigguratSampler.NormalizedGaussian normal = ZigguratSampler.NormalizedGaussian.of(rng);
         int n = groups * config.respondents();
         List<double[]> raw = new ArrayList<>();
@@ -58,6 +62,8 @@ record SimulatedData(Survey survey, TrueParameters truth, StyleParameters style,
             if (style != null
                     && rng.nextDouble() < StandardNormal.cdf(StyleParameters.linear(style.gamma(), style.delta(), w, g, i))) {
                 k = nearest(points, lowest + k, rng) - lowest;
+            } else if (attraction != null) {
+                k = attracted(c, eta(truth, x, g, i), attraction, g, lowest, rng.nextDouble());
             }
             category[i] = (byte) k;
         }
@@ -65,7 +71,38 @@ record SimulatedData(Survey survey, TrueParameters truth, StyleParameters style,
         Covariates styleCovariates = w.length == 0 ? Covariates.none()
                 : Covariates.fromNumeric(config.styleCovariateNames(), rawStyle);
         Survey survey = Survey.of(config.scale(), category, group, config.groupLabels(), level, styleCovariates, null);
-        return new SimulatedData(survey, truth, style, x, w);
+        return new SimulatedData(survey, truth, style, attraction, x, w);
+    }
+
+    /**
+     * A full-scale answer under attraction (MODEL.md 4b), by inversion of u over the weights
+     * pi[k](eta) exp(a[k]) / sum: the latent draw's own category is not reused, since the
+     * tilt changes which category is reported.
+     */
+    static int attracted(double[] c, double eta, AttractionParameters attraction, int g, int lowest, double u) {
+        int m = c.length + 1;
+        double[] weight = new double[m];
+        double total = 0;
+        for (int k = 0; k < m; k++) {
+            double upper = k == m - 1 ? 1 : StandardNormal.cdf(c[k] - eta);
+            double lower = k == 0 ? 0 : StandardNormal.cdf(c[k - 1] - eta);
+            double odds = 1;
+            for (int j = 0; j < attraction.numbers().length; j++) {
+                if (attraction.numbers()[j] == lowest + k) {
+                    odds = Math.exp(attraction.attraction()[g][j]);
+                }
+            }
+            weight[k] = (upper - lower) * odds;
+            total += weight[k];
+        }
+        double target = u * total;
+        for (int k = 0; k < m - 1; k++) {
+            target -= weight[k];
+            if (target < 0) {
+                return k;
+            }
+        }
+        return m - 1;
     }
 
     /** Standard normal raw columns (added to {@code raw}), returned standardised. */

@@ -1,0 +1,106 @@
+package org.rungs.cli;
+
+import java.io.PrintStream;
+import java.io.UncheckedIOException;
+import java.nio.file.Path;
+import java.util.Locale;
+import java.util.concurrent.Callable;
+import org.rungs.models.ModelSpec;
+import org.rungs.models.StyleClasses;
+import org.rungs.validation.recovery.DemoTruth;
+import org.rungs.validation.recovery.Recovery;
+import org.rungs.validation.recovery.RecoveryConfig;
+import org.rungs.validation.recovery.RecoveryReport;
+import org.rungs.validation.recovery.RecoverySummary;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Option;
+
+/** {@code rungs recover}: a recovery and coverage study of the engine on the demo's fixed truth. */
+@Command(name = "recover", mixinStandardHelpOptions = true, sortOptions = false,
+        description = {"Measure how well the engine recovers a fixed truth.",
+                "Each replication draws a survey from the demo scenario (or a smaller version of it), fits it and sets "
+                        + "every posterior summary beside the true value. Writes recovery.csv (bias, RMSE and the coverage "
+                        + "of the 50%% and 90%% intervals per quantity, with Monte Carlo standard errors), replications.csv "
+                        + "and summary.txt to the output folder; a rerun with the same folder skips finished replications. "
+                        + "See VALIDATION.md."})
+final class RecoverCommand implements Callable<Integer> {
+    @Option(names = "--truth", paramLabel = "WHICH",
+            description = "The demo's truth: demo (coarse class and number attraction), no-attraction (coarse class only) "
+                    + "or plain (neither). Default: no-attraction with --style-classes coarse, plain with none.")
+    String truth;
+
+    @Option(names = "--style-classes", paramLabel = "MODE", defaultValue = "coarse",
+            description = "Response-style classes of the fitted model (MODEL.md 4): coarse or none. Default: ${DEFAULT-VALUE}.")
+    String styleClasses;
+
+    @Option(names = "--groups", defaultValue = "" + DemoTruth.DEMO_GROUPS,
+            description = "Regions kept from the demo's twelve, 2 to 12. Default: ${DEFAULT-VALUE}.")
+    int groups;
+
+    @Option(names = "--respondents", defaultValue = "" + DemoTruth.DEMO_RESPONDENTS,
+            description = "Respondents per region. Default: ${DEFAULT-VALUE}, as in the demo.")
+    int respondents;
+
+    @Option(names = "--chains", defaultValue = "2", description = "Chains per fit. Default: ${DEFAULT-VALUE}.")
+    int chains;
+
+    @Option(names = "--warmup", defaultValue = "500", description = "Warm-up iterations per chain. Default: ${DEFAULT-VALUE}.")
+    int warmup;
+
+    @Option(names = "--draws", defaultValue = "1000", description = "Kept iterations per chain. Default: ${DEFAULT-VALUE}.")
+    int draws;
+
+    @Option(names = "--replications", defaultValue = "100", description = "Simulated data sets. Default: ${DEFAULT-VALUE}.")
+    int replications;
+
+    @Option(names = "--seed", defaultValue = "1", description = "Base seed; replication r depends on (seed, r) only. Default: ${DEFAULT-VALUE}.")
+    long seed;
+
+    @Option(names = "--threads", description = "Replications fitted at once, each fit on one thread. Default: the number of cores.")
+    Integer threads;
+
+    @Option(names = "--out", paramLabel = "DIR", description = "Output folder (required); a rerun with the same folder resumes.")
+    Path out;
+
+    @Option(names = "--overwrite", description = "Start afresh in a folder that holds another study or other files.")
+    boolean overwrite;
+
+    @Override
+    public Integer call() {
+        if (out == null) {
+            System.err.println("rungs recover: --out DIR is required");
+            return Main.INPUT_ERROR;
+        }
+        RecoveryConfig config;
+        try {
+            StyleClasses classes = CalibrateCommand.styleClasses(styleClasses, null);
+            DemoTruth.Variant variant = truth != null ? DemoTruth.Variant.parse(truth)
+                    : classes.coarse() ? DemoTruth.Variant.NO_ATTRACTION : DemoTruth.Variant.PLAIN;
+            config = RecoveryConfig.of(new DemoTruth(variant, groups, respondents),
+                    ModelSpec.defaults().withStyleClasses(classes), chains, warmup, draws, seed, replications);
+        } catch (IllegalArgumentException e) {
+            System.err.println("rungs recover: " + e.getMessage());
+            return Main.INPUT_ERROR;
+        }
+        int t = threads != null ? threads : Runtime.getRuntime().availableProcessors();
+        try (Interruption interruption = new Interruption()) {
+            RecoverySummary summary = Recovery.run(config, out, overwrite, Math.max(1, t), System.err, interruption.flag());
+            if (summary == null) {
+                System.err.println("rungs recover: stopped; finished replications are kept in " + out
+                        + "; rerun the same command to resume");
+                return Main.INTERRUPTED;
+            }
+            print(config, summary, out, System.out);
+            return 0;
+        } catch (IllegalArgumentException | UncheckedIOException e) {
+            System.err.println("rungs recover: " + e.getMessage());
+            return Main.INPUT_ERROR;
+        }
+    }
+
+    private static void print(RecoveryConfig config, RecoverySummary summary, Path out, PrintStream print) {
+        print.print(RecoveryReport.text(config, summary));
+        print.printf(Locale.ROOT, "Files in %s: %s, %s, %s.%n", out, RecoveryReport.RECOVERY, RecoveryReport.REPLICATIONS,
+                RecoveryReport.SUMMARY);
+    }
+}

@@ -1,0 +1,391 @@
+package org.rungs.sampler;
+
+import java.io.DataInput;
+import java.io.DataOutput;
+import java.io.IOException;
+import org.apache.commons.rng.UniformRandomProvider;
+import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
+import org.rungs.models.ResponseLikelihood;
+import org.rungs.models.RoundingChannel;
+import org.rungs.priors.HalfNormal;
+import org.rungs.priors.Normal;
+import org.rungs.priors.Priors;
+import org.rungs.priors.StandardNormal;
+
+/**
+ * The number attraction of MODEL.md 4b given the classes, with the latent levels and the
+ * rejected draws integrated out: a full-scale respondent contributes
+ * log pi[g,r](eta) + a[g,r] - log N_i, N_i = sum_k pi[g,k](eta_i) exp(a[g,k]), a coarse one
+ * log P(r | coarse).
+ *
+ * <p>For each number j of A, first a joint move along the ridge that makes attraction hard to
+ * tell from the width w of category j: abar[j] and every a[g,j] gain e while the common
+ * category's two thresholds move about its midpoint to width w exp(-e), every group's pair by
+ * the same amounts (deviations d unchanged); pi[j] exp(a[j]) stays nearly fixed. The Jacobian
+ * exp(-e) enters the acceptance ratio (Green 1995, Reversible jump MCMC, Biometrika 82, section
+ * 3.3); the moved thresholds keep their sum, so the levels stay. Then, per group, a random-walk
+ * Metropolis move of a[g,j] alone. With several groups, the common terms abar[j] follow from
+ * their conjugate normal full conditional given a[.,j] ~ Normal(abar[j], tau_a), and tau_a by
+ * slice sampling on its log (Neal 2003). Each respondent's normal cdf at every threshold and
+ * N_i are cached, so the move of a[g,j] alone costs one multiply-add and one ratio per
+ * respondent. Scales adapt during warm-up only (Roberts & Rosenthal 2009, section 3).
+ */
+final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDensity {
+    private static final double TARGET_ACCEPTANCE = 0.44;
+    /** Bounds of the running product of likelihood ratios before its log is taken. */
+    private static final double PRODUCT_LOW = 1e-150;
+    private static final double PRODUCT_HIGH = 1e150;
+    private final ChainState state;
+    private final UniformRandomProvider rng;
+    private final ZigguratSampler.NormalizedGaussian normal;
+    private final Normal meanPrior;
+    private final HalfNormal sdPrior;
+    private final SliceSampler slice;
+    private final int[] attracted;
+    /** Phi(c[g,k] - eta_i), k = 0..M (0 and 1 at the ends), per respondent in sorted order, M+1 each. */
+    private final double[] cdf;
+    /** eta_i per respondent. */
+    private final double[] eta;
+    /** N_i for full-scale respondents; NaN for coarse ones. */
+    private final double[] normaliser;
+    /** exp(a[g,k]) - 1 by group and position. */
+    private final double[] excess;
+    /** A group's thresholds as a joint move proposes them. */
+    private final double[] scratch;
+    private final double[] logScale;
+    private final double[] jointLogScale;
+    private final double commonPriorPrecision;
+    private double sumOfSquares;
+    private int warmupStep;
+
+    private AttractionUpdate(ChainState state, Priors priors, UniformRandomProvider rng) {
+        this.state = state;
+        this.rng = rng;
+        this.normal = ZigguratSampler.NormalizedGaussian.of(rng);
+        this.meanPrior = priors.attractionMean();
+        this.sdPrior = priors.attractionSd();
+        this.slice = SliceSampler.of(rng, 1.0);
+        this.attracted = state.attracted;
+        int m = state.categories;
+        this.cdf = new double[state.size * (m + 1)];
+        this.eta = new double[state.size];
+        this.normaliser = new double[state.size];
+        this.excess = new double[state.groups * m];
+        this.scratch = new double[m + 1];
+        this.logScale = new double[state.groups * attracted.length];
+        this.jointLogScale = new double[attracted.length];
+        this.commonPriorPrecision = priors.threshold().precision();
+        for (int j = 0; j < attracted.length; j++) {
+            jointLogScale[j] = Math.log(0.1);
+            for (int g = 0; g < state.groups; g++) {
+                long answers = state.start[g * m + attracted[j] + 1] - state.start[g * m + attracted[j]];
+                logScale[g * attracted.length + j] = Math.log(2.0 / Math.sqrt(1.0 + answers));
+            }
+        }
+    }
+
+    static AttractionUpdate of(ChainState state, Priors priors, UniformRandomProvider rng) {
+        return new AttractionUpdate(state, priors, rng);
+    }
+
+    @Override
+    public void update(boolean adapt) {
+        ChainState s = state;
+        cache();
+        for (int j = 0; j < attracted.length; j++) {
+            if (attracted[j] > 0 && attracted[j] < s.categories - 1) {
+                jointStep(j, adapt);
+            }
+            for (int g = 0; g < s.groups; g++) {
+                step(g, j, adapt);
+            }
+        }
+        if (s.groups > 1) {
+            pool();
+        }
+        if (adapt) {
+            warmupStep++;
+        }
+    }
+
+    /** Fills the caches for every respondent. */
+    private void cache() {
+        ChainState s = state;
+        int m = s.categories;
+        for (int g = 0; g < s.groups; g++) {
+            for (int k = 0; k < m; k++) {
+                excess[g * m + k] = Math.expm1(s.attraction[g * m + k]);
+            }
+        }
+        for (int g = 0; g < s.groups; g++) {
+            int row = g * (m + 1);
+            for (int i = s.start[g * m], end = s.start[(g + 1) * m]; i < end; i++) {
+                double e = s.eta(i);
+                eta[i] = e;
+                int at = i * (m + 1);
+                cdf[at] = 0;
+                cdf[at + m] = 1;
+                for (int k = 1; k < m; k++) {
+                    cdf[at + k] = StandardNormal.cdf(s.thresholds[row + k] - e);
+                }
+            }
+        }
+        refreshNormalisers();
+    }
+
+    /** N_i from the cached cdfs; NaN for coarse-class respondents. */
+    private void refreshNormalisers() {
+        ChainState s = state;
+        int m = s.categories;
+        for (int i = 0; i < s.size; i++) {
+            if (s.coarse != null && s.coarse[i] == 1) {
+                normaliser[i] = Double.NaN;
+                continue;
+            }
+            int at = i * (m + 1);
+            int base = s.group[i] * m;
+            double n = 1;
+            for (int k : attracted) {
+                n += (cdf[at + k + 1] - cdf[at + k]) * excess[base + k];
+            }
+            normaliser[i] = n;
+        }
+    }
+
+    /** The joint move of abar[j], every a[g,j] and the width of category j (see the class comment). */
+    private void jointStep(int j, boolean adapt) {
+        ChainState s = state;
+        int m = s.categories;
+        int stride = m + 1;
+        int k = attracted[j];
+        double e = Math.exp(jointLogScale[j]) * normal.sample();
+        double width = s.common[k + 1] - s.common[k];
+        double h = 0.5 * width * -Math.expm1(-e);
+        boolean accept = staysOrdered(s.common, 0, k, h);
+        for (int g = 0; g < s.groups && accept; g++) {
+            accept = staysOrdered(s.thresholds, g * stride, k, h);
+        }
+        if (accept) {
+            double before = sq(s.common[k]) + sq(s.common[k + 1]);
+            double after = sq(s.common[k] + h) + sq(s.common[k + 1] - h);
+            double mean = s.attractionMean[k];
+            double logRatio = jointLikelihoodChange(k, e, h)
+                    - 0.5 * commonPriorPrecision * (after - before)
+                    + meanPrior.logDensity(mean + e) - meanPrior.logDensity(mean)
+                    - e;
+            accept = Math.log(rng.nextDouble()) < logRatio;
+        }
+        if (accept) {
+            s.common[k] += h;
+            s.common[k + 1] -= h;
+            s.attractionMean[k] += e;
+            for (int g = 0; g < s.groups; g++) {
+                int row = g * stride;
+                s.thresholds[row + k] += h;
+                s.thresholds[row + k + 1] -= h;
+                s.attraction[g * m + k] += e;
+                excess[g * m + k] = Math.expm1(s.attraction[g * m + k]);
+                for (int i = s.start[g * m], end = s.start[(g + 1) * m]; i < end; i++) {
+                    int at = i * stride;
+                    cdf[at + k] = StandardNormal.cdf(s.thresholds[row + k] - eta[i]);
+                    cdf[at + k + 1] = StandardNormal.cdf(s.thresholds[row + k + 1] - eta[i]);
+                }
+            }
+            refreshNormalisers();
+        }
+        if (adapt) {
+            jointLogScale[j] += Math.pow(warmupStep + 1.0, -0.6) * ((accept ? 1 : 0) - TARGET_ACCEPTANCE);
+        }
+    }
+
+    /** Whether thresholds k + h and k+1 - h of the row at {@code base} keep increasing order (MODEL.md 3). */
+    private static boolean staysOrdered(double[] t, int base, int k, double h) {
+        double lower = t[base + k] + h;
+        double upper = t[base + k + 1] - h;
+        return lower > t[base + k - 1] && lower < upper && upper < t[base + k + 2];
+    }
+
+    /**
+     * Log-likelihood change of every respondent when thresholds k and k+1 of every group move by
+     * +h and -h and every a[g,k] gains e.
+     */
+    private double jointLikelihoodChange(int k, double e, double h) {
+        ChainState s = state;
+        int m = s.categories;
+        int stride = m + 1;
+        double[] t = s.thresholds;
+        double change = 0;
+        double product = 1;
+        for (int g = 0; g < s.groups; g++) {
+            int row = g * stride;
+            System.arraycopy(t, row, scratch, 0, stride);
+            scratch[k] += h;
+            scratch[k + 1] -= h;
+            int base = g * m;
+            double excessAfter = Math.expm1(s.attraction[base + k] + e);
+            for (int i = s.start[g * m], end = s.start[(g + 1) * m]; i < end; i++) {
+                int r = s.category[i];
+                double x = eta[i];
+                if (Double.isNaN(normaliser[i])) {
+                    RoundingChannel channel = s.channel;
+                    if (channel.dependsOn(r, k) || channel.dependsOn(r, k + 1)) {
+                        change += ResponseLikelihood.logCoarse(channel, scratch, 0, r, x, -1, 0)
+                                - ResponseLikelihood.logCoarse(channel, t, row, r, x, -1, 0);
+                    }
+                    continue;
+                }
+                int at = i * stride;
+                double below = cdf[at + k - 1];
+                double low = cdf[at + k];
+                double high = cdf[at + k + 1];
+                double above = cdf[at + k + 2];
+                double lowAfter = StandardNormal.cdf(scratch[k] - x);
+                double highAfter = StandardNormal.cdf(scratch[k + 1] - x);
+                double n = normaliser[i];
+                double moved = n
+                        + (lowAfter - low) * excess[base + k - 1]
+                        + (highAfter - lowAfter) * excessAfter - (high - low) * excess[base + k]
+                        + (high - highAfter) * excess[base + k + 1];
+                product *= n / moved;
+                if (r >= k - 1 && r <= k + 1) {
+                    double before = ResponseLikelihood.full(t, row, r, x, -1, 0);
+                    double after = ResponseLikelihood.full(scratch, 0, r, x, -1, 0);
+                    if (before > 1e-280 && after > 1e-280) {
+                        product *= after / before;
+                    } else {
+                        change += ResponseLikelihood.logFull(scratch, 0, r, x) - ResponseLikelihood.logFull(t, row, r, x);
+                    }
+                    if (r == k) {
+                        change += e;
+                    }
+                }
+                if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
+                    change += Math.log(product);
+                    product = 1;
+                }
+            }
+        }
+        return change + Math.log(product);
+    }
+
+    private static double sq(double x) {
+        return x * x;
+    }
+
+    /** Log prior ratio of a[g,k] from {@code from} to {@code to}. */
+    private double attractionPriorChange(int k, double from, double to) {
+        ChainState s = state;
+        if (s.groups > 1) {
+            double mean = s.attractionMean[k];
+            double sd = s.attractionSd;
+            double a = (from - mean) / sd;
+            double b = (to - mean) / sd;
+            return 0.5 * (a * a - b * b);
+        }
+        return meanPrior.logDensity(to) - meanPrior.logDensity(from);
+    }
+
+    private void step(int g, int j, boolean adapt) {
+        ChainState s = state;
+        int m = s.categories;
+        int k = attracted[j];
+        int slot = g * attracted.length + j;
+        double current = s.attraction[g * m + k];
+        double proposed = current + Math.exp(logScale[slot]) * normal.sample();
+        double oddsChange = Math.exp(proposed) - Math.exp(current);
+        double logRatio = answers(g, k) * (proposed - current);
+        double product = 1;
+        int from = s.start[g * m];
+        int to = s.start[(g + 1) * m];
+        for (int i = from; i < to; i++) {
+            double n = normaliser[i];
+            if (Double.isNaN(n)) {
+                continue;
+            }
+            int at = i * (m + 1);
+            product *= n / (n + (cdf[at + k + 1] - cdf[at + k]) * oddsChange);
+            if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
+                logRatio += Math.log(product);
+                product = 1;
+            }
+        }
+        logRatio += Math.log(product) + attractionPriorChange(k, current, proposed);
+        boolean accept = Math.log(rng.nextDouble()) < logRatio;
+        if (accept) {
+            s.attraction[g * m + k] = proposed;
+            if (s.groups == 1) {
+                s.attractionMean[k] = proposed;
+            }
+            excess[g * m + k] = Math.expm1(proposed);
+            for (int i = from; i < to; i++) {
+                if (!Double.isNaN(normaliser[i])) {
+                    int at = i * (m + 1);
+                    normaliser[i] += (cdf[at + k + 1] - cdf[at + k]) * oddsChange;
+                }
+            }
+        }
+        if (adapt) {
+            logScale[slot] += Math.pow(warmupStep + 1.0, -0.6) * ((accept ? 1 : 0) - TARGET_ACCEPTANCE);
+        }
+    }
+
+    /** How many of group g's full-scale respondents answered position k (respondents are sorted by category). */
+    private int answers(int g, int k) {
+        ChainState s = state;
+        int m = s.categories;
+        int from = s.start[g * m + k];
+        int to = s.start[g * m + k + 1];
+        if (s.coarse == null) {
+            return to - from;
+        }
+        int full = 0;
+        for (int i = from; i < to; i++) {
+            full += 1 - s.coarse[i];
+        }
+        return full;
+    }
+
+    /** abar[j] given a[.,j] (conjugate normal), then tau_a given the deviations (slice on log tau_a). */
+    private void pool() {
+        ChainState s = state;
+        int m = s.categories;
+        int groups = s.groups;
+        double dataPrecision = groups / (s.attractionSd * s.attractionSd);
+        sumOfSquares = 0;
+        for (int k : attracted) {
+            double sum = 0;
+            for (int g = 0; g < groups; g++) {
+                sum += s.attraction[g * m + k];
+            }
+            double precision = meanPrior.precision() + dataPrecision;
+            double mean = (meanPrior.precision() * meanPrior.mean() + dataPrecision * sum / groups) / precision;
+            s.attractionMean[k] = mean + normal.sample() / Math.sqrt(precision);
+            for (int g = 0; g < groups; g++) {
+                double d = s.attraction[g * m + k] - s.attractionMean[k];
+                sumOfSquares += d * d;
+            }
+        }
+        s.attractionSd = Math.exp(slice.sample(Math.log(s.attractionSd), this));
+    }
+
+    /** Log density of log tau_a: Half-Normal(tau) tau^-(G |A|) exp(-SS / (2 tau^2)) times the Jacobian tau. */
+    @Override
+    public double at(double logSd) {
+        double sd = Math.exp(logSd);
+        return sdPrior.logDensity(sd) - state.groups * attracted.length * logSd - sumOfSquares / (2 * sd * sd) + logSd;
+    }
+
+    @Override
+    public void save(DataOutput out) throws IOException {
+        Checkpointed.writeDoubles(out, logScale);
+        Checkpointed.writeDoubles(out, jointLogScale);
+        out.writeInt(warmupStep);
+    }
+
+    @Override
+    public void restore(DataInput in) throws IOException {
+        Checkpointed.readDoubles(in, logScale);
+        Checkpointed.readDoubles(in, jointLogScale);
+        warmupStep = in.readInt();
+    }
+}
