@@ -105,27 +105,6 @@ public final class ResponseLikelihood {
         return logFull(thresholds, base, j, eta) + attraction[j] - Math.log(normaliser);
     }
 
-    /**
-     * The normaliser of MODEL.md 4b, sum_k pi[k](eta) exp(a[k]) = 1 + sum_k pi[k](eta) (exp(a[k]) - 1),
-     * with {@code excess[excessBase + k]} = exp(a[k]) - 1 for the M positions. The pi[k] are taken
-     * as differences of normal cdfs: the sum needs absolute, not relative, accuracy, since it
-     * stays at least min(1, exp(min a)).
-     */
-    public static double attractionNormaliser(double[] thresholds, int base, int categories, double eta,
-                                              double[] excess, int excessBase) {
-        double sum = 1;
-        double below = 0;
-        for (int k = 0; k < categories; k++) {
-            double above = k == categories - 1 ? 1 : StandardNormal.cdf(thresholds[base + k + 1] - eta);
-            double e = excess[excessBase + k];
-            if (e != 0) {
-                sum += (above - below) * e;
-            }
-            below = above;
-        }
-        return sum;
-    }
-
     /** MODEL.md 4c with attraction on the full-scale class: log((1 - q) P(r | full, a) + q P(r | coarse)). */
     public static double logRespondentAttracted(RoundingChannel channel, double[] thresholds, int base, int r, double eta,
                                                 double q, double[] attraction) {

@@ -27,14 +27,17 @@ import org.rungs.priors.StandardNormal;
  * Metropolis move of a[g,j] alone. With several groups, the common terms abar[j] follow from
  * their conjugate normal full conditional given a[.,j] ~ Normal(abar[j], tau_a), and tau_a by
  * slice sampling on its log (Neal 2003). Each respondent's normal cdf at every threshold and
- * N_i are cached, so the move of a[g,j] alone costs one multiply-add and one ratio per
- * respondent. Scales adapt during warm-up only (Roberts & Rosenthal 2009, section 3).
+ * N_i come cached from the threshold update ({@link ChainState#cdf}), so the move of a[g,j]
+ * alone costs one multiply-add and one ratio per respondent. Scales adapt during warm-up only
+ * (Roberts & Rosenthal 2009, section 3).
  */
 final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDensity {
     private static final double TARGET_ACCEPTANCE = 0.44;
     /** Bounds of the running product of likelihood ratios before its log is taken. */
     private static final double PRODUCT_LOW = 1e-150;
     private static final double PRODUCT_HIGH = 1e150;
+    /** Category probabilities above this are taken as differences of cached cdfs. */
+    private static final double EXACT_ENOUGH = 1e-6;
     private final ChainState state;
     private final UniformRandomProvider rng;
     private final ZigguratSampler.NormalizedGaussian normal;
@@ -42,12 +45,8 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
     private final HalfNormal sdPrior;
     private final SliceSampler slice;
     private final int[] attracted;
-    /** Phi(c[g,k] - eta_i), k = 0..M (0 and 1 at the ends), per respondent in sorted order, M+1 each. */
-    private final double[] cdf;
     /** eta_i per respondent. */
     private final double[] eta;
-    /** N_i for full-scale respondents; NaN for coarse ones. */
-    private final double[] normaliser;
     /** exp(a[g,k]) - 1 by group and position. */
     private final double[] excess;
     /** A group's thresholds as a joint move proposes them. */
@@ -67,9 +66,7 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
         this.slice = SliceSampler.of(rng, 1.0);
         this.attracted = state.attracted;
         int m = state.categories;
-        this.cdf = new double[state.size * (m + 1)];
         this.eta = new double[state.size];
-        this.normaliser = new double[state.size];
         this.excess = new double[state.groups * m];
         this.scratch = new double[m + 1];
         this.logScale = new double[state.groups * attracted.length];
@@ -108,48 +105,19 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
         }
     }
 
-    /** Fills the caches for every respondent. */
+    /** eta_i and exp(a) - 1; the cdfs and N_i are the threshold update's, still current. */
     private void cache() {
         ChainState s = state;
-        int m = s.categories;
-        for (int g = 0; g < s.groups; g++) {
-            for (int k = 0; k < m; k++) {
-                excess[g * m + k] = Math.expm1(s.attraction[g * m + k]);
-            }
+        for (int at = 0; at < excess.length; at++) {
+            excess[at] = Math.expm1(s.attraction[at]);
         }
-        for (int g = 0; g < s.groups; g++) {
-            int row = g * (m + 1);
-            for (int i = s.start[g * m], end = s.start[(g + 1) * m]; i < end; i++) {
-                double e = s.eta(i);
-                eta[i] = e;
-                int at = i * (m + 1);
-                cdf[at] = 0;
-                cdf[at + m] = 1;
-                for (int k = 1; k < m; k++) {
-                    cdf[at + k] = StandardNormal.cdf(s.thresholds[row + k] - e);
-                }
-            }
+        for (int i = 0; i < s.size; i++) {
+            eta[i] = s.eta(i);
         }
-        refreshNormalisers();
     }
 
-    /** N_i from the cached cdfs; NaN for coarse-class respondents. */
-    private void refreshNormalisers() {
-        ChainState s = state;
-        int m = s.categories;
-        for (int i = 0; i < s.size; i++) {
-            if (s.coarse != null && s.coarse[i] == 1) {
-                normaliser[i] = Double.NaN;
-                continue;
-            }
-            int at = i * (m + 1);
-            int base = s.group[i] * m;
-            double n = 1;
-            for (int k : attracted) {
-                n += (cdf[at + k + 1] - cdf[at + k]) * excess[base + k];
-            }
-            normaliser[i] = n;
-        }
+    private boolean coarse(int i) {
+        return state.coarse != null && state.coarse[i] == 1;
     }
 
     /** The joint move of abar[j], every a[g,j] and the width of category j (see the class comment). */
@@ -185,13 +153,15 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
                 s.thresholds[row + k + 1] -= h;
                 s.attraction[g * m + k] += e;
                 excess[g * m + k] = Math.expm1(s.attraction[g * m + k]);
-                for (int i = s.start[g * m], end = s.start[(g + 1) * m]; i < end; i++) {
+                int from = s.start[g * m];
+                int to = s.start[(g + 1) * m];
+                for (int i = from; i < to; i++) {
                     int at = i * stride;
-                    cdf[at + k] = StandardNormal.cdf(s.thresholds[row + k] - eta[i]);
-                    cdf[at + k + 1] = StandardNormal.cdf(s.thresholds[row + k + 1] - eta[i]);
+                    s.cdf[at + k] = StandardNormal.cdf(s.thresholds[row + k] - eta[i]);
+                    s.cdf[at + k + 1] = StandardNormal.cdf(s.thresholds[row + k + 1] - eta[i]);
                 }
+                s.refreshNormalisers(g, from, to);
             }
-            refreshNormalisers();
         }
         if (adapt) {
             jointLogScale[j] += Math.pow(warmupStep + 1.0, -0.6) * ((accept ? 1 : 0) - TARGET_ACCEPTANCE);
@@ -226,7 +196,7 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
             for (int i = s.start[g * m], end = s.start[(g + 1) * m]; i < end; i++) {
                 int r = s.category[i];
                 double x = eta[i];
-                if (Double.isNaN(normaliser[i])) {
+                if (coarse(i)) {
                     RoundingChannel channel = s.channel;
                     if (channel.dependsOn(r, k) || channel.dependsOn(r, k + 1)) {
                         change += ResponseLikelihood.logCoarse(channel, scratch, 0, r, x, -1, 0)
@@ -235,21 +205,25 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
                     continue;
                 }
                 int at = i * stride;
-                double below = cdf[at + k - 1];
-                double low = cdf[at + k];
-                double high = cdf[at + k + 1];
-                double above = cdf[at + k + 2];
+                double low = s.cdf[at + k];
+                double high = s.cdf[at + k + 1];
                 double lowAfter = StandardNormal.cdf(scratch[k] - x);
                 double highAfter = StandardNormal.cdf(scratch[k + 1] - x);
-                double n = normaliser[i];
+                double n = s.normaliser[i];
                 double moved = n
                         + (lowAfter - low) * excess[base + k - 1]
                         + (highAfter - lowAfter) * excessAfter - (high - low) * excess[base + k]
                         + (high - highAfter) * excess[base + k + 1];
                 product *= n / moved;
                 if (r >= k - 1 && r <= k + 1) {
-                    double before = ResponseLikelihood.full(t, row, r, x, -1, 0);
-                    double after = ResponseLikelihood.full(scratch, 0, r, x, -1, 0);
+                    // from the cached cdfs: their differences carry an absolute error near 1e-16, so
+                    // above EXACT_ENOUGH the ratio is good to 1e-10; below it, the tail-exact path
+                    double before = r == k ? high - low : r < k ? low - s.cdf[at + k - 1] : s.cdf[at + k + 2] - high;
+                    double after = r == k ? highAfter - lowAfter : r < k ? lowAfter - s.cdf[at + k - 1] : s.cdf[at + k + 2] - highAfter;
+                    if (before <= EXACT_ENOUGH || after <= EXACT_ENOUGH) {
+                        before = ResponseLikelihood.full(t, row, r, x, -1, 0);
+                        after = ResponseLikelihood.full(scratch, 0, r, x, -1, 0);
+                    }
                     if (before > 1e-280 && after > 1e-280) {
                         product *= after / before;
                     } else {
@@ -298,12 +272,12 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
         int from = s.start[g * m];
         int to = s.start[(g + 1) * m];
         for (int i = from; i < to; i++) {
-            double n = normaliser[i];
-            if (Double.isNaN(n)) {
+            if (coarse(i)) {
                 continue;
             }
+            double n = s.normaliser[i];
             int at = i * (m + 1);
-            product *= n / (n + (cdf[at + k + 1] - cdf[at + k]) * oddsChange);
+            product *= n / (n + (s.cdf[at + k + 1] - s.cdf[at + k]) * oddsChange);
             if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
                 logRatio += Math.log(product);
                 product = 1;
@@ -318,10 +292,8 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
             }
             excess[g * m + k] = Math.expm1(proposed);
             for (int i = from; i < to; i++) {
-                if (!Double.isNaN(normaliser[i])) {
-                    int at = i * (m + 1);
-                    normaliser[i] += (cdf[at + k + 1] - cdf[at + k]) * oddsChange;
-                }
+                int at = i * (m + 1);
+                s.normaliser[i] += (s.cdf[at + k + 1] - s.cdf[at + k]) * oddsChange;
             }
         }
         if (adapt) {

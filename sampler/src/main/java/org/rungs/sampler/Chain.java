@@ -22,10 +22,9 @@ import org.rungs.posteriors.Draws;
  * levels, level coefficients and group levels, their pooling, then the coarse class's
  * coefficients and pooling.
  *
- * <p>The thresholds are drawn with the classes and latent levels integrated out but given the
- * rejected draws of the attraction scheme; the classes' intercepts with everything but the
- * attraction integrated out; the classes, then the attraction given the classes, then the
- * latent levels and rejected draws given both. Each quantity integrated out is redrawn before
+ * <p>The thresholds and the classes' intercepts are drawn with the classes, the latent levels and
+ * the rejected draws of the attraction scheme integrated out; then the classes, then the
+ * attraction given the classes, then the latent levels and rejected draws given both. Each quantity integrated out is redrawn before
  * any later step conditions on it, so the cycle leaves the posterior invariant (van Dyk & Park
  * 2008, Partially collapsed Gibbs samplers, JASA 103, section 3).
  *

@@ -47,13 +47,16 @@ final class ChainState implements Checkpointed {
     final double[] attractionMean;
     double attractionSd;
     /**
-     * The rejected draws of the last latent-level update (see {@link LatentLevelUpdate}): for each,
-     * the respondent and the category it fell in; {@link #rejectedCount} per respondent, saturating.
+     * Under attraction, per respondent in sorted order: Phi(c[g,k] - eta_i) for k = 0..M (0 and 1
+     * at the ends), M+1 each, and the normaliser N_i = sum_k pi[g,k](eta_i) exp(a[g,k]) of
+     * MODEL.md 4b. Filled by {@link ThresholdUpdate} at the start of a sweep and kept current by
+     * every later update that moves a threshold or an attraction before the levels move; empty
+     * when attraction is off.
      */
-    int rejections;
-    int[] rejectedRespondent;
-    byte[] rejectedCategory;
-    final byte[] rejectedCount;
+    final double[] cdf;
+    final double[] normaliser;
+    /** exp(a[g,k]) - 1 of the group being refreshed, by position. */
+    private final double[] excess;
 
     /** Attraction off. */
     ChainState(SurveyOrder order, boolean byGroup, RoundingChannel channel) {
@@ -77,9 +80,9 @@ final class ChainState implements Checkpointed {
         this.attracted = attracted.clone();
         this.attraction = new double[groups * categories];
         this.attractionMean = new double[categories];
-        this.rejectedCount = attracted.length > 0 ? new byte[size] : null;
-        this.rejectedRespondent = new int[attracted.length > 0 ? Math.max(16, size / 4) : 0];
-        this.rejectedCategory = new byte[rejectedRespondent.length];
+        this.cdf = new double[attracted.length > 0 ? size * (categories + 1) : 0];
+        this.normaliser = new double[attracted.length > 0 ? size : 0];
+        this.excess = new double[categories];
         common = new double[categories + 1];
         thresholds = new double[groups * (categories + 1)];
         common[0] = Double.NEGATIVE_INFINITY;
@@ -104,27 +107,20 @@ final class ChainState implements Checkpointed {
         return top;
     }
 
-    /** Records a rejected draw of respondent i in category k, growing the buffers when full. */
-    void reject(int i, int k) {
-        if (rejections == rejectedRespondent.length) {
-            int grown = Math.max(16, rejections * 2);
-            rejectedRespondent = java.util.Arrays.copyOf(rejectedRespondent, grown);
-            rejectedCategory = java.util.Arrays.copyOf(rejectedCategory, grown);
+    /** Recomputes N_i for respondents from..to-1 of group g from {@link #cdf} and the attraction. */
+    void refreshNormalisers(int g, int from, int to) {
+        int m = categories;
+        for (int k : attracted) {
+            excess[k] = Math.expm1(attraction[g * m + k]);
         }
-        rejectedRespondent[rejections] = i;
-        rejectedCategory[rejections] = (byte) k;
-        rejections++;
-        if (rejectedCount[i] < Byte.MAX_VALUE) {
-            rejectedCount[i]++;
+        for (int i = from; i < to; i++) {
+            int at = i * (m + 1);
+            double n = 1;
+            for (int k : attracted) {
+                n += (cdf[at + k + 1] - cdf[at + k]) * excess[k];
+            }
+            normaliser[i] = n;
         }
-    }
-
-    /** Forgets the rejected draws (before a latent-level update draws new ones). */
-    void clearRejections() {
-        for (int r = 0; r < rejections; r++) {
-            rejectedCount[rejectedRespondent[r]] = 0;
-        }
-        rejections = 0;
     }
 
     /** Copies the common thresholds into every group's row (shared mode). */
@@ -194,11 +190,6 @@ final class ChainState implements Checkpointed {
             Checkpointed.writeDoubles(out, attraction);
             Checkpointed.writeDoubles(out, attractionMean);
             Checkpointed.writeDouble(out, attractionSd);
-            out.writeInt(rejections);
-            for (int r = 0; r < rejections; r++) {
-                out.writeInt(rejectedRespondent[r]);
-                out.writeByte(rejectedCategory[r]);
-            }
         }
     }
 
@@ -223,15 +214,6 @@ final class ChainState implements Checkpointed {
             Checkpointed.readDoubles(in, attraction);
             Checkpointed.readDoubles(in, attractionMean);
             attractionSd = Checkpointed.readDouble(in);
-            clearRejections();
-            int count = in.readInt();
-            for (int r = 0; r < count; r++) {
-                int i = in.readInt();
-                if (i < 0 || i >= size) {
-                    throw new IOException("the checkpoint names respondent " + i + " of " + size);
-                }
-                reject(i, in.readByte());
-            }
         }
     }
 }

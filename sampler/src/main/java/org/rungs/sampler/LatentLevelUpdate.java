@@ -22,8 +22,8 @@ import org.rungs.priors.StandardNormal;
  * independent of it given eta, a geometric number of draws from the rejected part (Rao, Lin &
  * Dunson 2016, Data augmentation for models based on rejection sampling, Biometrika 103,
  * section 2), so they are drawn by running the scheme until its first acceptance. Every draw is
- * a Normal(eta, 1) value, so all of them enter the conjugate update; their categories are kept
- * for the threshold update, which conditions on them.
+ * a Normal(eta, 1) value, so all of them enter the conjugate update; no other update conditions
+ * on them, so they are not kept.
  */
 final class LatentLevelUpdate implements Update {
     private final ChainState state;
@@ -66,7 +66,6 @@ final class LatentLevelUpdate implements Update {
         int m = s.categories;
         boolean attraction = s.attractionOn();
         if (attraction) {
-            s.clearRejections();
             level.clearExtra();
             for (int g = 0; g < s.groups; g++) {
                 double top = s.attractionTop(g);
@@ -108,7 +107,6 @@ final class LatentLevelUpdate implements Update {
             if (rng.nextDouble() < acceptance[g * m + k]) {
                 return;
             }
-            s.reject(i, k);
             level.latentSum[g] += y;
             for (int j = 0; j < level.count; j++) {
                 level.latentCross[j] += level.columns[j][i] * y;

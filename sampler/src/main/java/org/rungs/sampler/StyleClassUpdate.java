@@ -95,7 +95,10 @@ final class StyleClassUpdate implements Update, Checkpointed {
         }
     }
 
-    /** Caches each respondent's P(r | full) (with attraction, MODEL.md 4b), P(r | coarse) and style linear predictor. */
+    /**
+     * Caches each respondent's P(r | full) (with attraction, MODEL.md 4b, from the threshold
+     * update's N_i, still current), P(r | coarse) and style linear predictor.
+     */
     private void prepare(int g, int from, int to) {
         ChainState s = state;
         int m = s.categories;
@@ -114,8 +117,7 @@ final class StyleClassUpdate implements Update, Checkpointed {
                 double eta = s.eta(i);
                 full[at] = ResponseLikelihood.full(s.thresholds, row, r, eta, -1, 0);
                 if (s.attractionOn()) {
-                    full[at] *= Math.exp(s.attraction[g * m + r])
-                            / ResponseLikelihood.attractionNormaliser(s.thresholds, row, m, eta, excess, g * m);
+                    full[at] *= (excess[g * m + r] + 1) / s.normaliser[i];
                 }
                 coarse[at] = ResponseLikelihood.coarse(channel, s.thresholds, row, r, eta, -1, 0);
             } else {

@@ -29,14 +29,15 @@ import org.rungs.priors.StandardNormal;
  * <p>In by-group mode a last block moves the common threshold c[k] and every group's c[g,k]
  * together (deviations d unchanged), with mu_alpha and every alpha[g]: without it, c and the
  * c[g] can only follow each other through the prior, which is slow where a category has few
- * answers and the prior holds c[g,k] close to c[k]. Each step's scale adapts during warm-up
- * only (Roberts & Rosenthal 2009, section 3) towards acceptance 0.44.
+ * answers and the prior holds c[g,k] close to c[k]. The two end thresholds are moved on the log
+ * of their gap to the neighbour instead: an end category with few answers leaves that gap
+ * uncertain over orders of magnitude, where an additive step crawls. Each step's scale adapts
+ * during warm-up only (Roberts & Rosenthal 2009, section 3) towards acceptance 0.44.
  *
- * <p>Under number attraction the step conditions on the rejected draws of the redraw scheme (see
- * {@link LatentLevelUpdate}) and integrates out their latent values: a rejected draw in category
- * k contributes pi[g,k](eta), like one more answer k of its respondent, and a respondent with
- * rejected draws is full-scale for sure. The accepted answer contributes pi[g,r](eta) times
- * exp(a[g,r] - A[g]), which matters only where the coarse class competes for the answer.
+ * <p>Under number attraction (MODEL.md 4b) the full-scale probability pi[g,r] exp(a[g,r]) / N_i
+ * has a normaliser N_i that depends on every threshold, so a step reads every respondent of the
+ * block: the normal cdf at the moved threshold is cached per respondent ({@link ChainState#cdf}),
+ * so a step costs one normal-function call per respondent; one pass is made per sweep.
  */
 final class ThresholdUpdate implements Update, Checkpointed {
     private static final double TARGET_ACCEPTANCE = 0.44;
@@ -76,19 +77,12 @@ final class ThresholdUpdate implements Update, Checkpointed {
      * P(r | coarse) at the current state, so a step recomputes only the part it changes.
      */
     private final double[] mixtureQ;
-    /** Per such respondent: exp(a[g,r] - A[g]) with no rejected draws; with some, 1 (and q taken as 0). */
-    private final double[] mixtureTilt;
-    /**
-     * The rejected draws as pseudo-answers sorted by (group, category), runs starting at
-     * {@link #pseudoStart}, with the covariate part and the cached tails of each (as for respondents).
-     */
-    private final int[] pseudoStart;
-    private double[] pseudoPart = new double[0];
-    private double[] pseudoLower = new double[0];
-    private double[] pseudoUpper = new double[0];
-    private double[] pseudoProposed = new double[0];
     final double[] mixtureFull;
     final double[] mixtureCoarse;
+    /** Under attraction: exp(a[g,k]) - 1 by group and position, and the cdf and N_i under the pending proposal. */
+    private final double[] excess;
+    private final double[] proposedCdf;
+    private final double[] proposedNormaliser;
     private long accepted;
     private long tried;
     private int warmupStep;
@@ -112,8 +106,10 @@ final class ThresholdUpdate implements Update, Checkpointed {
         this.mixtureQ = new double[mixtureSize];
         this.mixtureFull = new double[mixtureSize];
         this.mixtureCoarse = new double[mixtureSize];
-        this.mixtureTilt = new double[mixtureSize];
-        this.pseudoStart = new int[state.attractionOn() ? state.groups * state.categories + 1 : 0];
+        boolean attraction = state.attractionOn();
+        this.excess = new double[attraction ? state.groups * state.categories : 0];
+        this.proposedCdf = new double[attraction ? state.size : 0];
+        this.proposedNormaliser = new double[attraction ? state.size : 0];
         this.visited = new int[cuts + 1][];
         for (int k = 1; k <= cuts; k++) {
             int kk = k;
@@ -153,7 +149,8 @@ final class ThresholdUpdate implements Update, Checkpointed {
     @Override
     public void update(boolean adapt) {
         refresh();
-        for (int pass = 0; pass < PASSES; pass++) {
+        int passes = state.attractionOn() ? 1 : PASSES;
+        for (int pass = 0; pass < passes; pass++) {
             for (int b = 0; b < blocks; b++) {
                 for (int k = 1; k <= cuts; k++) {
                     step(b, k, adapt);
@@ -183,52 +180,37 @@ final class ThresholdUpdate implements Update, Checkpointed {
             lowerTail[i] = tail(t[at] - eta);
             upperTail[i] = tail(t[at + 1] - eta);
             if (s.channel != null && s.channel.isPoint(s.category[i])) {
-                boolean rejected = s.attractionOn() && s.rejectedCount[i] > 0;
-                mixtureQ[i] = rejected ? 0 : StandardNormal.cdf(s.style.linear(i, g));
-                mixtureTilt[i] = !s.attractionOn() || rejected ? 1
-                        : Math.exp(s.attraction[g * s.categories + s.category[i]] - s.attractionTop(g));
+                mixtureQ[i] = StandardNormal.cdf(s.style.linear(i, g));
                 refreshMixture(i, g * stride, s.category[i], eta);
             }
         }
         if (s.attractionOn()) {
-            sortRejections();
+            refreshAttraction();
         }
     }
 
-    /** Counting sort of the rejected draws into runs by (group, category), with their tails. */
-    private void sortRejections() {
+    /** Fills {@link ChainState#cdf} and {@link ChainState#normaliser} and the odds of the attraction. */
+    private void refreshAttraction() {
         ChainState s = state;
         int m = s.categories;
-        int n = s.rejections;
-        if (pseudoPart.length < n) {
-            int capacity = Math.max(n, pseudoPart.length * 2);
-            pseudoPart = new double[capacity];
-            pseudoLower = new double[capacity];
-            pseudoUpper = new double[capacity];
-            pseudoProposed = new double[capacity];
+        for (int at = 0; at < excess.length; at++) {
+            excess[at] = Math.expm1(s.attraction[at]);
         }
-        java.util.Arrays.fill(pseudoStart, 0);
-        for (int r = 0; r < n; r++) {
-            pseudoStart[s.group[s.rejectedRespondent[r]] * m + s.rejectedCategory[r] + 1]++;
+        for (int g = 0; g < s.groups; g++) {
+            int row = g * stride;
+            int from = s.start[g * m];
+            int to = s.start[(g + 1) * m];
+            for (int i = from; i < to; i++) {
+                double eta = s.level.intercept[g] + covariatePart[i];
+                int at = i * (m + 1);
+                s.cdf[at] = 0;
+                s.cdf[at + m] = 1;
+                for (int k = 1; k < m; k++) {
+                    s.cdf[at + k] = StandardNormal.cdf(s.thresholds[row + k] - eta);
+                }
+            }
+            s.refreshNormalisers(g, from, to);
         }
-        for (int b = 1; b < pseudoStart.length; b++) {
-            pseudoStart[b] += pseudoStart[b - 1];
-        }
-        for (int r = 0; r < n; r++) {
-            int i = s.rejectedRespondent[r];
-            int g = s.group[i];
-            int bucket = g * m + s.rejectedCategory[r];
-            int at = pseudoStart[bucket]++;
-            pseudoPart[at] = covariatePart[i];
-            double eta = s.level.intercept[g] + covariatePart[i];
-            int row = g * stride + s.rejectedCategory[r];
-            pseudoLower[at] = tail(s.thresholds[row] - eta);
-            pseudoUpper[at] = tail(s.thresholds[row + 1] - eta);
-        }
-        for (int b = pseudoStart.length - 1; b > 0; b--) {
-            pseudoStart[b] = pseudoStart[b - 1];
-        }
-        pseudoStart[0] = 0;
     }
 
     private void refreshMixture(int i, int row, int j, double eta) {
@@ -258,10 +240,19 @@ final class ThresholdUpdate implements Update, Checkpointed {
         double[] rows = common ? s.common : s.thresholds;
         int base = common ? 0 : b * stride;
         int slot = b * cuts + k - 1;
-        double delta = Math.exp(logScale[slot]) * normal.sample();
+        double step = Math.exp(logScale[slot]) * normal.sample();
+        double delta = step;
+        double jacobian = 0;
+        if (cuts > 1 && (k == 1 || k == cuts)) {
+            // an end threshold: a random walk on the log of its gap to the neighbour, which moves by
+            // delta; exp(step) is the Jacobian (Green 1995, section 3.3)
+            double gap = k == 1 ? rows[base + 2] - rows[base + 1] : rows[base + cuts] - rows[base + cuts - 1];
+            delta = k == 1 ? -gap * Math.expm1(step) : gap * Math.expm1(step);
+            jacobian = step;
+        }
         boolean accept = false;
         if (staysOrdered(b, k, delta)) {
-            double logRatio = logLikelihoodChange(b, k, delta) + logPriorChange(rows, base, k, delta, b);
+            double logRatio = logLikelihoodChange(b, k, delta) + logPriorChange(rows, base, k, delta, b) + jacobian;
             accept = Math.log(rng.nextDouble()) < logRatio;
         }
         if (accept) {
@@ -276,6 +267,9 @@ final class ThresholdUpdate implements Update, Checkpointed {
             }
             shiftLevel(b, -share);
             moveTails(b, k);
+            if (s.attractionOn()) {
+                keepProposedCaches(b, k);
+            }
         }
         if (adapt) {
             logScale[slot] += Math.pow(warmupStep + 1.0, -0.6) * ((accept ? 1 : 0) - TARGET_ACCEPTANCE);
@@ -327,6 +321,9 @@ final class ThresholdUpdate implements Update, Checkpointed {
      */
     double logLikelihoodChange(int b, int k, double delta) {
         ChainState s = state;
+        if (s.attractionOn()) {
+            return attractedLikelihoodChange(b, k, delta);
+        }
         int m = s.categories;
         double[] thresholds = s.thresholds;
         RoundingChannel channel = s.channel;
@@ -341,52 +338,109 @@ final class ThresholdUpdate implements Update, Checkpointed {
                 int to = start[g * m + j + 1];
                 if (channel != null && channel.isPoint(j)) {
                     for (int i = from; i < to; i++) {
-                        change += mixtureLogRatio(i, row, j, s.level.intercept[g] + covariatePart[i], k, delta);
+                        change += mixtureLogRatio(i, row, j, s.level.intercept[g] + covariatePart[i], k, delta, 1, 1);
                     }
                 } else if (j == k - 1) {
-                    change += runChange(from, to, s.level.intercept[g], lower, cut, true, delta, covariatePart, lowerTail, upperTail, proposedTail);
+                    change += runChange(from, to, s.level.intercept[g], lower, cut, true, delta);
                 } else {
-                    change += runChange(from, to, s.level.intercept[g], cut, upper, false, delta, covariatePart, lowerTail, upperTail, proposedTail);
+                    change += runChange(from, to, s.level.intercept[g], cut, upper, false, delta);
                 }
-            }
-            if (s.attractionOn()) {
-                change += runChange(pseudoStart[g * m + k - 1], pseudoStart[g * m + k], s.level.intercept[g], lower, cut, true, delta,
-                        pseudoPart, pseudoLower, pseudoUpper, pseudoProposed);
-                change += runChange(pseudoStart[g * m + k], pseudoStart[g * m + k + 1], s.level.intercept[g], cut, upper, false, delta,
-                        pseudoPart, pseudoLower, pseudoUpper, pseudoProposed);
             }
         }
         return change;
     }
 
     /**
-     * The log-likelihood change of a run of full-scale answers of one category whose upper bound
-     * ({@code upperMoves}) or lower bound moves by delta, from the cached tails ({@code lowerTail},
-     * {@code upperTail}); the tail at the moved bound is kept in {@code proposedTail} in case the
-     * step is accepted. The arrays are the respondents' or the rejected draws'.
+     * The log-likelihood change of a run of full-scale respondents of one category whose upper
+     * bound ({@code upperMoves}) or lower bound moves by delta, from the cached tails; the tail at
+     * the moved bound is kept in {@link #proposedTail} in case the step is accepted.
      */
-    private static double runChange(int from, int to, double alpha, double lowerBound, double upperBound,
-                                    boolean upperMoves, double delta, double[] covariatePart,
-                                    double[] lowerTail, double[] upperTail, double[] proposedTail) {
+    private double runChange(int from, int to, double alpha, double lowerBound, double upperBound,
+                             boolean upperMoves, double delta) {
         double change = 0;
         double product = 1;
         for (int i = from; i < to; i++) {
-            double eta = alpha + covariatePart[i];
-            double low = lowerBound - eta;
-            double high = upperBound - eta;
-            double newLow = upperMoves ? low : low + delta;
-            double newHigh = upperMoves ? high + delta : high;
-            double moved = tail(upperMoves ? newHigh : newLow);
-            proposedTail[i] = moved;
-            double before = interval(low, lowerTail[i], high, upperTail[i]);
-            double after = upperMoves ? interval(low, lowerTail[i], newHigh, moved) : interval(newLow, moved, high, upperTail[i]);
-            product = accumulate(product, before, after, low, high, newLow, newHigh);
+            product *= ownFactor(i, alpha + covariatePart[i], lowerBound, upperBound, upperMoves, delta);
             if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
                 change += Math.log(product);
                 product = 1;
             }
         }
         return change + Math.log(product);
+    }
+
+    /**
+     * The likelihood ratio after/before of full-scale respondent i of a category with bounds
+     * (lowerBound, upperBound) whose upper ({@code upperMoves}) or lower bound moves by delta, from
+     * the cached tails; keeps the tail at the moved bound in {@link #proposedTail}.
+     */
+    private double ownFactor(int i, double eta, double lowerBound, double upperBound, boolean upperMoves, double delta) {
+        double low = lowerBound - eta;
+        double high = upperBound - eta;
+        double newLow = upperMoves ? low : low + delta;
+        double newHigh = upperMoves ? high + delta : high;
+        double moved = tail(upperMoves ? newHigh : newLow);
+        proposedTail[i] = moved;
+        double before = interval(low, lowerTail[i], high, upperTail[i]);
+        double after = upperMoves ? interval(low, lowerTail[i], newHigh, moved) : interval(newLow, moved, high, upperTail[i]);
+        return accumulate(1, before, after, low, high, newLow, newHigh);
+    }
+
+    /**
+     * Under attraction: the log-likelihood change of every respondent of block b when threshold k
+     * moves by delta relative to the levels, through its own category (as without attraction)
+     * and through N_i; keeps the moved cdf and N_i for {@link #keepProposedCaches}.
+     */
+    private double attractedLikelihoodChange(int b, int k, double delta) {
+        ChainState s = state;
+        int m = s.categories;
+        double[] t = s.thresholds;
+        RoundingChannel channel = s.channel;
+        double change = 0;
+        double product = 1;
+        for (int g = firstGroup(b); g <= lastGroup(b); g++) {
+            int row = g * stride;
+            double alpha = s.level.intercept[g];
+            double lower = t[row + k - 1];
+            double cut = t[row + k];
+            double upper = t[row + k + 1];
+            double shift = excess[g * m + k - 1] - excess[g * m + k];
+            for (int i = s.start[g * m], end = s.start[(g + 1) * m]; i < end; i++) {
+                double eta = alpha + covariatePart[i];
+                double movedCdf = StandardNormal.cdf(cut + delta - eta);
+                double before = s.normaliser[i];
+                double after = before + (movedCdf - s.cdf[i * (m + 1) + k]) * shift;
+                proposedCdf[i] = movedCdf;
+                proposedNormaliser[i] = after;
+                int r = s.category[i];
+                if (channel != null && channel.isPoint(r)) {
+                    double odds = excess[g * m + r] + 1;
+                    change += mixtureLogRatio(i, row, r, eta, k, delta, odds / before, odds / after);
+                    continue;
+                }
+                product *= before / after;
+                if (r == k - 1) {
+                    product *= ownFactor(i, eta, lower, cut, true, delta);
+                } else if (r == k) {
+                    product *= ownFactor(i, eta, cut, upper, false, delta);
+                }
+                if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
+                    change += Math.log(product);
+                    product = 1;
+                }
+            }
+        }
+        return change + Math.log(product);
+    }
+
+    /** After an accepted move under attraction: the cdf at threshold k and N_i as proposed. */
+    private void keepProposedCaches(int b, int k) {
+        ChainState s = state;
+        int m = s.categories;
+        for (int i = s.start[firstGroup(b) * m], end = s.start[(lastGroup(b) + 1) * m]; i < end; i++) {
+            s.cdf[i * (m + 1) + k] = proposedCdf[i];
+            s.normaliser[i] = proposedNormaliser[i];
+        }
     }
 
     /**
@@ -423,14 +477,6 @@ final class ThresholdUpdate implements Update, Checkpointed {
             for (int i = start[g * m + k], end = start[g * m + k + 1]; i < end; i++) {
                 lowerTail[i] = aboveIsPoint ? tail(cut - alpha - covariatePart[i]) : proposedTail[i];
             }
-            if (s.attractionOn()) {
-                for (int i = pseudoStart[g * m + k - 1], end = pseudoStart[g * m + k]; i < end; i++) {
-                    pseudoUpper[i] = pseudoProposed[i];
-                }
-                for (int i = pseudoStart[g * m + k], end = pseudoStart[g * m + k + 1]; i < end; i++) {
-                    pseudoLower[i] = pseudoProposed[i];
-                }
-            }
             if (s.channel != null) {
                 for (int j : visited[k]) {
                     if (s.channel.isPoint(j)) {
@@ -444,28 +490,27 @@ final class ThresholdUpdate implements Update, Checkpointed {
     }
 
     /**
-     * The change of log((1 - q) tilt P(r = j | full) + q P(r = j | coarse)) (MODEL.md 4c, the class
-     * summed out; tilt as in {@link #mixtureTilt}) when boundary k moves by delta, for a respondent
-     * reporting coarse point j.
+     * The change of log((1 - q) w P(r = j | full) + q P(r = j | coarse)) (MODEL.md 4c, the class
+     * summed out) when boundary k moves by delta, for a respondent reporting coarse point j; w is
+     * 1 without attraction and exp(a[g,j]) / N_i with it (MODEL.md 4b), before and after.
      */
-    private double mixtureLogRatio(int i, int row, int j, double eta, int k, double delta) {
+    private double mixtureLogRatio(int i, int row, int j, double eta, int k, double delta,
+                                   double weightBefore, double weightAfter) {
         RoundingChannel channel = state.channel;
         double[] t = state.thresholds;
         double q = mixtureQ[i];
-        double tilt = mixtureTilt[i];
         double fullBefore = mixtureFull[i];
         double coarseBefore = mixtureCoarse[i];
         double fullAfter = j == k - 1 || j == k ? ResponseLikelihood.full(t, row, j, eta, k, delta) : fullBefore;
         double coarseAfter = channel.dependsOn(j, k) ? ResponseLikelihood.coarse(channel, t, row, j, eta, k, delta) : coarseBefore;
-        double before = (1 - q) * tilt * fullBefore + q * coarseBefore;
-        double after = (1 - q) * tilt * fullAfter + q * coarseAfter;
+        double before = (1 - q) * weightBefore * fullBefore + q * coarseBefore;
+        double after = (1 - q) * weightAfter * fullAfter + q * coarseAfter;
         if (after > 1e-280 && before > 1e-280) {
             return Math.log(after / before);
         }
-        double logTilt = Math.log(tilt);
-        double logBefore = ResponseLikelihood.logSum(Math.log1p(-q) + logTilt + ResponseLikelihood.logFull(t, row, j, eta),
+        double logBefore = ResponseLikelihood.logSum(Math.log1p(-q) + Math.log(weightBefore) + ResponseLikelihood.logFull(t, row, j, eta),
                 Math.log(q) + ResponseLikelihood.logCoarse(channel, t, row, j, eta, -1, 0));
-        double logAfter = ResponseLikelihood.logSum(Math.log1p(-q) + logTilt + logFullMoved(t, row, j, eta, k, delta),
+        double logAfter = ResponseLikelihood.logSum(Math.log1p(-q) + Math.log(weightAfter) + logFullMoved(t, row, j, eta, k, delta),
                 Math.log(q) + ResponseLikelihood.logCoarse(channel, t, row, j, eta, k, delta));
         return logAfter - logBefore;
     }
