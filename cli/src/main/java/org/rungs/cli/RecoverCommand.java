@@ -6,6 +6,7 @@ import java.nio.file.Path;
 import java.util.Locale;
 import java.util.concurrent.Callable;
 import org.rungs.models.ModelSpec;
+import org.rungs.models.NumberAttraction;
 import org.rungs.models.StyleClasses;
 import org.rungs.validation.recovery.DemoTruth;
 import org.rungs.validation.recovery.Recovery;
@@ -26,8 +27,14 @@ import picocli.CommandLine.Option;
 final class RecoverCommand implements Callable<Integer> {
     @Option(names = "--truth", paramLabel = "WHICH",
             description = "The demo's truth: demo (coarse class and number attraction), no-attraction (coarse class only) "
-                    + "or plain (neither). Default: no-attraction with --style-classes coarse, plain with none.")
+                    + "or plain (neither). Default: demo with --attraction, else no-attraction with --style-classes coarse, "
+                    + "plain with none.")
     String truth;
+
+    @Option(names = "--attraction", paramLabel = "SET", defaultValue = "none",
+            description = "Number attraction of the fitted model (MODEL.md 4b): none, default (every number but the coarse points) "
+                    + "or ratings such as 3,7. Default: ${DEFAULT-VALUE}.")
+    String attraction;
 
     @Option(names = "--style-classes", paramLabel = "MODE", defaultValue = "coarse",
             description = "Response-style classes of the fitted model (MODEL.md 4): coarse or none. Default: ${DEFAULT-VALUE}.")
@@ -74,10 +81,12 @@ final class RecoverCommand implements Callable<Integer> {
         RecoveryConfig config;
         try {
             StyleClasses classes = CalibrateCommand.styleClasses(styleClasses, null);
+            NumberAttraction numbers = NumberAttraction.parse(attraction);
             DemoTruth.Variant variant = truth != null ? DemoTruth.Variant.parse(truth)
+                    : numbers.on() ? DemoTruth.Variant.DEMO
                     : classes.coarse() ? DemoTruth.Variant.NO_ATTRACTION : DemoTruth.Variant.PLAIN;
             config = RecoveryConfig.of(new DemoTruth(variant, groups, respondents),
-                    ModelSpec.defaults().withStyleClasses(classes), chains, warmup, draws, seed, replications);
+                    ModelSpec.defaults().withStyleClasses(classes).withAttraction(numbers), chains, warmup, draws, seed, replications);
         } catch (IllegalArgumentException e) {
             System.err.println("rungs recover: " + e.getMessage());
             return Main.INPUT_ERROR;

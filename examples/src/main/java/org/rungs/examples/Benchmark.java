@@ -10,7 +10,10 @@ import java.util.Arrays;
 import java.util.List;
 import java.util.Locale;
 import java.util.concurrent.atomic.AtomicBoolean;
+import java.util.function.IntFunction;
 import org.rungs.models.ModelSpec;
+import org.rungs.models.NumberAttraction;
+import org.rungs.models.StyleClasses;
 import org.rungs.models.survey.Covariates;
 import org.rungs.models.survey.Scale;
 import org.rungs.models.survey.Survey;
@@ -105,6 +108,18 @@ public final class Benchmark {
                 Scenario.NumberAttraction.none(), seed);
     }
 
+    /**
+     * The coarse scenario with number attraction on every number but the coarse points (MODEL.md
+     * 4b): 7 liked, 3 avoided, group deviations of sd 0.1.
+     */
+    public static Scenario fullScenario(int respondents, long seed) {
+        Scenario coarse = coarseScenario(respondents, seed);
+        return new Scenario(coarse.scale(), coarse.groups(), coarse.levelCovariates(), coarse.groupLevels(), coarse.thresholds(),
+                coarse.thresholdDeviations(), coarse.styleClasses(),
+                new Scenario.NumberAttraction.Active(new double[] {0, 0, -0.3, 0, 0, 0.4, 0, 0},
+                        new Scenario.AttractionDeviations.Drawn(0.1)), seed);
+    }
+
     /** A simulated survey of {@code respondents}, in the simulator's row order (sorted by group only). */
     public static Survey survey(int respondents, long seed) {
         return survey(scenario(respondents, seed), seed);
@@ -147,29 +162,11 @@ public final class Benchmark {
         log.println("benchmark: untimed fit to let the compiler settle");
         fit(survey(JIT_RESPONDENTS, settings.seed()), model, new SamplerSettings(1, JIT_SWEEPS / 2, JIT_SWEEPS / 2, settings.seed(), 1));
 
-        int largest = Arrays.stream(settings.sizes()).max().orElseThrow();
-        List<Timing> timings = new ArrayList<>();
-        for (int n : settings.sizes()) {
-            int sweeps = (int) Math.max(2, Math.round((double) settings.sweeps() * largest / n));
-            Survey survey = survey(n, settings.seed());
-            FitResult result = fit(survey, model, new SamplerSettings(1, sweeps / 2, sweeps - sweeps / 2, settings.seed(), 1));
-            Timing t = new Timing(n, sweeps, result.seconds());
-            timings.add(t);
-            log.printf(Locale.ROOT, "benchmark: %,d respondents, %d sweeps, %.1f s, %.1f ns per respondent per sweep%n",
-                    n, sweeps, t.seconds(), t.nanosPerRespondentSweep());
-        }
-
-        ModelSpec coarseModel = model.withStyleClasses(org.rungs.models.StyleClasses.coarse(null));
-        List<Timing> coarseTimings = new ArrayList<>();
-        for (int n : settings.sizes()) {
-            int sweeps = (int) Math.max(2, Math.round((double) settings.sweeps() * largest / n / 2));
-            Survey survey = survey(coarseScenario(n, settings.seed()), settings.seed());
-            FitResult result = fit(survey, coarseModel, new SamplerSettings(1, sweeps / 2, sweeps - sweeps / 2, settings.seed(), 1));
-            Timing t = new Timing(n, sweeps, result.seconds());
-            coarseTimings.add(t);
-            log.printf(Locale.ROOT, "benchmark: coarse class, %,d respondents, %d sweeps, %.1f s, %.1f ns per respondent per sweep%n",
-                    n, sweeps, t.seconds(), t.nanosPerRespondentSweep());
-        }
+        List<Timing> timings = timings("", settings, n -> scenario(n, settings.seed()), model, 1, log);
+        ModelSpec coarseModel = model.withStyleClasses(StyleClasses.coarse(null));
+        List<Timing> coarseTimings = timings("coarse class, ", settings, n -> coarseScenario(n, settings.seed()), coarseModel, 2, log);
+        List<Timing> fullTimings = timings("coarse class and attraction, ", settings, n -> fullScenario(n, settings.seed()),
+                coarseModel.withAttraction(NumberAttraction.besidesCoarsePoints()), 4, log);
 
         List<Ess> ess = new ArrayList<>();
         for (int n : settings.essSizes()) {
@@ -188,7 +185,27 @@ public final class Benchmark {
             log.printf(Locale.ROOT, "benchmark: memory at %,d respondents: survey %.1f, fit %.1f bytes per respondent%n",
                     n, m.surveyBytes(), m.fitBytes());
         }
-        return markdown(settings, timings, coarseTimings, ess, memory);
+        return markdown(settings, timings, coarseTimings, fullTimings, ess, memory);
+    }
+
+    /**
+     * Single-chain, single-thread fits of each size; the largest runs {@code settings.sweeps() /
+     * divisor} sweeps and smaller ones proportionally more, so each size takes about as long.
+     */
+    private static List<Timing> timings(String label, Settings settings, IntFunction<Scenario> scenario, ModelSpec model,
+                                        int divisor, PrintStream log) {
+        int largest = Arrays.stream(settings.sizes()).max().orElseThrow();
+        List<Timing> timings = new ArrayList<>();
+        for (int n : settings.sizes()) {
+            int sweeps = (int) Math.max(2, Math.round((double) settings.sweeps() * largest / n / divisor));
+            Survey survey = survey(scenario.apply(n), settings.seed());
+            FitResult result = fit(survey, model, new SamplerSettings(1, sweeps / 2, sweeps - sweeps / 2, settings.seed(), 1));
+            Timing t = new Timing(n, sweeps, result.seconds());
+            timings.add(t);
+            log.printf(Locale.ROOT, "benchmark: %s%,d respondents, %d sweeps, %.1f s, %.1f ns per respondent per sweep%n",
+                    label, n, sweeps, t.seconds(), t.nanosPerRespondentSweep());
+        }
+        return timings;
     }
 
     private static void timingTable(StringBuilder sb, List<Timing> timings) {
@@ -309,8 +326,8 @@ public final class Benchmark {
                 Runtime.getRuntime().maxMemory() >> 20);
     }
 
-    private static String markdown(Settings settings, List<Timing> timings, List<Timing> coarseTimings, List<Ess> ess,
-                                   List<Memory> memory) {
+    private static String markdown(Settings settings, List<Timing> timings, List<Timing> coarseTimings,
+                                   List<Timing> fullTimings, List<Ess> ess, List<Memory> memory) {
         StringBuilder sb = new StringBuilder();
         sb.append("Machine: ").append(machine()).append("\n\n");
         sb.append(String.format(Locale.ROOT, "Survey: %d groups, 4 numeric level covariates, scale 0..10, by-group thresholds, seed %d.%n%n",
@@ -321,6 +338,9 @@ public final class Benchmark {
         sb.append("\nSpeed with the coarse class on (a quarter of the respondents coarse, intercept-only class probit), "
                 + "measured the same way.\n\n");
         timingTable(sb, coarseTimings);
+        sb.append("\nSpeed of the complete model: the coarse class and number attraction on every number but the coarse points "
+                + "(7 liked, 3 avoided), measured the same way.\n\n");
+        timingTable(sb, fullTimings);
         if (!ess.isEmpty()) {
             sb.append("\nBulk ESS per second: 2 chains on 2 threads, seconds are wall clock; ESS over all parameters.\n\n");
             sb.append("| respondents | warm-up + kept per chain | seconds | min bulk ESS (parameter) | median bulk ESS | min ESS/s | median ESS/s |\n");

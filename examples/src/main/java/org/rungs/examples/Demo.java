@@ -95,7 +95,8 @@ public final class Demo {
         sb.append(String.format(Locale.ROOT,
                 "%d of %d true values lie inside their 90%% intervals (group thresholds counted, not all shown). About 90%% would be%n"
                         + "expected of a converged fit of the model that made the data; the demo data also carry number attraction,%n"
-                        + "which this release does not fit, so the thresholds and coarse shares absorb it and fewer intervals cover.%n",
+                        + "which the demo's fit leaves out (--attraction default fits it), so the thresholds and coarse shares absorb%n"
+                        + "it and fewer intervals cover.%n",
                 inside, total));
         return sb.toString();
     }

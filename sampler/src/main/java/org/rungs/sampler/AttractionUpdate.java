@@ -25,8 +25,9 @@ import org.rungs.priors.StandardNormal;
  * exp(-e) enters the acceptance ratio (Green 1995, Reversible jump MCMC, Biometrika 82, section
  * 3.3); the moved thresholds keep their sum, so the levels stay. Then, per group, a random-walk
  * Metropolis move of a[g,j] alone. With several groups, the common terms abar[j] follow from
- * their conjugate normal full conditional given a[.,j] ~ Normal(abar[j], tau_a), and tau_a by
- * slice sampling on its log (Neal 2003). Each respondent's normal cdf at every threshold and
+ * their conjugate normal full conditional given a[.,j] ~ Normal(abar[j], tau_a), tau_a by
+ * slice sampling on its log (Neal 2003), and tau_a once more with the deviations scaled along
+ * ({@link #spreadStep}). Each respondent's normal cdf at every threshold and
  * N_i come cached from the threshold update ({@link ChainState#cdf}), so the move of a[g,j]
  * alone costs one multiply-add and one ratio per respondent. Scales adapt during warm-up only
  * (Roberts & Rosenthal 2009, section 3).
@@ -54,6 +55,10 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
     private final double[] logScale;
     private final double[] jointLogScale;
     private final double commonPriorPrecision;
+    /** a[g,k] and exp(a[g,k]) - 1 under a proposed tau_a. */
+    private final double[] proposed;
+    private final double[] proposedExcess;
+    private double spreadLogScale = Math.log(0.3);
     private double sumOfSquares;
     private int warmupStep;
 
@@ -72,6 +77,8 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
         this.logScale = new double[state.groups * attracted.length];
         this.jointLogScale = new double[attracted.length];
         this.commonPriorPrecision = priors.threshold().precision();
+        this.proposed = new double[state.groups * m];
+        this.proposedExcess = new double[state.groups * m];
         for (int j = 0; j < attracted.length; j++) {
             jointLogScale[j] = Math.log(0.1);
             for (int g = 0; g < state.groups; g++) {
@@ -99,6 +106,7 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
         }
         if (s.groups > 1) {
             pool();
+            spreadStep(adapt);
         }
         if (adapt) {
             warmupStep++;
@@ -317,6 +325,60 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
         return full;
     }
 
+    /**
+     * A move of tau_a that scales every deviation a[g,j] - abar[j] with it, on the likelihood: in
+     * the centred moves tau_a can only follow the deviations and they only follow tau_a, which is
+     * slow where tau_a is small (Yu & Meng 2011, To center or not to center, JCGS 20, section 2;
+     * here a Metropolis step on log tau_a with the standardised deviations fixed, whose Jacobian
+     * is tau_a'/tau_a).
+     */
+    private void spreadStep(boolean adapt) {
+        ChainState s = state;
+        int m = s.categories;
+        double step = Math.exp(spreadLogScale) * normal.sample();
+        double ratio = Math.exp(step);
+        double logRatio = sdPrior.logDensity(s.attractionSd * ratio) - sdPrior.logDensity(s.attractionSd) + step;
+        for (int g = 0; g < s.groups; g++) {
+            for (int k : attracted) {
+                int at = g * m + k;
+                proposed[at] = s.attractionMean[k] + ratio * (s.attraction[at] - s.attractionMean[k]);
+                proposedExcess[at] = Math.expm1(proposed[at]);
+                logRatio += answers(g, k) * (proposed[at] - s.attraction[at]);
+            }
+        }
+        double product = 1;
+        for (int i = 0; i < s.size; i++) {
+            if (coarse(i)) {
+                continue;
+            }
+            int at = i * (m + 1);
+            int base = s.group[i] * m;
+            double n = 1;
+            for (int k : attracted) {
+                n += (s.cdf[at + k + 1] - s.cdf[at + k]) * proposedExcess[base + k];
+            }
+            product *= s.normaliser[i] / n;
+            if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
+                logRatio += Math.log(product);
+                product = 1;
+            }
+        }
+        logRatio += Math.log(product);
+        boolean accept = Math.log(rng.nextDouble()) < logRatio;
+        if (accept) {
+            s.attractionSd *= ratio;
+            for (int g = 0; g < s.groups; g++) {
+                for (int k : attracted) {
+                    s.attraction[g * m + k] = proposed[g * m + k];
+                }
+                s.refreshNormalisers(g, s.start[g * m], s.start[(g + 1) * m]);
+            }
+        }
+        if (adapt) {
+            spreadLogScale += Math.pow(warmupStep + 1.0, -0.6) * ((accept ? 1 : 0) - TARGET_ACCEPTANCE);
+        }
+    }
+
     /** abar[j] given a[.,j] (conjugate normal), then tau_a given the deviations (slice on log tau_a). */
     private void pool() {
         ChainState s = state;
@@ -351,6 +413,7 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
     public void save(DataOutput out) throws IOException {
         Checkpointed.writeDoubles(out, logScale);
         Checkpointed.writeDoubles(out, jointLogScale);
+        Checkpointed.writeDouble(out, spreadLogScale);
         out.writeInt(warmupStep);
     }
 
@@ -358,6 +421,7 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
     public void restore(DataInput in) throws IOException {
         Checkpointed.readDoubles(in, logScale);
         Checkpointed.readDoubles(in, jointLogScale);
+        spreadLogScale = Checkpointed.readDouble(in);
         warmupStep = in.readInt();
     }
 }
