@@ -34,6 +34,10 @@ class TruncatedNormalSamplerTest {
                 Arguments.of(Double.NEGATIVE_INFINITY, INF),
                 Arguments.of(Double.NEGATIVE_INFINITY, 0.5),
                 Arguments.of(-1.0, 1.0),
+                // the uniform-proposal region (density changes by at most a factor 2)
+                Arguments.of(-0.5, 0.6),
+                Arguments.of(0.1, 0.9),
+                Arguments.of(-1.1, -0.3),
                 Arguments.of(0.3, 1.5),
                 Arguments.of(-1.2, 0.4),
                 Arguments.of(0.2, 0.2001),
