@@ -31,7 +31,9 @@ public final class Recovery {
      * {@value RecoveryReport#SUMMARY} into {@code out}.
      *
      * @param overwrite start afresh in a folder holding another study or other files
-     * @param threads   replications fitted at the same time, each fit on one thread
+     * @param threads   replications fitted at the same time, each fit on one thread; with fewer
+     *                  replications left than threads, each fit runs its chains on its share
+     *                  (the draws do not depend on it)
      * @param progress  receives progress lines (stderr), or null for none
      * @param stop      set it to stop: running fits are abandoned and not recorded
      * @return the summary, or null when stopped before every replication finished
@@ -52,7 +54,9 @@ public final class Recovery {
         }
         RecoveryProgress lines = new RecoveryProgress(progress == null ? new PrintStream(OutputStream.nullOutputStream())
                 : progress, config.replications(), finished.values(), 5);
-        ExecutorService pool = Executors.newFixedThreadPool(threads, task -> {
+        int fits = Math.max(1, Math.min(threads, todo.size()));
+        int chainThreads = Math.max(1, threads / fits);
+        ExecutorService pool = Executors.newFixedThreadPool(fits, task -> {
             Thread t = new Thread(task, "rungs-recovery");
             t.setDaemon(true);
             return t;
@@ -65,7 +69,7 @@ public final class Recovery {
                     if (stop.get()) {
                         return false;
                     }
-                    ReplicationEstimates result = RecoveryReplication.run(config, r, stop);
+                    ReplicationEstimates result = RecoveryReplication.run(config, r, chainThreads, stop);
                     if (result == null) {
                         return false;
                     }

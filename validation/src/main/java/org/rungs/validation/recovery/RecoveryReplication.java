@@ -33,10 +33,11 @@ final class RecoveryReplication {
     }
 
     /**
-     * @param stop set it to abandon the fit
+     * @param threads threads of the fit's chains (the draws do not depend on it)
+     * @param stop    set it to abandon the fit
      * @return the estimates, or null when the fit was stopped before all its iterations
      */
-    static ReplicationEstimates run(RecoveryConfig config, int index, AtomicBoolean stop) {
+    static ReplicationEstimates run(RecoveryConfig config, int index, int threads, AtomicBoolean stop) {
         // a stream of (base seed, index) alone, seeded through SplitMix64 as the chains' are
         UniformRandomProvider rng = ChainSeeds.stream(config.seed(), index);
         long dataSeed = rng.nextLong();
@@ -44,7 +45,7 @@ final class RecoveryReplication {
         SimulatedSurvey data = Simulator.simulate(config.truth(), dataSeed);
         Survey survey = EngineSurvey.of(data);
         FitResult fit = Fitter.fit(survey, config.fit(),
-                new SamplerSettings(config.chains(), config.warmup(), config.draws(), fitSeed, 1), ProgressListener.NONE, stop);
+                new SamplerSettings(config.chains(), config.warmup(), config.draws(), fitSeed, threads), ProgressListener.NONE, stop);
         if (fit.interrupted()) {
             return null;
         }
