@@ -1,6 +1,5 @@
 package org.rungs.validation.calibration;
 
-import java.io.OutputStream;
 import java.io.PrintStream;
 import java.nio.file.Path;
 import java.util.ArrayList;
@@ -12,6 +11,7 @@ import java.util.concurrent.ExecutorService;
 import java.util.concurrent.Executors;
 import java.util.concurrent.Future;
 import java.util.concurrent.atomic.AtomicBoolean;
+import org.rungs.validation.ReplicationProgress;
 
 /**
  * Simulation-based calibration of the engine (Talts, Betancourt, Simpson, Vehtari & Gelman 2018,
@@ -53,7 +53,11 @@ public final class Calibration {
                 }
             }
         }
-        CalibrationProgress lines = new CalibrationProgress(progress == null ? nullStream() : progress, total, already, 5);
+        ReplicationProgress lines = new ReplicationProgress(progress, "calibrate", total, 5, "non-converged fits",
+                "fits with bulk ESS below the rank draws");
+        for (ReplicationResult r : already) {
+            lines.earlier(r.nonConverged(), r.thinnedTooLittle());
+        }
         ExecutorService pool = Executors.newFixedThreadPool(threads, task -> {
             Thread t = new Thread(task, "rungs-calibration");
             t.setDaemon(true);
@@ -72,7 +76,7 @@ public final class Calibration {
                         return false;
                     }
                     folder.write(result);
-                    lines.finished(result);
+                    lines.finished(result.nonConverged(), result.thinnedTooLittle());
                     return true;
                 }));
             }
@@ -153,9 +157,5 @@ public final class Calibration {
             }
         }
         return missing;
-    }
-
-    private static PrintStream nullStream() {
-        return new PrintStream(OutputStream.nullOutputStream());
     }
 }

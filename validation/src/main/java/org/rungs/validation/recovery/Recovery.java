@@ -1,6 +1,5 @@
 package org.rungs.validation.recovery;
 
-import java.io.OutputStream;
 import java.io.PrintStream;
 import java.nio.file.Path;
 import java.util.ArrayList;
@@ -11,6 +10,7 @@ import java.util.concurrent.ExecutorService;
 import java.util.concurrent.Executors;
 import java.util.concurrent.Future;
 import java.util.concurrent.atomic.AtomicBoolean;
+import org.rungs.validation.ReplicationProgress;
 
 /**
  * A recovery and coverage study: R surveys drawn from one fixed truth, each fitted, and every
@@ -52,8 +52,10 @@ public final class Recovery {
                 todo.add(r);
             }
         }
-        RecoveryProgress lines = new RecoveryProgress(progress == null ? new PrintStream(OutputStream.nullOutputStream())
-                : progress, config.replications(), finished.values(), 5);
+        ReplicationProgress lines = new ReplicationProgress(progress, "recover", config.replications(), 5, "non-converged fits");
+        for (ReplicationEstimates r : finished.values()) {
+            lines.earlier(r.nonConverged());
+        }
         int fits = Math.max(1, Math.min(threads, todo.size()));
         int chainThreads = Math.max(1, threads / fits);
         ExecutorService pool = Executors.newFixedThreadPool(fits, task -> {
@@ -74,7 +76,7 @@ public final class Recovery {
                         return false;
                     }
                     folder.write(result);
-                    lines.finished(result);
+                    lines.finished(result.nonConverged());
                     return true;
                 }));
             }

@@ -5,8 +5,6 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.nio.file.Path;
 import java.util.List;
-import java.util.Locale;
-import java.util.concurrent.atomic.AtomicBoolean;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 import org.rungs.priors.Priors;
@@ -24,28 +22,15 @@ import org.rungs.priors.Priors;
  */
 class AttractionCalibrationTest {
 
-    private static CalibrationSummary run(CalibrationConfig config, Path dir) {
-        return Calibration.run(config, dir, Shard.ALL, 2, null, new AtomicBoolean());
-    }
-
-    private static String report(CalibrationSummary s) {
-        StringBuilder sb = new StringBuilder();
-        for (Verdict v : s.verdicts()) {
-            sb.append(String.format(Locale.ROOT, "%n%s chi2=%.1f p=%.3g dev=%.3f band=%s %s", v.parameter(),
-                    v.chiSquare().statistic(), v.chiSquare().p(), v.ecdfMaxDeviation(), v.bandExceeded(), v.word()));
-        }
-        return sb.toString();
-    }
-
     /** Scale 0..4, coarse points {0,2,4}, attraction on {1,3}, 3 groups of 60, 30 replications. */
     @Test
     void completeModelIsCalibrated(@TempDir Path dir) {
-        CalibrationSummary s = run(CalibrationConfig.attraction(20261202L, 30), dir);
+        CalibrationSummary s = SbcRuns.run(CalibrationConfig.attraction(20261202L, 30), dir);
         assertEquals(30, s.results().size());
         assertTrue(s.parameters().containsAll(List.of("attraction.1", "attraction.3", "attraction_sd",
                 "attraction.g1.1", "attraction.g2.3", "attraction.g3.1")), s.parameters().toString());
         assertEquals(44, s.verdicts().size(), "35 quantities of the coarse model and 9 attraction parameters");
-        assertTrue(s.failed().isEmpty(), report(s));
+        assertTrue(s.failed().isEmpty(), SbcRuns.report(s));
     }
 
     /**
@@ -59,7 +44,7 @@ class AttractionCalibrationTest {
     void aWrongAttractionPriorInTheFitIsFlagged(@TempDir Path dir) {
         CalibrationConfig right = CalibrationConfig.attraction(20261203L, 20).withSampler(2, 150, 150, 99);
         CalibrationConfig wrong = right.withFit(right.fit().withPriors(Priors.defaults().with("attraction_mean=normal(1.5,0.2)")));
-        CalibrationSummary s = run(wrong, dir);
-        assertTrue(s.failed().contains("attraction.1") && s.failed().contains("attraction.3"), report(s));
+        CalibrationSummary s = SbcRuns.run(wrong, dir);
+        assertTrue(s.failed().contains("attraction.1") && s.failed().contains("attraction.3"), SbcRuns.report(s));
     }
 }

@@ -5,7 +5,6 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.nio.file.Path;
 import java.util.List;
-import java.util.concurrent.atomic.AtomicBoolean;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 import org.rungs.models.ModelSpec;
@@ -25,43 +24,30 @@ import org.rungs.priors.Priors;
  */
 class CalibrationTest {
 
-    private static CalibrationSummary run(CalibrationConfig config, Path dir) {
-        return Calibration.run(config, dir, Shard.ALL, 2, null, new AtomicBoolean());
-    }
-
-    private static String report(CalibrationSummary s) {
-        StringBuilder sb = new StringBuilder();
-        for (Verdict v : s.verdicts()) {
-            sb.append(String.format(java.util.Locale.ROOT, "%n%s chi2=%.1f p=%.3g dev=%.3f band=%s %s", v.parameter(),
-                    v.chiSquare().statistic(), v.chiSquare().p(), v.ecdfMaxDeviation(), v.bandExceeded(), v.word()));
-        }
-        return sb.toString();
-    }
-
     /** Scale 0..4, 3 groups of 40, one covariate, by-group thresholds, 50 replications. */
     @Test
     void byGroupThresholdsAreCalibrated(@TempDir Path dir) {
-        CalibrationSummary s = run(CalibrationConfig.small(20240601L, 50), dir);
+        CalibrationSummary s = SbcRuns.run(CalibrationConfig.small(20240601L, 50), dir);
         assertEquals(50, s.results().size());
         assertEquals(26, s.verdicts().size(), "23 parameters and 3 intended means");
-        assertTrue(s.failed().isEmpty(), report(s));
+        assertTrue(s.failed().isEmpty(), SbcRuns.report(s));
     }
 
     @Test
     void sharedThresholdsAreCalibrated(@TempDir Path dir) {
         CalibrationConfig config = CalibrationConfig.small(20240602L, 40)
                 .withModel(new ModelSpec(ThresholdMode.SHARED, Priors.defaults()));
-        CalibrationSummary s = run(config, dir);
+        CalibrationSummary s = SbcRuns.run(config, dir);
         assertTrue(s.parameters().stream().noneMatch(p -> p.startsWith("threshold_sd") || p.startsWith("threshold.g")));
-        assertTrue(s.failed().isEmpty(), report(s));
+        assertTrue(s.failed().isEmpty(), SbcRuns.report(s));
     }
 
     @Test
     void oneGroupIsCalibrated(@TempDir Path dir) {
-        CalibrationSummary s = run(CalibrationConfig.small(20240603L, 40).withDesign(1, 120, 2), dir);
+        CalibrationSummary s = SbcRuns.run(CalibrationConfig.small(20240603L, 40).withDesign(1, 120, 2), dir);
         assertEquals(List.of("level.x1", "level.x2", "group_mean", "threshold.1", "threshold.2", "threshold.3",
                 "threshold.4", "intended_mean.g1"), s.parameters());
-        assertTrue(s.failed().isEmpty(), report(s));
+        assertTrue(s.failed().isEmpty(), SbcRuns.report(s));
     }
 
     /**
@@ -77,9 +63,9 @@ class CalibrationTest {
         CalibrationConfig right = CalibrationConfig.small(20240604L, 50);
         CalibrationConfig wrong = right.withFit(new ModelSpec(ThresholdMode.BY_GROUP,
                 Priors.defaults().with("level=normal(1.5,0.3)")));
-        CalibrationSummary s = run(wrong, dir);
-        assertTrue(s.failed().contains("level.x1"), report(s));
+        CalibrationSummary s = SbcRuns.run(wrong, dir);
+        assertTrue(s.failed().contains("level.x1"), SbcRuns.report(s));
         Verdict level = s.verdicts().get(s.parameters().indexOf("level.x1"));
-        assertTrue(level.chiSquare().p() < 1e-6 && level.bandExceeded(), report(s));
+        assertTrue(level.chiSquare().p() < 1e-6 && level.bandExceeded(), SbcRuns.report(s));
     }
 }

@@ -5,8 +5,6 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.nio.file.Path;
 import java.util.List;
-import java.util.Locale;
-import java.util.concurrent.atomic.AtomicBoolean;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 import org.rungs.models.ModelSpec;
@@ -26,19 +24,6 @@ import org.rungs.priors.Priors;
  */
 class CoarseCalibrationTest {
 
-    private static CalibrationSummary run(CalibrationConfig config, Path dir) {
-        return Calibration.run(config, dir, Shard.ALL, 2, null, new AtomicBoolean());
-    }
-
-    private static String report(CalibrationSummary s) {
-        StringBuilder sb = new StringBuilder();
-        for (Verdict v : s.verdicts()) {
-            sb.append(String.format(Locale.ROOT, "%n%s chi2=%.1f p=%.3g dev=%.3f band=%s %s", v.parameter(),
-                    v.chiSquare().statistic(), v.chiSquare().p(), v.ecdfMaxDeviation(), v.bandExceeded(), v.word()));
-        }
-        return sb.toString();
-    }
-
     /**
      * Scale 0..4, coarse points {0,2,4}, 3 groups of 60, one level and one style covariate, 40
      * replications. The style block mixes slowly (median bulk ESS near 30 of 600 draws for
@@ -46,13 +31,13 @@ class CoarseCalibrationTest {
      */
     @Test
     void coarseClassIsCalibrated(@TempDir Path dir) {
-        CalibrationSummary s = run(CalibrationConfig.coarse(20240611L, 40), dir);
+        CalibrationSummary s = SbcRuns.run(CalibrationConfig.coarse(20240611L, 40), dir);
         assertEquals(40, s.results().size());
         assertTrue(s.parameters().containsAll(List.of("style.w1", "style_mean", "style_sd", "style_group.g1",
                 "style_group.g2", "style_group.g3", "coarse_share.g1", "coarse_share.g2", "coarse_share.g3")),
                 s.parameters().toString());
         assertEquals(35, s.verdicts().size(), "23 ordered-probit parameters, 6 style parameters, 3 intended means, 3 coarse shares");
-        assertTrue(s.failed().isEmpty(), report(s));
+        assertTrue(s.failed().isEmpty(), SbcRuns.report(s));
     }
 
     /**
@@ -69,9 +54,9 @@ class CoarseCalibrationTest {
         CalibrationConfig right = CalibrationConfig.coarse(20240612L, 20).withSampler(2, 150, 150, 99);
         CalibrationConfig wrong = right.withFit(new ModelSpec(ThresholdMode.BY_GROUP,
                 Priors.defaults().with("style_mean=normal(1,0.3)"), StyleClasses.coarse(null)));
-        CalibrationSummary s = run(wrong, dir);
-        assertTrue(s.failed().contains("style_mean"), report(s));
+        CalibrationSummary s = SbcRuns.run(wrong, dir);
+        assertTrue(s.failed().contains("style_mean"), SbcRuns.report(s));
         Verdict mean = s.verdicts().get(s.parameters().indexOf("style_mean"));
-        assertTrue(mean.chiSquare().p() < 1e-6 && mean.bandExceeded(), report(s));
+        assertTrue(mean.chiSquare().p() < 1e-6 && mean.bandExceeded(), SbcRuns.report(s));
     }
 }
