@@ -6,11 +6,8 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.Map;
 import java.util.TreeMap;
-import java.util.concurrent.ExecutionException;
-import java.util.concurrent.ExecutorService;
-import java.util.concurrent.Executors;
-import java.util.concurrent.Future;
 import java.util.concurrent.atomic.AtomicBoolean;
+import org.rungs.validation.ReplicationPool;
 import org.rungs.validation.ReplicationProgress;
 
 /**
@@ -58,45 +55,15 @@ public final class Calibration {
         for (ReplicationResult r : already) {
             lines.earlier(r.nonConverged(), r.thinnedTooLittle());
         }
-        ExecutorService pool = Executors.newFixedThreadPool(threads, task -> {
-            Thread t = new Thread(task, "rungs-calibration");
-            t.setDaemon(true);
-            return t;
+        boolean complete = ReplicationPool.run(todo, threads, "rungs-calibration", stop, r -> {
+            ReplicationResult result = Replication.run(config, r, stop);
+            if (result == null) {
+                return false;
+            }
+            folder.write(result);
+            lines.finished(result.nonConverged(), result.thinnedTooLittle());
+            return true;
         });
-        boolean complete = true;
-        try {
-            List<Future<Boolean>> futures = new ArrayList<>();
-            for (int r : todo) {
-                futures.add(pool.submit(() -> {
-                    if (stop.get()) {
-                        return false;
-                    }
-                    ReplicationResult result = Replication.run(config, r, stop);
-                    if (result == null) {
-                        return false;
-                    }
-                    folder.write(result);
-                    lines.finished(result.nonConverged(), result.thinnedTooLittle());
-                    return true;
-                }));
-            }
-            for (Future<Boolean> f : futures) {
-                complete &= f.get();
-            }
-        } catch (InterruptedException e) {
-            Thread.currentThread().interrupt();
-            stop.set(true);
-            complete = false;
-        } catch (ExecutionException e) {
-            stop.set(true);
-            Throwable cause = e.getCause();
-            if (cause instanceof RuntimeException runtime) {
-                throw runtime;
-            }
-            throw new IllegalStateException(cause);
-        } finally {
-            pool.shutdownNow();
-        }
         return complete ? summarise(folder) : null;
     }
 

@@ -5,11 +5,8 @@ import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Map;
-import java.util.concurrent.ExecutionException;
-import java.util.concurrent.ExecutorService;
-import java.util.concurrent.Executors;
-import java.util.concurrent.Future;
 import java.util.concurrent.atomic.AtomicBoolean;
+import org.rungs.validation.ReplicationPool;
 import org.rungs.validation.ReplicationProgress;
 
 /**
@@ -58,45 +55,15 @@ public final class Recovery {
         }
         int fits = Math.max(1, Math.min(threads, todo.size()));
         int chainThreads = Math.max(1, threads / fits);
-        ExecutorService pool = Executors.newFixedThreadPool(fits, task -> {
-            Thread t = new Thread(task, "rungs-recovery");
-            t.setDaemon(true);
-            return t;
+        boolean complete = ReplicationPool.run(todo, fits, "rungs-recovery", stop, r -> {
+            ReplicationEstimates result = RecoveryReplication.run(config, r, chainThreads, stop);
+            if (result == null) {
+                return false;
+            }
+            folder.write(result);
+            lines.finished(result.nonConverged());
+            return true;
         });
-        boolean complete = true;
-        try {
-            List<Future<Boolean>> futures = new ArrayList<>();
-            for (int r : todo) {
-                futures.add(pool.submit(() -> {
-                    if (stop.get()) {
-                        return false;
-                    }
-                    ReplicationEstimates result = RecoveryReplication.run(config, r, chainThreads, stop);
-                    if (result == null) {
-                        return false;
-                    }
-                    folder.write(result);
-                    lines.finished(result.nonConverged());
-                    return true;
-                }));
-            }
-            for (Future<Boolean> f : futures) {
-                complete &= f.get();
-            }
-        } catch (InterruptedException e) {
-            Thread.currentThread().interrupt();
-            stop.set(true);
-            complete = false;
-        } catch (ExecutionException e) {
-            stop.set(true);
-            Throwable cause = e.getCause();
-            if (cause instanceof RuntimeException runtime) {
-                throw runtime;
-            }
-            throw new IllegalStateException(cause);
-        } finally {
-            pool.shutdownNow();
-        }
         if (!complete) {
             return null;
         }
