@@ -143,24 +143,18 @@ final class CalibrateCommand implements Callable<Integer> {
             System.err.println("rungs calibrate: " + e.getMessage());
             return Main.INPUT_ERROR;
         }
-        int t = threads != null ? threads : Runtime.getRuntime().availableProcessors();
-        try (Interruption interruption = new Interruption()) {
-            CalibrationSummary summary = Calibration.run(config, out, slice, Math.max(1, t), System.err, interruption.flag());
-            if (summary == null) {
-                System.err.println("rungs calibrate: stopped; finished replications are kept in " + out
-                        + "; rerun the same command to resume");
-                return Main.INTERRUPTED;
-            }
-            if (slice.count() > 1) {
-                System.out.println("Shard " + slice + " done in " + out + ". When every shard is done: ./rungs calibrate merge --out DIR "
-                        + "SHARD_FOLDERS...");
-                return 0;
-            }
-            return report(summary, out, System.out);
-        } catch (IllegalArgumentException | UncheckedIOException e) {
-            System.err.println("rungs calibrate: " + e.getMessage());
-            return Main.INPUT_ERROR;
-        }
+        CalibrationConfig study = config;
+        Shard part = slice;
+        return Runs.replications("calibrate", out, threads,
+                (t, stop) -> Calibration.run(study, out, part, t, System.err, stop),
+                summary -> {
+                    if (part.count() > 1) {
+                        System.out.println("Shard " + part + " done in " + out + ". When every shard is done: ./rungs calibrate merge "
+                                + "--out DIR SHARD_FOLDERS...");
+                        return 0;
+                    }
+                    return report(summary, out, System.out);
+                });
     }
 
     /** The style classes named on the command line; coarse points only with the coarse class. */

@@ -1,7 +1,6 @@
 package org.rungs.cli;
 
 import java.io.PrintStream;
-import java.io.UncheckedIOException;
 import java.nio.file.Path;
 import java.util.Locale;
 import java.util.concurrent.Callable;
@@ -91,20 +90,13 @@ final class RecoverCommand implements Callable<Integer> {
             System.err.println("rungs recover: " + e.getMessage());
             return Main.INPUT_ERROR;
         }
-        int t = threads != null ? threads : Runtime.getRuntime().availableProcessors();
-        try (Interruption interruption = new Interruption()) {
-            RecoverySummary summary = Recovery.run(config, out, overwrite, Math.max(1, t), System.err, interruption.flag());
-            if (summary == null) {
-                System.err.println("rungs recover: stopped; finished replications are kept in " + out
-                        + "; rerun the same command to resume");
-                return Main.INTERRUPTED;
-            }
-            print(config, summary, out, System.out);
-            return 0;
-        } catch (IllegalArgumentException | UncheckedIOException e) {
-            System.err.println("rungs recover: " + e.getMessage());
-            return Main.INPUT_ERROR;
-        }
+        RecoveryConfig study = config;
+        return Runs.replications("recover", out, threads,
+                (t, stop) -> Recovery.run(study, out, overwrite, t, System.err, stop),
+                summary -> {
+                    print(study, summary, out, System.out);
+                    return 0;
+                });
     }
 
     private static void print(RecoveryConfig config, RecoverySummary summary, Path out, PrintStream print) {

@@ -1,6 +1,10 @@
 package org.rungs.cli;
 
 import java.io.UncheckedIOException;
+import java.nio.file.Path;
+import java.util.concurrent.atomic.AtomicBoolean;
+import java.util.function.BiFunction;
+import java.util.function.ToIntFunction;
 import org.rungs.models.survey.SurveyInputException;
 import org.rungs.sampler.run.CheckpointPolicy;
 import org.rungs.sampler.run.FitJob;
@@ -34,11 +38,33 @@ final class Runs {
     }
 
     /** Writes report.html beside the fit's files and says where it is. */
-    static void writeReport(java.nio.file.Path dir) {
+    static void writeReport(Path dir) {
         try {
             System.err.println("rungs: report written to " + org.rungs.posteriors.report.Report.write(dir));
         } catch (java.io.IOException e) {
             throw new UncheckedIOException("could not write the report in " + dir + ": " + e.getMessage(), e);
+        }
+    }
+
+    /**
+     * Runs a study of replications (calibrate, recover) on {@code threads} threads (all cores
+     * when null) with Ctrl-C handling: {@code run} returns null when stopped, which is exit 130
+     * with a sentence saying how to resume; otherwise {@code done} gives the exit code.
+     */
+    static <S> int replications(String command, Path out, Integer threads, BiFunction<Integer, AtomicBoolean, S> run,
+                                ToIntFunction<S> done) {
+        int t = Math.max(1, threads != null ? threads : Runtime.getRuntime().availableProcessors());
+        try (Interruption interruption = new Interruption()) {
+            S summary = run.apply(t, interruption.flag());
+            if (summary == null) {
+                System.err.println("rungs " + command + ": stopped; finished replications are kept in " + out
+                        + "; rerun the same command to resume");
+                return Main.INTERRUPTED;
+            }
+            return done.applyAsInt(summary);
+        } catch (IllegalArgumentException | UncheckedIOException e) {
+            System.err.println("rungs " + command + ": " + e.getMessage());
+            return Main.INPUT_ERROR;
         }
     }
 }
