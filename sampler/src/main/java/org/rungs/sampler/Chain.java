@@ -17,16 +17,19 @@ import org.rungs.priors.Priors;
 import org.rungs.posteriors.Draws;
 
 /**
- * One Markov chain: its state and the cycle of updates of one sweep, in the order thresholds,
- * threshold hyperparameters, style classes (when on), number attraction (when on), latent
- * levels, level coefficients and group levels, their pooling, then the coarse class's
- * coefficients and pooling.
+ * One Markov chain: its state and the cycle of updates of one sweep, in the order collapsed
+ * threshold steps (coarse class or attraction on), threshold hyperparameters, style classes
+ * (when on), number attraction (when on), latent levels, threshold rescaling steps, level
+ * coefficients and group levels, their pooling, then the coarse class's coefficients and pooling.
  *
- * <p>The thresholds and the classes' intercepts are drawn with the classes, the latent levels and
- * the rejected draws of the attraction scheme integrated out; then the classes, then the
- * attraction given the classes, then the latent levels and rejected draws given both. Each quantity integrated out is redrawn before
- * any later step conditions on it, so the cycle leaves the posterior invariant (van Dyk & Park
- * 2008, Partially collapsed Gibbs samplers, JASA 103, section 3).
+ * <p>The collapsed threshold steps and the classes' intercepts are drawn with the classes, the
+ * latent levels and the rejected draws of the attraction scheme integrated out; then the classes,
+ * then the attraction given the classes, then the latent levels and rejected draws given both.
+ * Each quantity integrated out is redrawn before any later step conditions on it, so the cycle
+ * leaves the posterior invariant (van Dyk & Park 2008, Partially collapsed Gibbs samplers, JASA
+ * 103, section 3). The rescaling steps then move every threshold with the latent values
+ * (Liu & Sabatti 2000), at a cost independent of the number of respondents; in the plain model
+ * they are the only threshold steps.
  *
  * <p>Its future depends only on its state, the state of its updates and its random stream, which
  * together make its checkpoint: restoring them continues the chain bit for bit.
@@ -34,10 +37,10 @@ import org.rungs.posteriors.Draws;
 final class Chain implements Checkpointed {
     private final ChainState state;
     private final List<Update> sweep;
-    private final ThresholdUpdate thresholdUpdate;
+    private final ThresholdMoves thresholdUpdate;
     private final RestorableUniformRandomProvider rng;
 
-    private Chain(ChainState state, List<Update> sweep, ThresholdUpdate thresholdUpdate, RestorableUniformRandomProvider rng) {
+    private Chain(ChainState state, List<Update> sweep, ThresholdMoves thresholdUpdate, RestorableUniformRandomProvider rng) {
         this.state = state;
         this.sweep = sweep;
         this.thresholdUpdate = thresholdUpdate;
@@ -55,9 +58,12 @@ final class Chain implements Checkpointed {
         int[] attracted = java.util.Arrays.stream(spec.attraction().resolve(scale, classes)).map(r -> r - lowest).toArray();
         ChainState state = new ChainState(order, byGroup, channel, attracted);
         InitialValues.apply(state, priors.styleMean().mean(), rng);
-        ThresholdUpdate thresholds = ThresholdUpdate.of(state, order.start(), priors, rng);
         List<Update> sweep = new ArrayList<>();
-        sweep.add(thresholds);
+        if (state.attractionOn()) {
+            sweep.add(ThresholdUpdate.of(state, order.start(), priors, rng));
+        } else if (channel != null) {
+            sweep.add(ThresholdUpdate.ends(state, order.start(), priors, rng));
+        }
         if (state.byGroup) {
             sweep.add(CommonThresholdUpdate.of(state, priors, rng));
             sweep.add(ThresholdSpreadUpdate.of(state, priors, rng));
@@ -69,6 +75,8 @@ final class Chain implements Checkpointed {
             sweep.add(AttractionUpdate.of(state, priors, rng));
         }
         sweep.add(LatentLevelUpdate.of(state, rng));
+        ThresholdRescaleUpdate thresholds = ThresholdRescaleUpdate.of(state, order.start(), priors, rng);
+        sweep.add(thresholds);
         sweep.add(RegressionUpdate.of(state.level, priors.level(), priors.groupMean(), rng));
         if (state.groups > 1) {
             sweep.add(PoolingUpdate.of(state.level, priors.groupMean(), priors.groupSd(), rng));
@@ -154,6 +162,7 @@ final class Chain implements Checkpointed {
         }
     }
 
+    /** Acceptance of the rescaling steps, made in every mode. */
     double thresholdAcceptance() {
         return thresholdUpdate.acceptanceRate();
     }

@@ -26,6 +26,8 @@ final class ChainState implements Checkpointed {
 
     /** The latent level's regression: alpha[g], beta, mu_alpha, tau_alpha (MODEL.md 2). */
     final RegressionBlock level;
+    /** This sweep's latent levels summed by (group, category) cell; see {@link LatentCells}. */
+    final LatentCells cells;
     /** The coarse class's probit regression: gamma[g], delta, mu_gamma, tau_gamma (MODEL.md 4); null when off. */
     final RegressionBlock style;
     /** The rounding of coarse responders (MODEL.md 4a); null when the class is off. */
@@ -74,6 +76,7 @@ final class ChainState implements Checkpointed {
         this.categories = survey.scale().categories();
         this.byGroup = byGroup && groups > 1;
         this.level = new RegressionBlock(survey.level(), group, groups);
+        this.cells = new LatentCells(groups * categories, level.count);
         this.channel = channel;
         this.style = channel == null ? null : new RegressionBlock(survey.style(), group, groups);
         this.coarse = channel == null ? null : new byte[size];

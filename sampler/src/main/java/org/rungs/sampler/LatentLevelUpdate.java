@@ -1,6 +1,5 @@
 package org.rungs.sampler;
 
-import java.util.Arrays;
 import org.apache.commons.rng.UniformRandomProvider;
 import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
 import org.rungs.models.RoundingChannel;
@@ -12,8 +11,8 @@ import org.rungs.priors.StandardNormal;
  * reported category for a full-scale responder; for a coarse responder (MODEL.md 4a) the intended
  * category and the level are drawn together, from the run of categories that round to the
  * reported point, each half-weighted tie category being a separate piece. Only the sufficient
- * statistics of the conjugate level update are kept: the latent sum per group and the
- * cross-products with each covariate; the latent values themselves are not stored.
+ * statistics of the conjugate level update and the threshold rescaling are kept, by cell
+ * ({@link LatentCells}); the latent values themselves are not stored.
  *
  * <p>Under number attraction (MODEL.md 4b) a full-scale answer is the first accepted draw of a
  * redraw scheme: draw y ~ Normal(eta, 1), accept its category k with probability
@@ -52,16 +51,13 @@ final class LatentLevelUpdate implements Update {
     public void update(boolean adapt) {
         ChainState s = state;
         RegressionBlock level = s.level;
-        double[] sums = level.latentSum;
-        double[] cross = level.latentCross;
-        Arrays.fill(sums, 0);
-        Arrays.fill(cross, 0);
+        LatentCells cells = s.cells;
+        cells.clear();
         double[] thresholds = s.thresholds;
         byte[] category = s.category;
         byte[] coarse = s.coarse;
         int[] group = s.group;
         double[][] columns = level.columns;
-        int p = level.count;
         int stride = s.categories + 1;
         int m = s.categories;
         boolean attraction = s.attractionOn();
@@ -88,11 +84,10 @@ final class LatentLevelUpdate implements Update {
                 redraw(i, g, eta);
             }
             double latent = eta + truncatedNormal.sample(lower - eta, upper - eta);
-            sums[g] += latent;
-            for (int j = 0; j < p; j++) {
-                cross[j] += columns[j][i] * latent;
-            }
+            int cell = coarse != null && coarse[i] == 1 ? categoryOf(thresholds, g * stride, m, latent) : category[i];
+            cells.add(g * m + cell, columns, i, latent);
         }
+        cells.finish(level, m);
     }
 
     /** The rejected draws of full-scale respondent i: the redraw scheme run to its first acceptance. */
@@ -107,10 +102,7 @@ final class LatentLevelUpdate implements Update {
             if (rng.nextDouble() < acceptance[g * m + k]) {
                 return;
             }
-            level.latentSum[g] += y;
-            for (int j = 0; j < level.count; j++) {
-                level.latentCross[j] += level.columns[j][i] * y;
-            }
+            s.cells.add(g * m + k, level.columns, i, y);
             level.addExtra(i, g);
         }
     }

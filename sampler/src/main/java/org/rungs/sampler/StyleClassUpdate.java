@@ -37,12 +37,28 @@ final class StyleClassUpdate implements Update, Checkpointed {
     private final Normal meanPrior;
     private final Normal coefficientPrior;
     private final double[] logScale;
+    /** Per respondent reporting a coarse point: P(r | full), P(r | coarse), and the log mixture now and as proposed. */
     private final double[] full;
     private final double[] coarse;
+    private final double[] logMixture;
+    private final double[] proposedLog;
+    /** Per respondent: gamma[g] + w' delta (kept current for coarse-point reporters only). */
     private final double[] linear;
     private final double[] coefficientStep;
     /** exp(a[g,k]) - 1 by group and position (attraction on). */
     private final double[] excess;
+    /**
+     * The respondents whose rating is not a coarse point (always full-scale): their number and
+     * covariate sums per group and their covariate cross-products, fixed by the data; and the
+     * sums of their probit residuals e = latent - linear predictor, drawn at the start of a sweep.
+     */
+    private final int[] fixedCount;
+    private final double[][] fixedCovariate;
+    private final double[][] fixedGram;
+    private final double[] residualSum;
+    private final double[] residualCross;
+    /** Positions of the coarse points. */
+    private final int[] points;
     private double coefficientLogScale;
     private int warmupStep;
 
@@ -53,16 +69,40 @@ final class StyleClassUpdate implements Update, Checkpointed {
         this.normal = ZigguratSampler.NormalizedGaussian.of(rng);
         this.meanPrior = priors.styleMean();
         this.coefficientPrior = priors.style();
-        this.logScale = new double[state.groups];
         int m = state.categories;
+        int p = state.style.count;
+        this.logScale = new double[state.groups];
+        this.fixedCount = new int[state.groups];
+        this.fixedCovariate = new double[state.groups][p];
+        this.fixedGram = new double[p][p];
         for (int g = 0; g < state.groups; g++) {
             int size = state.start[(g + 1) * m] - state.start[g * m];
             logScale[g] = Math.log(2.0 / Math.sqrt(1.0 + size));
+            for (int k = 0; k < m; k++) {
+                if (state.channel.isPoint(k)) {
+                    continue;
+                }
+                for (int i = state.start[g * m + k]; i < state.start[g * m + k + 1]; i++) {
+                    fixedCount[g]++;
+                    for (int j = 0; j < p; j++) {
+                        double xj = state.style.columns[j][i];
+                        fixedCovariate[g][j] += xj;
+                        for (int l = 0; l < p; l++) {
+                            fixedGram[j][l] += xj * state.style.columns[l][i];
+                        }
+                    }
+                }
+            }
         }
+        this.residualSum = new double[state.groups];
+        this.residualCross = new double[p];
         this.full = new double[state.size];
         this.coarse = new double[state.size];
+        this.logMixture = new double[state.size];
+        this.proposedLog = new double[state.size];
         this.linear = new double[state.size];
-        this.coefficientStep = new double[state.style.count];
+        this.coefficientStep = new double[p];
+        this.points = state.channel.points();
         this.excess = new double[state.attractionOn() ? state.groups * m : 0];
         this.coefficientLogScale = Math.log(1.0 / Math.sqrt(1.0 + state.size));
     }
@@ -75,31 +115,33 @@ final class StyleClassUpdate implements Update, Checkpointed {
     public void update(boolean adapt) {
         ChainState s = state;
         RegressionBlock style = s.style;
-        Arrays.fill(style.latentSum, 0);
-        Arrays.fill(style.latentCross, 0);
-        int m = s.categories;
+        Arrays.fill(residualCross, 0);
         for (int g = 0; g < s.groups; g++) {
-            int from = s.start[g * m];
-            int to = s.start[(g + 1) * m];
-            prepare(g, from, to);
-            moveIntercept(g, from, to, adapt);
+            prepare(g);
+            moveIntercept(g, adapt);
         }
         if (style.count > 0) {
             moveCoefficients(adapt);
         }
+        Arrays.fill(style.latentSum, 0);
+        Arrays.fill(style.latentCross, 0);
         for (int g = 0; g < s.groups; g++) {
-            drawClasses(g, s.start[g * m], s.start[(g + 1) * m]);
+            drawClasses(g);
         }
+        addFixedRespondents();
         if (adapt) {
             warmupStep++;
         }
     }
 
     /**
-     * Caches each respondent's P(r | full) (with attraction, MODEL.md 4b, from the threshold
-     * update's N_i, still current), P(r | coarse) and style linear predictor.
+     * For each respondent of group g: the style linear predictor; for a coarse-point reporter
+     * P(r | full) (with attraction, MODEL.md 4b, from the threshold update's N_i, still current),
+     * P(r | coarse) and the log of their mixture; for any other respondent, who is full-scale for
+     * sure, the probit latent from its normal truncated below zero (Albert & Chib 1993, section
+     * 3), of which only the residual sums are kept.
      */
-    private void prepare(int g, int from, int to) {
+    private void prepare(int g) {
         ChainState s = state;
         int m = s.categories;
         if (s.attractionOn()) {
@@ -108,37 +150,51 @@ final class StyleClassUpdate implements Update, Checkpointed {
             }
         }
         RoundingChannel channel = s.channel;
-        int row = g * (s.categories + 1);
-        for (int i = from; i < to; i++) {
-            int r = s.category[i];
-            int at = i;
-            linear[at] = s.style.linear(i, g);
-            if (channel.isPoint(r)) {
-                double eta = s.eta(i);
-                full[at] = ResponseLikelihood.full(s.thresholds, row, r, eta, -1, 0);
-                if (s.attractionOn()) {
-                    full[at] *= (excess[g * m + r] + 1) / s.normaliser[i];
+        RegressionBlock style = s.style;
+        int p = style.count;
+        int row = g * (m + 1);
+        double sum = 0;
+        for (int r = 0; r < m; r++) {
+            boolean point = channel.isPoint(r);
+            for (int i = s.start[g * m + r], end = s.start[g * m + r + 1]; i < end; i++) {
+                double lin = style.linear(i, g);
+                if (point) {
+                    linear[i] = lin;
+                    double eta = s.eta(i);
+                    full[i] = ResponseLikelihood.full(s.thresholds, row, r, eta, -1, 0);
+                    if (s.attractionOn()) {
+                        full[i] *= (excess[g * m + r] + 1) / s.normaliser[i];
+                    }
+                    coarse[i] = ResponseLikelihood.coarse(channel, s.thresholds, row, r, eta, -1, 0);
+                    logMixture[i] = logMixture(i, lin);
+                } else {
+                    double e = truncatedNormal.sample(Double.NEGATIVE_INFINITY, -lin);
+                    sum += e;
+                    for (int j = 0; j < p; j++) {
+                        residualCross[j] += style.columns[j][i] * e;
+                    }
                 }
-                coarse[at] = ResponseLikelihood.coarse(channel, s.thresholds, row, r, eta, -1, 0);
-            } else {
-                full[at] = Double.NaN;
             }
         }
+        residualSum[g] = sum;
     }
 
-    private void moveIntercept(int g, int from, int to, boolean adapt) {
+    /**
+     * Moves gamma[g] by a random-walk step with the classes of the coarse-point reporters summed
+     * out (MODEL.md 4c) and the probit latents of the others held: their log density changes by
+     * step * sum(e) - n step^2 / 2.
+     */
+    private void moveIntercept(int g, boolean adapt) {
         ChainState s = state;
         RegressionBlock style = s.style;
+        int m = s.categories;
         double step = Math.exp(logScale[g]) * normal.sample();
-        double change = 0;
-        for (int i = from; i < to; i++) {
-            int at = i;
-            double before = linear[at];
-            double after = before + step;
-            if (Double.isNaN(full[at])) {
-                change += StandardNormal.logUpperTail(after) - StandardNormal.logUpperTail(before);
-            } else {
-                change += logMixture(at, after) - logMixture(at, before);
+        double change = step * residualSum[g] - 0.5 * fixedCount[g] * step * step;
+        for (int r : points) {
+            for (int i = s.start[g * m + r], end = s.start[g * m + r + 1]; i < end; i++) {
+                double after = logMixture(i, linear[i] + step);
+                proposedLog[i] = after;
+                change += after - logMixture[i];
             }
         }
         double intercept = style.intercept[g];
@@ -156,8 +212,15 @@ final class StyleClassUpdate implements Update, Checkpointed {
             if (s.groups == 1) {
                 style.mean = style.intercept[g];
             }
-            for (int i = from; i < to; i++) {
-                linear[i] += step;
+            for (int r : points) {
+                for (int i = s.start[g * m + r], end = s.start[g * m + r + 1]; i < end; i++) {
+                    linear[i] += step;
+                    logMixture[i] = proposedLog[i];
+                }
+            }
+            residualSum[g] -= fixedCount[g] * step;
+            for (int j = 0; j < style.count; j++) {
+                residualCross[j] -= step * fixedCovariate[g][j];
             }
         }
         if (adapt) {
@@ -166,49 +229,78 @@ final class StyleClassUpdate implements Update, Checkpointed {
     }
 
     /**
-     * A random-walk move of all coarse-class coefficients delta together, with the classes summed
-     * out as in {@link #moveIntercept}: the class indicators otherwise tie delta to the current
-     * classification. Every respondent's likelihood changes; the step scale adapts in warm-up.
+     * A random-walk move of all coarse-class coefficients delta together, as in
+     * {@link #moveIntercept}: the class indicators otherwise tie delta to the current
+     * classification. The held residuals change their log density by d' sum(e w) - d' W'W d / 2.
      */
     private void moveCoefficients(boolean adapt) {
         ChainState s = state;
         RegressionBlock style = s.style;
+        int p = style.count;
+        int m = s.categories;
         double scale = Math.exp(coefficientLogScale);
-        for (int j = 0; j < style.count; j++) {
+        for (int j = 0; j < p; j++) {
             coefficientStep[j] = scale * normal.sample();
         }
         double change = 0;
-        for (int i = 0; i < s.size; i++) {
-            double before = linear[i];
-            double after = before;
-            for (int j = 0; j < style.count; j++) {
-                after += style.columns[j][i] * coefficientStep[j];
+        for (int j = 0; j < p; j++) {
+            double d = coefficientStep[j];
+            change += d * residualCross[j];
+            for (int l = 0; l < p; l++) {
+                change -= 0.5 * d * fixedGram[j][l] * coefficientStep[l];
             }
-            if (Double.isNaN(full[i])) {
-                change += StandardNormal.logUpperTail(after) - StandardNormal.logUpperTail(before);
-            } else {
-                change += logMixture(i, after) - logMixture(i, before);
+        }
+        for (int g = 0; g < s.groups; g++) {
+            for (int r : points) {
+                for (int i = s.start[g * m + r], end = s.start[g * m + r + 1]; i < end; i++) {
+                    double after = logMixture(i, linear[i] + movedBy(i));
+                    proposedLog[i] = after;
+                    change += after - logMixture[i];
+                }
             }
         }
         double prior = 0;
-        for (int j = 0; j < style.count; j++) {
+        for (int j = 0; j < p; j++) {
             prior += coefficientPrior.logDensity(style.coefficient[j] + coefficientStep[j])
                     - coefficientPrior.logDensity(style.coefficient[j]);
         }
         boolean accept = Math.log(rng.nextDouble()) < change + prior;
         if (accept) {
-            for (int j = 0; j < style.count; j++) {
+            for (int j = 0; j < p; j++) {
                 style.coefficient[j] += coefficientStep[j];
             }
-            for (int i = 0; i < s.size; i++) {
-                for (int j = 0; j < style.count; j++) {
-                    linear[i] += style.columns[j][i] * coefficientStep[j];
+            for (int g = 0; g < s.groups; g++) {
+                for (int r : points) {
+                    for (int i = s.start[g * m + r], end = s.start[g * m + r + 1]; i < end; i++) {
+                        linear[i] += movedBy(i);
+                        logMixture[i] = proposedLog[i];
+                    }
+                }
+                double shift = 0;
+                for (int j = 0; j < p; j++) {
+                    shift += fixedCovariate[g][j] * coefficientStep[j];
+                }
+                residualSum[g] -= shift;
+            }
+            for (int j = 0; j < p; j++) {
+                for (int l = 0; l < p; l++) {
+                    residualCross[j] -= fixedGram[j][l] * coefficientStep[l];
                 }
             }
         }
         if (adapt) {
             coefficientLogScale += Math.pow(warmupStep + 1.0, -0.6) * ((accept ? 1 : 0) - TARGET_ACCEPTANCE);
         }
+    }
+
+    /** w_i' d for the pending coefficient step d. */
+    private double movedBy(int i) {
+        RegressionBlock style = state.style;
+        double moved = 0;
+        for (int j = 0; j < style.count; j++) {
+            moved += style.columns[j][i] * coefficientStep[j];
+        }
+        return moved;
     }
 
     /** log((1 - q) P(r | full) + q P(r | coarse)) with q = Phi(linear). */
@@ -222,35 +314,64 @@ final class StyleClassUpdate implements Update, Checkpointed {
                 StandardNormal.logCdf(linearPredictor) + Math.log(coarse[at]));
     }
 
-    private void drawClasses(int g, int from, int to) {
+    /** The class and probit latent of each coarse-point reporter of group g, added to the sums. */
+    private void drawClasses(int g) {
         ChainState s = state;
         RegressionBlock style = s.style;
-        for (int i = from; i < to; i++) {
-            int at = i;
-            double mean = linear[at];
-            byte z = 0;
-            if (!Double.isNaN(full[at])) {
+        int m = s.categories;
+        for (int k = 0; k < m; k++) {
+            boolean point = s.channel.isPoint(k);
+            for (int i = s.start[g * m + k], end = s.start[g * m + k + 1]; i < end; i++) {
+                if (!point) {
+                    s.coarse[i] = 0;
+                    continue;
+                }
+                double mean = linear[i];
                 double q = StandardNormal.cdf(mean);
-                double pf = (1 - q) * full[at];
-                double pc = q * coarse[at];
+                double pf = (1 - q) * full[i];
+                double pc = q * coarse[i];
                 double share;
                 if (pf + pc > 1e-280) {
                     share = pc / (pf + pc);
                 } else {
-                    double logFull = StandardNormal.logUpperTail(mean) + Math.log(full[at]);
-                    double logCoarse = StandardNormal.logCdf(mean) + Math.log(coarse[at]);
+                    double logFull = StandardNormal.logUpperTail(mean) + Math.log(full[i]);
+                    double logCoarse = StandardNormal.logCdf(mean) + Math.log(coarse[i]);
                     share = 1 / (1 + Math.exp(logFull - logCoarse));
                 }
-                z = rng.nextDouble() < share ? (byte) 1 : (byte) 0;
+                byte z = rng.nextDouble() < share ? (byte) 1 : (byte) 0;
+                s.coarse[i] = z;
+                double latent = mean + (z == 1
+                        ? truncatedNormal.sample(-mean, Double.POSITIVE_INFINITY)
+                        : truncatedNormal.sample(Double.NEGATIVE_INFINITY, -mean));
+                style.latentSum[g] += latent;
+                for (int j = 0; j < style.count; j++) {
+                    style.latentCross[j] += style.columns[j][i] * latent;
+                }
             }
-            s.coarse[i] = z;
-            double latent = mean + (z == 1
-                    ? truncatedNormal.sample(-mean, Double.POSITIVE_INFINITY)
-                    : truncatedNormal.sample(Double.NEGATIVE_INFINITY, -mean));
-            style.latentSum[g] += latent;
-            for (int j = 0; j < style.count; j++) {
-                style.latentCross[j] += style.columns[j][i] * latent;
+        }
+    }
+
+    /**
+     * Adds the probit latents of the respondents who are full-scale for sure: latent = linear +
+     * e, and the linear predictors' sums follow from the fixed covariate sums.
+     */
+    private void addFixedRespondents() {
+        RegressionBlock style = state.style;
+        int p = style.count;
+        for (int g = 0; g < state.groups; g++) {
+            double linearSum = fixedCount[g] * style.intercept[g];
+            for (int j = 0; j < p; j++) {
+                linearSum += fixedCovariate[g][j] * style.coefficient[j];
+                style.latentCross[j] += fixedCovariate[g][j] * style.intercept[g];
             }
+            style.latentSum[g] += linearSum + residualSum[g];
+        }
+        for (int j = 0; j < p; j++) {
+            double cross = residualCross[j];
+            for (int l = 0; l < p; l++) {
+                cross += fixedGram[j][l] * style.coefficient[l];
+            }
+            style.latentCross[j] += cross;
         }
     }
 

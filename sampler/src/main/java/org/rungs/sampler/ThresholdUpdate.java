@@ -1,13 +1,8 @@
 package org.rungs.sampler;
 
-import java.io.DataInput;
-import java.io.DataOutput;
-import java.io.IOException;
 import org.apache.commons.rng.UniformRandomProvider;
-import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
 import org.rungs.models.ResponseLikelihood;
 import org.rungs.models.RoundingChannel;
-import org.rungs.priors.Normal;
 import org.rungs.priors.Priors;
 import org.rungs.priors.StandardNormal;
 
@@ -17,30 +12,14 @@ import org.rungs.priors.StandardNormal;
  * (MODEL.md 4c), one threshold at a time, so that the acceptance rate does not fall as the sample
  * grows and each step reads only the respondents of the two categories the threshold separates.
  *
- * <p>The step moves the cut-point gamma[k] = c[k] - level of one block (a group's thresholds in
- * by-group mode; the common thresholds in shared mode) by delta: c[k] gains delta, then every
- * threshold of the block and its level lose delta/(M-1), which keeps the thresholds summing to
- * zero (MODEL.md 3) and leaves every other c[j] - level unchanged. The level is alpha[g] in
- * by-group mode; in shared mode mu_alpha and every alpha[g] move together. The map from
- * (gamma) to (level, thresholds) is linear, so the random-walk proposal stays symmetric and
- * needs no Jacobian. Moving the level with the threshold follows the ridge along which the
- * data pin c[g,k] - alpha[g] far more tightly than either part.
- *
- * <p>In by-group mode a last block moves the common threshold c[k] and every group's c[g,k]
- * together (deviations d unchanged), with mu_alpha and every alpha[g]: without it, c and the
- * c[g] can only follow each other through the prior, which is slow where a category has few
- * answers and the prior holds c[g,k] close to c[k]. The two end thresholds are moved on the log
- * of their gap to the neighbour instead: an end category with few answers leaves that gap
- * uncertain over orders of magnitude, where an additive step crawls. Each step's scale adapts
- * during warm-up only (Roberts & Rosenthal 2009, section 3) towards acceptance 0.44.
+ * <p>The steps and their proposals are those of {@link ThresholdMoves}.
  *
  * <p>Under number attraction (MODEL.md 4b) the full-scale probability pi[g,r] exp(a[g,r]) / N_i
  * has a normaliser N_i that depends on every threshold, so a step reads every respondent of the
  * block: the normal cdf at the moved threshold is cached per respondent ({@link ChainState#cdf}),
  * so a step costs one normal-function call per respondent; one pass is made per sweep.
  */
-final class ThresholdUpdate implements Update, Checkpointed {
-    private static final double TARGET_ACCEPTANCE = 0.44;
+final class ThresholdUpdate extends ThresholdMoves {
     /**
      * Passes over the thresholds per sweep: neighbouring cut-points are correlated, so one pass of
      * single-threshold steps leaves them the slowest-mixing parameters; a second pass costs less
@@ -50,16 +29,6 @@ final class ThresholdUpdate implements Update, Checkpointed {
     /** Bounds of the running product of likelihood ratios before its log is taken. */
     private static final double PRODUCT_LOW = 1e-150;
     private static final double PRODUCT_HIGH = 1e150;
-    private final ChainState state;
-    private final int[] start;
-    private final UniformRandomProvider rng;
-    private final ZigguratSampler.NormalizedGaussian normal;
-    private final double commonPriorPrecision;
-    private final Normal groupMeanPrior;
-    private final int blocks;
-    private final int stride;
-    private final int cuts;
-    private final double[] logScale;
     /**
      * For each threshold k, the reported categories whose likelihood depends on it: k-1 and k,
      * and the coarse points whose coarse-class probability has k as an outer boundary.
@@ -70,8 +39,12 @@ final class ThresholdUpdate implements Update, Checkpointed {
     /** Per respondent: the smaller normal tail at the lower and at the upper bound of its category. */
     final double[] lowerTail;
     final double[] upperTail;
-    /** Per respondent: the tail at the moved bound under the pending proposal, kept if it is accepted. */
+    /**
+     * Per respondent: the tail at the moved bound under the pending proposal, kept if it is
+     * accepted; for a coarse-point reporter, P(r | full) and P(r | coarse) as proposed.
+     */
     private final double[] proposedTail;
+    private final double[] proposedCoarse;
     /**
      * Per respondent reporting a coarse point (coarse class on): q, P(r | full) and
      * P(r | coarse) at the current state, so a step recomputes only the part it changes.
@@ -83,25 +56,19 @@ final class ThresholdUpdate implements Update, Checkpointed {
     private final double[] excess;
     private final double[] proposedCdf;
     private final double[] proposedNormaliser;
-    private long accepted;
-    private long tried;
-    private int warmupStep;
+    /** Whether only the two end thresholds are stepped (see {@link #ends}). */
+    private final boolean endsOnly;
+    /** Categories whose respondents the stepped thresholds read, so the caches hold them. */
+    private final boolean[] read;
 
-    private ThresholdUpdate(ChainState state, int[] start, Priors priors, UniformRandomProvider rng) {
-        this.state = state;
-        this.start = start;
-        this.rng = rng;
-        this.normal = ZigguratSampler.NormalizedGaussian.of(rng);
-        this.commonPriorPrecision = priors.threshold().precision();
-        this.groupMeanPrior = priors.groupMean();
-        this.blocks = state.byGroup ? state.groups + 1 : 1;
-        this.stride = state.categories + 1;
-        this.cuts = state.categories - 1;
-        this.logScale = new double[blocks * cuts];
+    private ThresholdUpdate(ChainState state, int[] start, Priors priors, UniformRandomProvider rng, boolean endsOnly) {
+        super(state, start, priors, rng);
+        this.endsOnly = endsOnly;
         this.covariatePart = new double[state.size];
         this.lowerTail = new double[state.size];
         this.upperTail = new double[state.size];
         this.proposedTail = new double[state.size];
+        this.proposedCoarse = new double[state.channel == null ? 0 : state.size];
         int mixtureSize = state.channel == null ? 0 : state.size;
         this.mixtureQ = new double[mixtureSize];
         this.mixtureFull = new double[mixtureSize];
@@ -117,49 +84,41 @@ final class ThresholdUpdate implements Update, Checkpointed {
                     .filter(j -> j == kk - 1 || j == kk || (state.channel != null && state.channel.dependsOn(j, kk)))
                     .toArray();
         }
-        int m = state.categories;
-        for (int b = 0; b < blocks; b++) {
-            for (int k = 1; k <= cuts; k++) {
-                long near = 0;
-                for (int g = firstGroup(b); g <= lastGroup(b); g++) {
-                    near += start[g * m + k + 1] - start[g * m + k - 1];
+        this.read = new boolean[state.categories];
+        for (int k = 1; k <= cuts; k++) {
+            if (moves(k)) {
+                for (int j : visited[k]) {
+                    read[j] = true;
                 }
-                logScale[b * cuts + k - 1] = Math.log(2.0 / Math.sqrt(1.0 + near));
             }
         }
     }
 
+    /** Steps every threshold. */
     static ThresholdUpdate of(ChainState state, int[] start, Priors priors, UniformRandomProvider rng) {
-        return new ThresholdUpdate(state, start, priors, rng);
+        return new ThresholdUpdate(state, start, priors, rng, false);
     }
 
-    /** The common block: the only block in shared mode, the last one in by-group mode. */
-    private boolean isCommon(int block) {
-        return block == blocks - 1;
+    /**
+     * Steps only the two end thresholds, for the coarse class without attraction: the rescaling
+     * steps given the latent levels ({@link ThresholdRescaleUpdate}) move the others, but the end
+     * categories hold the coarse points' competitors (a 0 or a 10 said by a full-scale or by a
+     * coarse responder), and with the classes fixed their thresholds follow the classes only
+     * slowly. A step reads only the respondents of the categories beside the threshold.
+     */
+    static ThresholdUpdate ends(ChainState state, int[] start, Priors priors, UniformRandomProvider rng) {
+        return new ThresholdUpdate(state, start, priors, rng, true);
     }
 
-    private int firstGroup(int block) {
-        return isCommon(block) ? 0 : block;
-    }
-
-    private int lastGroup(int block) {
-        return isCommon(block) ? state.groups - 1 : block;
+    @Override
+    boolean moves(int k) {
+        return !endsOnly || k == 1 || k == cuts;
     }
 
     @Override
     public void update(boolean adapt) {
         refresh();
-        int passes = state.attractionOn() ? 1 : PASSES;
-        for (int pass = 0; pass < passes; pass++) {
-            for (int b = 0; b < blocks; b++) {
-                for (int k = 1; k <= cuts; k++) {
-                    step(b, k, adapt);
-                }
-            }
-        }
-        if (adapt) {
-            warmupStep++;
-        }
+        passes(state.attractionOn() ? 1 : PASSES, adapt);
     }
 
     /**
@@ -171,17 +130,26 @@ final class ThresholdUpdate implements Update, Checkpointed {
         ChainState s = state;
         RegressionBlock level = s.level;
         double[] t = s.thresholds;
-        for (int i = 0; i < s.size; i++) {
-            int g = s.group[i];
-            double part = level.linear(i, g) - level.intercept[g];
-            covariatePart[i] = part;
-            double eta = level.intercept[g] + part;
-            int at = g * stride + s.category[i];
-            lowerTail[i] = tail(t[at] - eta);
-            upperTail[i] = tail(t[at + 1] - eta);
-            if (s.channel != null && s.channel.isPoint(s.category[i])) {
-                mixtureQ[i] = StandardNormal.cdf(s.style.linear(i, g));
-                refreshMixture(i, g * stride, s.category[i], eta);
+        int m = s.categories;
+        for (int g = 0; g < s.groups; g++) {
+            for (int j = 0; j < m; j++) {
+                if (!read[j]) {
+                    continue;
+                }
+                boolean point = s.channel != null && s.channel.isPoint(j);
+                int at = g * stride + j;
+                for (int i = start[g * m + j], end = start[g * m + j + 1]; i < end; i++) {
+                    double part = level.linear(i, g) - level.intercept[g];
+                    covariatePart[i] = part;
+                    double eta = level.intercept[g] + part;
+                    if (!point) {
+                        lowerTail[i] = tail(t[at] - eta);
+                        upperTail[i] = tail(t[at + 1] - eta);
+                    } else {
+                        mixtureQ[i] = StandardNormal.cdf(s.style.linear(i, g));
+                        refreshMixture(i, g * stride, j, eta);
+                    }
+                }
             }
         }
         if (s.attractionOn()) {
@@ -234,91 +202,12 @@ final class ThresholdUpdate implements Update, Checkpointed {
         return 1 - lowerTail - upperTail;
     }
 
-    private void step(int b, int k, boolean adapt) {
-        ChainState s = state;
-        boolean common = isCommon(b);
-        double[] rows = common ? s.common : s.thresholds;
-        int base = common ? 0 : b * stride;
-        int slot = b * cuts + k - 1;
-        double step = Math.exp(logScale[slot]) * normal.sample();
-        double delta = step;
-        double jacobian = 0;
-        if (cuts > 1 && (k == 1 || k == cuts)) {
-            // an end threshold: a random walk on the log of its gap to the neighbour, which moves by
-            // delta; exp(step) is the Jacobian (Green 1995, section 3.3)
-            double gap = k == 1 ? rows[base + 2] - rows[base + 1] : rows[base + cuts] - rows[base + cuts - 1];
-            delta = k == 1 ? -gap * Math.expm1(step) : gap * Math.expm1(step);
-            jacobian = step;
-        }
-        boolean accept = false;
-        if (staysOrdered(b, k, delta)) {
-            double logRatio = logLikelihoodChange(b, k, delta) + logPriorChange(rows, base, k, delta, b) + jacobian;
-            accept = Math.log(rng.nextDouble()) < logRatio;
-        }
-        if (accept) {
-            double share = delta / cuts;
-            move(rows, base, k, delta);
-            if (common && s.byGroup) {
-                for (int g = 0; g < s.groups; g++) {
-                    move(s.thresholds, g * stride, k, delta);
-                }
-            } else if (common) {
-                s.shareCommonThresholds();
-            }
-            shiftLevel(b, -share);
-            moveTails(b, k);
-            if (s.attractionOn()) {
-                keepProposedCaches(b, k);
-            }
-        }
-        if (adapt) {
-            logScale[slot] += Math.pow(warmupStep + 1.0, -0.6) * ((accept ? 1 : 0) - TARGET_ACCEPTANCE);
-        } else {
-            tried++;
-            if (accept) {
-                accepted++;
-            }
-        }
-    }
-
-    /** c[k] += delta, then every threshold of the row loses delta/(M-1): the sum stays zero. */
-    private void move(double[] rows, int base, int k, double delta) {
-        double share = delta / cuts;
-        for (int j = 1; j <= cuts; j++) {
-            rows[base + j] -= share;
-        }
-        rows[base + k] += delta;
-    }
-
-    /** Whether every row the step moves keeps increasing thresholds (MODEL.md 3). */
-    private boolean staysOrdered(int b, int k, double delta) {
-        ChainState s = state;
-        if (isCommon(b)) {
-            if (!between(s.common, 0, k, delta)) {
-                return false;
-            }
-            if (!s.byGroup) {
-                return true;
-            }
-        }
-        for (int g = firstGroup(b); g <= lastGroup(b); g++) {
-            if (!between(s.thresholds, g * stride, k, delta)) {
-                return false;
-            }
-        }
-        return true;
-    }
-
-    private static boolean between(double[] rows, int base, int k, double delta) {
-        double moved = rows[base + k] + delta;
-        return moved > rows[base + k - 1] && moved < rows[base + k + 1];
-    }
-
     /**
      * Change of the log-likelihood when threshold k of block b moves by delta relative to the
      * levels: respondents of category k-1 see their upper bound move, those of category k their
      * lower bound; every other bound keeps its distance to the level.
      */
+    @Override
     double logLikelihoodChange(int b, int k, double delta) {
         ChainState s = state;
         if (s.attractionOn()) {
@@ -458,31 +347,39 @@ final class ThresholdUpdate implements Update, Checkpointed {
                 StandardNormal.logIntervalProbability(newLow, newHigh) - StandardNormal.logIntervalProbability(low, high))));
     }
 
+    @Override
+    void accepted(int b, int k, double delta) {
+        moveTails(b, k);
+        if (state.attractionOn()) {
+            keepProposedCaches(b, k);
+        }
+    }
+
     /**
-     * After an accepted move of threshold k: the tails at k of the two runs beside it, as computed
-     * for the proposal (recomputed for coarse-point runs, whose step took the mixture path).
+     * After an accepted move of threshold k: the tails at k of the two runs beside it, and the
+     * full-scale and coarse probabilities of the coarse-point runs it touches, as computed for the
+     * proposal.
      */
     private void moveTails(int b, int k) {
         ChainState s = state;
         int m = s.categories;
-        double[] t = s.thresholds;
         for (int g = firstGroup(b); g <= lastGroup(b); g++) {
-            double alpha = s.level.intercept[g];
-            double cut = t[g * stride + k];
             boolean belowIsPoint = s.channel != null && s.channel.isPoint(k - 1);
             boolean aboveIsPoint = s.channel != null && s.channel.isPoint(k);
-            for (int i = start[g * m + k - 1], end = start[g * m + k]; i < end; i++) {
-                upperTail[i] = belowIsPoint ? tail(cut - alpha - covariatePart[i]) : proposedTail[i];
+            // a coarse-point reporter's tails are not read: its steps take the mixture path
+            if (!belowIsPoint) {
+                System.arraycopy(proposedTail, start[g * m + k - 1], upperTail, start[g * m + k - 1], start[g * m + k] - start[g * m + k - 1]);
             }
-            for (int i = start[g * m + k], end = start[g * m + k + 1]; i < end; i++) {
-                lowerTail[i] = aboveIsPoint ? tail(cut - alpha - covariatePart[i]) : proposedTail[i];
+            if (!aboveIsPoint) {
+                System.arraycopy(proposedTail, start[g * m + k], lowerTail, start[g * m + k], start[g * m + k + 1] - start[g * m + k]);
             }
             if (s.channel != null) {
                 for (int j : visited[k]) {
                     if (s.channel.isPoint(j)) {
-                        for (int i = start[g * m + j], end = start[g * m + j + 1]; i < end; i++) {
-                            refreshMixture(i, g * stride, j, alpha + covariatePart[i]);
-                        }
+                        int from = start[g * m + j];
+                        int to = start[g * m + j + 1];
+                        System.arraycopy(proposedTail, from, mixtureFull, from, to - from);
+                        System.arraycopy(proposedCoarse, from, mixtureCoarse, from, to - from);
                     }
                 }
             }
@@ -503,6 +400,8 @@ final class ThresholdUpdate implements Update, Checkpointed {
         double coarseBefore = mixtureCoarse[i];
         double fullAfter = j == k - 1 || j == k ? ResponseLikelihood.full(t, row, j, eta, k, delta) : fullBefore;
         double coarseAfter = channel.dependsOn(j, k) ? ResponseLikelihood.coarse(channel, t, row, j, eta, k, delta) : coarseBefore;
+        proposedTail[i] = fullAfter;
+        proposedCoarse[i] = coarseAfter;
         double before = (1 - q) * weightBefore * fullBefore + q * coarseBefore;
         double after = (1 - q) * weightAfter * fullAfter + q * coarseAfter;
         if (after > 1e-280 && before > 1e-280) {
@@ -519,70 +418,5 @@ final class ThresholdUpdate implements Update, Checkpointed {
         double lower = t[row + j] + (j == k ? delta : 0);
         double upper = t[row + j + 1] + (j + 1 == k ? delta : 0);
         return StandardNormal.logIntervalProbability(lower - eta, upper - eta);
-    }
-
-    /**
-     * Log prior ratio of the moved thresholds and level (MODEL.md 3 and 5): a group block moves
-     * d[g] and alpha[g]; the common block moves c and mu_alpha, leaving every d[g] and
-     * alpha[g] - mu_alpha as they were.
-     */
-    private double logPriorChange(double[] rows, int base, int k, double delta, int b) {
-        ChainState s = state;
-        double share = delta / cuts;
-        double before = 0;
-        double after = 0;
-        boolean common = isCommon(b);
-        for (int j = 1; j <= cuts; j++) {
-            double reference = common ? 0 : s.common[j];
-            double d = rows[base + j] - reference;
-            double e = d - share + (j == k ? delta : 0);
-            before += d * d;
-            after += e * e;
-        }
-        double precision = common ? commonPriorPrecision : 1.0 / (s.thresholdSd * s.thresholdSd);
-        double thresholdPart = -0.5 * precision * (after - before);
-        double level = common ? s.level.mean : s.level.intercept[b];
-        double shifted = level - share;
-        double levelPart;
-        if (!common) {
-            double from = (level - s.level.mean) / s.level.sd;
-            double to = (shifted - s.level.mean) / s.level.sd;
-            levelPart = 0.5 * (from * from - to * to);
-        } else {
-            levelPart = groupMeanPrior.logDensity(shifted) - groupMeanPrior.logDensity(level);
-        }
-        return thresholdPart + levelPart;
-    }
-
-    /** A group block moves alpha[g]; the common block mu_alpha and every alpha[g] (MODEL.md 2). */
-    private void shiftLevel(int b, double amount) {
-        ChainState s = state;
-        if (!isCommon(b)) {
-            s.level.intercept[b] += amount;
-            return;
-        }
-        s.level.shiftIntercepts(amount);
-    }
-
-    /** Share of accepted proposals while sampling. */
-    double acceptanceRate() {
-        return tried == 0 ? Double.NaN : (double) accepted / tried;
-    }
-
-    /** The adapted scales and counters; the per-respondent caches are rebuilt by {@link #refresh}. */
-    @Override
-    public void save(DataOutput out) throws IOException {
-        Checkpointed.writeDoubles(out, logScale);
-        out.writeInt(warmupStep);
-        out.writeLong(accepted);
-        out.writeLong(tried);
-    }
-
-    @Override
-    public void restore(DataInput in) throws IOException {
-        Checkpointed.readDoubles(in, logScale);
-        warmupStep = in.readInt();
-        accepted = in.readLong();
-        tried = in.readLong();
     }
 }
