@@ -34,7 +34,7 @@ abstract class ThresholdMoves implements Update, Checkpointed {
     final ChainState state;
     final int[] start;
     final UniformRandomProvider rng;
-    private final ZigguratSampler.NormalizedGaussian normal;
+    final ZigguratSampler.NormalizedGaussian normal;
     private final double commonPriorPrecision;
     private final Normal groupMeanPrior;
     final int blocks;

@@ -90,8 +90,44 @@ class ThresholdRescaleUpdateTest {
                     }
                 }
             }
+            if (byGroup) {
+                checkSpreadChange(s, update, z);
+            }
             checkAcceptedSums(s, update, blocks - 1, 2, delta, last);
         }
+    }
+
+    /** The non-centred spread step: every deviation from the common thresholds scaled by 1.3. */
+    private static void checkSpreadChange(ChainState s, ThresholdRescaleUpdate update, double[] z) {
+        int m = s.categories;
+        int stride = m + 1;
+        double factor = 1.3;
+        double expected = 0;
+        for (int i = 0; i < s.size; i++) {
+            int g = s.group[i];
+            int r = s.category[i];
+            double[] t = s.thresholds;
+            int row = g * stride;
+            double lower = t[row + r];
+            double upper = t[row + r + 1];
+            double newLower = r == 0 ? lower : s.common[r] + factor * (lower - s.common[r]);
+            double newUpper = r == m - 1 ? upper : s.common[r + 1] + factor * (upper - s.common[r + 1]);
+            double mapped;
+            double logJacobian = 0;
+            if (r == 0) {
+                mapped = z[i] + newUpper - upper;
+            } else if (r == m - 1) {
+                mapped = z[i] + newLower - lower;
+            } else {
+                double scale = (newUpper - newLower) / (upper - lower);
+                mapped = newLower + scale * (z[i] - lower);
+                logJacobian = Math.log(scale);
+            }
+            double eta = s.eta(i);
+            expected += -0.5 * ((mapped - eta) * (mapped - eta) - (z[i] - eta) * (z[i] - eta)) + logJacobian;
+        }
+        // about 280 values of order 1, rearranged algebraically: 1e-9 is ample
+        assertEquals(expected, update.spreadChange(factor), 1e-9, "spread step");
     }
 
     /** After accepting, the group sums and cross-products equal those of the explicitly moved values. */
