@@ -50,6 +50,9 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
     private final double[] eta;
     /** exp(a[g,k]) - 1 by group and position. */
     private final double[] excess;
+    /** Per respondent: the cdf at the two moved thresholds of a pending joint move. */
+    private final double[] proposedLow;
+    private final double[] proposedHigh;
     /** A group's thresholds as a joint move proposes them. */
     private final double[] scratch;
     private final double[] logScale;
@@ -72,6 +75,8 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
         this.attracted = state.attracted;
         int m = state.categories;
         this.eta = new double[state.size];
+        this.proposedLow = new double[state.size];
+        this.proposedHigh = new double[state.size];
         this.excess = new double[state.groups * m];
         this.scratch = new double[m + 1];
         this.logScale = new double[state.groups * attracted.length];
@@ -165,8 +170,9 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
                 int to = s.start[(g + 1) * m];
                 for (int i = from; i < to; i++) {
                     int at = i * stride;
-                    s.cdf[at + k] = StandardNormal.cdf(s.thresholds[row + k] - eta[i]);
-                    s.cdf[at + k + 1] = StandardNormal.cdf(s.thresholds[row + k + 1] - eta[i]);
+                    boolean computed = !coarse(i);
+                    s.cdf[at + k] = computed ? proposedLow[i] : StandardNormal.cdf(s.thresholds[row + k] - eta[i]);
+                    s.cdf[at + k + 1] = computed ? proposedHigh[i] : StandardNormal.cdf(s.thresholds[row + k + 1] - eta[i]);
                 }
                 s.refreshNormalisers(g, from, to);
             }
@@ -217,6 +223,8 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
                 double high = s.cdf[at + k + 1];
                 double lowAfter = StandardNormal.cdf(scratch[k] - x);
                 double highAfter = StandardNormal.cdf(scratch[k + 1] - x);
+                proposedLow[i] = lowAfter;
+                proposedHigh[i] = highAfter;
                 double n = s.normaliser[i];
                 double moved = n
                         + (lowAfter - low) * excess[base + k - 1]

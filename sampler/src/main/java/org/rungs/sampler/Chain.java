@@ -59,9 +59,7 @@ final class Chain implements Checkpointed {
         ChainState state = new ChainState(order, byGroup, channel, attracted);
         InitialValues.apply(state, priors.styleMean().mean(), rng);
         List<Update> sweep = new ArrayList<>();
-        if (state.attractionOn()) {
-            sweep.add(ThresholdUpdate.of(state, order.start(), priors, rng));
-        } else if (channel != null) {
+        if (channel != null || state.attractionOn()) {
             sweep.add(ThresholdUpdate.ends(state, order.start(), priors, rng));
         }
         if (state.byGroup) {

@@ -92,6 +92,10 @@ final class ThresholdUpdate extends ThresholdMoves {
                 }
             }
         }
+        for (int j = 0; j < state.categories; j++) {
+            // under attraction a step reads every respondent: the coarse-point ones by their mixture
+            read[j] |= attraction && state.channel != null && state.channel.isPoint(j);
+        }
     }
 
     /** Steps every threshold. */
@@ -100,11 +104,12 @@ final class ThresholdUpdate extends ThresholdMoves {
     }
 
     /**
-     * Steps only the two end thresholds, for the coarse class without attraction: the rescaling
-     * steps given the latent levels ({@link ThresholdRescaleUpdate}) move the others, but the end
+     * Steps only the two end thresholds, for the coarse class or attraction: the rescaling steps
+     * given the latent levels ({@link ThresholdRescaleUpdate}) move the others, but the end
      * categories hold the coarse points' competitors (a 0 or a 10 said by a full-scale or by a
      * coarse responder), and with the classes fixed their thresholds follow the classes only
-     * slowly. A step reads only the respondents of the categories beside the threshold.
+     * slowly. Without attraction a step reads only the respondents of the categories beside the
+     * threshold; under attraction every respondent of the block (N_i depends on every threshold).
      */
     static ThresholdUpdate ends(ChainState state, int[] start, Priors priors, UniformRandomProvider rng) {
         return new ThresholdUpdate(state, start, priors, rng, true);
@@ -169,7 +174,8 @@ final class ThresholdUpdate extends ThresholdMoves {
             int from = s.start[g * m];
             int to = s.start[(g + 1) * m];
             for (int i = from; i < to; i++) {
-                double eta = s.level.intercept[g] + covariatePart[i];
+                double eta = s.level.linear(i, g);
+                covariatePart[i] = eta - s.level.intercept[g];
                 int at = i * (m + 1);
                 s.cdf[at] = 0;
                 s.cdf[at + m] = 1;
