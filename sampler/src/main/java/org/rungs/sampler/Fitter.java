@@ -25,10 +25,6 @@ public final class Fitter {
     }
 
     /**
-     * @param stop set it to end every chain after its current iteration; the draws kept so far
-     *             (the same number for every chain) are returned
-     */
-    /**
      * The survey with its rows in the order the chains read them (by group, then reported
      * category). Respondents are exchangeable, so nothing else changes; fitting a survey already
      * in this order makes no second copy of its columns.
@@ -37,6 +33,12 @@ public final class Fitter {
         return SurveyOrder.of(survey).survey();
     }
 
+    /**
+     * Runs the chains of {@code settings} on {@code survey}.
+     *
+     * @param stop set it to end every chain after its current iteration; the draws kept so far
+     *             (the same number for every chain) are returned
+     */
     public static FitResult fit(Survey survey, ModelSpec spec, SamplerSettings settings,
                                 ProgressListener progress, AtomicBoolean stop) {
         return fit(survey, spec, settings, progress, stop, Checkpoints.none());

@@ -42,6 +42,10 @@ final class StyleClassUpdate implements Update, Checkpointed {
     private final double[] coarse;
     private final double[] logMixture;
     private final double[] proposedLog;
+    /** Per coarse-point reporter: q = Phi(linear) now and as proposed; the last q computed. */
+    private final double[] coarseShare;
+    private final double[] proposedQ;
+    private double proposedShare;
     /** Per respondent: gamma[g] + w' delta (kept current for coarse-point reporters only). */
     private final double[] linear;
     private final double[] coefficientStep;
@@ -100,6 +104,8 @@ final class StyleClassUpdate implements Update, Checkpointed {
         this.coarse = new double[state.size];
         this.logMixture = new double[state.size];
         this.proposedLog = new double[state.size];
+        this.coarseShare = new double[state.size];
+        this.proposedQ = new double[state.size];
         this.linear = new double[state.size];
         this.coefficientStep = new double[p];
         this.points = state.channel.points();
@@ -167,6 +173,7 @@ final class StyleClassUpdate implements Update, Checkpointed {
                     }
                     coarse[i] = ResponseLikelihood.coarse(channel, s.thresholds, row, r, eta, -1, 0);
                     logMixture[i] = logMixture(i, lin);
+                    coarseShare[i] = proposedShare;
                 } else {
                     double e = truncatedNormal.sample(Double.NEGATIVE_INFINITY, -lin);
                     sum += e;
@@ -194,6 +201,7 @@ final class StyleClassUpdate implements Update, Checkpointed {
             for (int i = s.start[g * m + r], end = s.start[g * m + r + 1]; i < end; i++) {
                 double after = logMixture(i, linear[i] + step);
                 proposedLog[i] = after;
+                proposedQ[i] = proposedShare;
                 change += after - logMixture[i];
             }
         }
@@ -216,6 +224,7 @@ final class StyleClassUpdate implements Update, Checkpointed {
                 for (int i = s.start[g * m + r], end = s.start[g * m + r + 1]; i < end; i++) {
                     linear[i] += step;
                     logMixture[i] = proposedLog[i];
+                    coarseShare[i] = proposedQ[i];
                 }
             }
             residualSum[g] -= fixedCount[g] * step;
@@ -255,6 +264,7 @@ final class StyleClassUpdate implements Update, Checkpointed {
                 for (int i = s.start[g * m + r], end = s.start[g * m + r + 1]; i < end; i++) {
                     double after = logMixture(i, linear[i] + movedBy(i));
                     proposedLog[i] = after;
+                    proposedQ[i] = proposedShare;
                     change += after - logMixture[i];
                 }
             }
@@ -274,6 +284,7 @@ final class StyleClassUpdate implements Update, Checkpointed {
                     for (int i = s.start[g * m + r], end = s.start[g * m + r + 1]; i < end; i++) {
                         linear[i] += movedBy(i);
                         logMixture[i] = proposedLog[i];
+                        coarseShare[i] = proposedQ[i];
                     }
                 }
                 double shift = 0;
@@ -303,9 +314,10 @@ final class StyleClassUpdate implements Update, Checkpointed {
         return moved;
     }
 
-    /** log((1 - q) P(r | full) + q P(r | coarse)) with q = Phi(linear). */
+    /** log((1 - q) P(r | full) + q P(r | coarse)) with q = Phi(linear), left in {@link #proposedShare}. */
     private double logMixture(int at, double linearPredictor) {
         double q = StandardNormal.cdf(linearPredictor);
+        proposedShare = q;
         double p = (1 - q) * full[at] + q * coarse[at];
         if (p > 1e-280) {
             return Math.log(p);
@@ -327,7 +339,7 @@ final class StyleClassUpdate implements Update, Checkpointed {
                     continue;
                 }
                 double mean = linear[i];
-                double q = StandardNormal.cdf(mean);
+                double q = coarseShare[i];
                 double pf = (1 - q) * full[i];
                 double pc = q * coarse[i];
                 double share;
