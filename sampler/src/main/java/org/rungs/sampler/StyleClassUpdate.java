@@ -37,7 +37,7 @@ final class StyleClassUpdate implements Update, Checkpointed {
     private final Normal meanPrior;
     private final Normal coefficientPrior;
     private final double[] logScale;
-    /** Per respondent reporting a coarse point: P(r | full), P(r | coarse), and the log mixture now and as proposed. */
+    /** Per coarse-point reporter (see {@link #gap}): P(r | full), P(r | coarse), and the log mixture now and as proposed. */
     private final double[] full;
     private final double[] coarse;
     private final double[] logMixture;
@@ -46,7 +46,7 @@ final class StyleClassUpdate implements Update, Checkpointed {
     private final double[] coarseShare;
     private final double[] proposedQ;
     private double proposedShare;
-    /** Per respondent: gamma[g] + w' delta (kept current for coarse-point reporters only). */
+    /** Per coarse-point reporter: gamma[g] + w' delta. */
     private final double[] linear;
     private final double[] coefficientStep;
     /** exp(a[g,k]) - 1 by group and position (attraction on). */
@@ -63,6 +63,11 @@ final class StyleClassUpdate implements Update, Checkpointed {
     private final double[] residualCross;
     /** Positions of the coarse points. */
     private final int[] points;
+    /**
+     * The per-respondent arrays above hold coarse-point reporters only, in sorted order:
+     * respondent i of the (group, category) run c sits at slot i - gap[c].
+     */
+    private final int[] gap;
     private double coefficientLogScale;
     private int warmupStep;
 
@@ -100,13 +105,21 @@ final class StyleClassUpdate implements Update, Checkpointed {
         }
         this.residualSum = new double[state.groups];
         this.residualCross = new double[p];
-        this.full = new double[state.size];
-        this.coarse = new double[state.size];
-        this.logMixture = new double[state.size];
-        this.proposedLog = new double[state.size];
-        this.coarseShare = new double[state.size];
-        this.proposedQ = new double[state.size];
-        this.linear = new double[state.size];
+        this.gap = new int[state.groups * m];
+        int slots = 0;
+        for (int c = 0; c < state.groups * m; c++) {
+            gap[c] = state.start[c] - slots;
+            if (state.channel.isPoint(c % m)) {
+                slots += state.start[c + 1] - state.start[c];
+            }
+        }
+        this.full = new double[slots];
+        this.coarse = new double[slots];
+        this.logMixture = new double[slots];
+        this.proposedLog = new double[slots];
+        this.coarseShare = new double[slots];
+        this.proposedQ = new double[slots];
+        this.linear = new double[slots];
         this.coefficientStep = new double[p];
         this.points = state.channel.points();
         this.excess = new double[state.attractionOn() ? state.groups * m : 0];
@@ -162,18 +175,20 @@ final class StyleClassUpdate implements Update, Checkpointed {
         double sum = 0;
         for (int r = 0; r < m; r++) {
             boolean point = channel.isPoint(r);
+            int off = gap[g * m + r];
             for (int i = s.start[g * m + r], end = s.start[g * m + r + 1]; i < end; i++) {
                 double lin = style.linear(i, g);
                 if (point) {
-                    linear[i] = lin;
+                    int at = i - off;
+                    linear[at] = lin;
                     double eta = s.eta(i);
-                    full[i] = ResponseLikelihood.full(s.thresholds, row, r, eta, -1, 0);
+                    full[at] = ResponseLikelihood.full(s.thresholds, row, r, eta, -1, 0);
                     if (s.attractionOn()) {
-                        full[i] *= (excess[g * m + r] + 1) / s.normaliser[i];
+                        full[at] *= (excess[g * m + r] + 1) / s.normaliser[i];
                     }
-                    coarse[i] = ResponseLikelihood.coarse(channel, s.thresholds, row, r, eta, -1, 0);
-                    logMixture[i] = logMixture(i, lin);
-                    coarseShare[i] = proposedShare;
+                    coarse[at] = ResponseLikelihood.coarse(channel, s.thresholds, row, r, eta, -1, 0);
+                    logMixture[at] = logMixture(at, lin);
+                    coarseShare[at] = proposedShare;
                 } else {
                     double e = truncatedNormal.sample(Double.NEGATIVE_INFINITY, -lin);
                     sum += e;
@@ -198,11 +213,11 @@ final class StyleClassUpdate implements Update, Checkpointed {
         double step = Math.exp(logScale[g]) * normal.sample();
         double change = step * residualSum[g] - 0.5 * fixedCount[g] * step * step;
         for (int r : points) {
-            for (int i = s.start[g * m + r], end = s.start[g * m + r + 1]; i < end; i++) {
-                double after = logMixture(i, linear[i] + step);
-                proposedLog[i] = after;
-                proposedQ[i] = proposedShare;
-                change += after - logMixture[i];
+            for (int at = s.start[g * m + r] - gap[g * m + r], end = s.start[g * m + r + 1] - gap[g * m + r]; at < end; at++) {
+                double after = logMixture(at, linear[at] + step);
+                proposedLog[at] = after;
+                proposedQ[at] = proposedShare;
+                change += after - logMixture[at];
             }
         }
         double intercept = style.intercept[g];
@@ -221,10 +236,10 @@ final class StyleClassUpdate implements Update, Checkpointed {
                 style.mean = style.intercept[g];
             }
             for (int r : points) {
-                for (int i = s.start[g * m + r], end = s.start[g * m + r + 1]; i < end; i++) {
-                    linear[i] += step;
-                    logMixture[i] = proposedLog[i];
-                    coarseShare[i] = proposedQ[i];
+                for (int at = s.start[g * m + r] - gap[g * m + r], end = s.start[g * m + r + 1] - gap[g * m + r]; at < end; at++) {
+                    linear[at] += step;
+                    logMixture[at] = proposedLog[at];
+                    coarseShare[at] = proposedQ[at];
                 }
             }
             residualSum[g] -= fixedCount[g] * step;
@@ -261,11 +276,13 @@ final class StyleClassUpdate implements Update, Checkpointed {
         }
         for (int g = 0; g < s.groups; g++) {
             for (int r : points) {
+                int off = gap[g * m + r];
                 for (int i = s.start[g * m + r], end = s.start[g * m + r + 1]; i < end; i++) {
-                    double after = logMixture(i, linear[i] + movedBy(i));
-                    proposedLog[i] = after;
-                    proposedQ[i] = proposedShare;
-                    change += after - logMixture[i];
+                    int at = i - off;
+                    double after = logMixture(at, linear[at] + movedBy(i));
+                    proposedLog[at] = after;
+                    proposedQ[at] = proposedShare;
+                    change += after - logMixture[at];
                 }
             }
         }
@@ -281,10 +298,12 @@ final class StyleClassUpdate implements Update, Checkpointed {
             }
             for (int g = 0; g < s.groups; g++) {
                 for (int r : points) {
+                    int off = gap[g * m + r];
                     for (int i = s.start[g * m + r], end = s.start[g * m + r + 1]; i < end; i++) {
-                        linear[i] += movedBy(i);
-                        logMixture[i] = proposedLog[i];
-                        coarseShare[i] = proposedQ[i];
+                        int at = i - off;
+                        linear[at] += movedBy(i);
+                        logMixture[at] = proposedLog[at];
+                        coarseShare[at] = proposedQ[at];
                     }
                 }
                 double shift = 0;
@@ -338,16 +357,17 @@ final class StyleClassUpdate implements Update, Checkpointed {
                     s.coarse[i] = 0;
                     continue;
                 }
-                double mean = linear[i];
-                double q = coarseShare[i];
-                double pf = (1 - q) * full[i];
-                double pc = q * coarse[i];
+                int at = i - gap[g * m + k];
+                double mean = linear[at];
+                double q = coarseShare[at];
+                double pf = (1 - q) * full[at];
+                double pc = q * coarse[at];
                 double share;
                 if (pf + pc > 1e-280) {
                     share = pc / (pf + pc);
                 } else {
-                    double logFull = StandardNormal.logUpperTail(mean) + Math.log(full[i]);
-                    double logCoarse = StandardNormal.logCdf(mean) + Math.log(coarse[i]);
+                    double logFull = StandardNormal.logUpperTail(mean) + Math.log(full[at]);
+                    double logCoarse = StandardNormal.logCdf(mean) + Math.log(coarse[at]);
                     share = 1 / (1 + Math.exp(logFull - logCoarse));
                 }
                 byte z = rng.nextDouble() < share ? (byte) 1 : (byte) 0;
