@@ -163,6 +163,8 @@ final class CommandLineTest {
         List<String> drawLines = Files.readAllLines(draws);
         assertTrue(drawLines.get(0).startsWith("chain,iteration,"), drawLines.get(0));
         assertEquals(2 * 20, drawLines.size() - 1);
+        // 20 draws per chain cannot give 100 bulk ESS per chain: the verdict and the advice say so
+        assertTrue(r.out().contains("Not converged") && r.out().contains("Run longer chains"), r.out());
     }
 
     @Test

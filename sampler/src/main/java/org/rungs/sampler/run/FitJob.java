@@ -160,6 +160,8 @@ public final class FitJob {
 
         out.print(SummaryTable.format(summaries));
         out.println(verdict);
+        boolean converged = summaries.stream().noneMatch(ParameterSummary::flagged)
+                && (derived == null || derivedSummaries.stream().noneMatch(ParameterSummary::flagged));
         if (derived != null) {
             out.println("Derived quantities: " + SummaryTable.verdict(derivedSummaries));
             out.println();
@@ -168,6 +170,10 @@ public final class FitJob {
         if (attraction) {
             out.println();
             out.print(AttractionWords.format(profile, survey.groupLabels()));
+        }
+        if (!converged && !result.interrupted()) {
+            out.println("The chains have not converged: read no estimate yet. Run longer chains (for example"
+                    + " --warmup and --draws five times as large) and check R-hat and ESS again (README, known limits).");
         }
         out.println("Files written to " + folder.dir().toAbsolutePath() + ": draws.csv, summary.csv"
                 + (attraction ? ", attraction.csv" : "") + ", derived_draws.csv, "
