@@ -60,19 +60,16 @@ final class ThresholdUpdate extends ThresholdMoves {
     private final boolean endsOnly;
     /** Categories whose respondents the stepped thresholds read, so the caches hold them. */
     private final boolean[] read;
+    /**
+     * The per-respondent caches hold the respondents of the categories read (all of them under
+     * attraction, whose steps read every respondent), in sorted order: respondent i of the
+     * (group, category) run c sits at slot i - gap[c].
+     */
+    private final int[] gap;
 
     private ThresholdUpdate(ChainState state, int[] start, Priors priors, UniformRandomProvider rng, boolean endsOnly) {
         super(state, start, priors, rng);
         this.endsOnly = endsOnly;
-        this.covariatePart = new double[state.size];
-        this.lowerTail = new double[state.size];
-        this.upperTail = new double[state.size];
-        this.proposedTail = new double[state.size];
-        this.proposedCoarse = new double[state.channel == null ? 0 : state.size];
-        int mixtureSize = state.channel == null ? 0 : state.size;
-        this.mixtureQ = new double[mixtureSize];
-        this.mixtureFull = new double[mixtureSize];
-        this.mixtureCoarse = new double[mixtureSize];
         boolean attraction = state.attractionOn();
         this.excess = new double[attraction ? state.groups * state.categories : 0];
         this.proposedCdf = new double[attraction ? state.size : 0];
@@ -96,6 +93,24 @@ final class ThresholdUpdate extends ThresholdMoves {
             // under attraction a step reads every respondent: the coarse-point ones by their mixture
             read[j] |= attraction && state.channel != null && state.channel.isPoint(j);
         }
+        int m = state.categories;
+        this.gap = new int[state.groups * m];
+        int slots = 0;
+        for (int c = 0; c < gap.length; c++) {
+            gap[c] = start[c] - slots;
+            if (read[c % m] || attraction) {
+                slots += start[c + 1] - start[c];
+            }
+        }
+        this.covariatePart = new double[slots];
+        this.lowerTail = new double[slots];
+        this.upperTail = new double[slots];
+        this.proposedTail = new double[slots];
+        int mixtureSize = state.channel == null ? 0 : slots;
+        this.proposedCoarse = new double[mixtureSize];
+        this.mixtureQ = new double[mixtureSize];
+        this.mixtureFull = new double[mixtureSize];
+        this.mixtureCoarse = new double[mixtureSize];
     }
 
     /** Steps every threshold. */
@@ -143,16 +158,18 @@ final class ThresholdUpdate extends ThresholdMoves {
                 }
                 boolean point = s.channel != null && s.channel.isPoint(j);
                 int at = g * stride + j;
+                int off = gap[g * m + j];
                 for (int i = start[g * m + j], end = start[g * m + j + 1]; i < end; i++) {
+                    int slot = i - off;
                     double part = level.linear(i, g) - level.intercept[g];
-                    covariatePart[i] = part;
+                    covariatePart[slot] = part;
                     double eta = level.intercept[g] + part;
                     if (!point) {
-                        lowerTail[i] = tail(t[at] - eta);
-                        upperTail[i] = tail(t[at + 1] - eta);
+                        lowerTail[slot] = tail(t[at] - eta);
+                        upperTail[slot] = tail(t[at + 1] - eta);
                     } else {
-                        mixtureQ[i] = StandardNormal.cdf(s.style.linear(i, g));
-                        refreshMixture(i, g * stride, j, eta);
+                        mixtureQ[slot] = StandardNormal.cdf(s.style.linear(i, g));
+                        refreshMixture(slot, g * stride, j, eta);
                     }
                 }
             }
@@ -229,8 +246,9 @@ final class ThresholdUpdate extends ThresholdMoves {
             double cut = thresholds[row + k];
             double upper = thresholds[row + k + 1];
             for (int j : visited[k]) {
-                int from = start[g * m + j];
-                int to = start[g * m + j + 1];
+                // slots, not respondents: the non-attracted path reads only the caches
+                int from = start[g * m + j] - gap[g * m + j];
+                int to = start[g * m + j + 1] - gap[g * m + j];
                 if (channel != null && channel.isPoint(j)) {
                     for (int i = from; i < to; i++) {
                         change += mixtureLogRatio(i, row, j, s.level.intercept[g] + covariatePart[i], k, delta, 1, 1);
@@ -373,17 +391,19 @@ final class ThresholdUpdate extends ThresholdMoves {
             boolean belowIsPoint = s.channel != null && s.channel.isPoint(k - 1);
             boolean aboveIsPoint = s.channel != null && s.channel.isPoint(k);
             // a coarse-point reporter's tails are not read: its steps take the mixture path
+            int below = g * m + k - 1;
+            int above = g * m + k;
             if (!belowIsPoint) {
-                System.arraycopy(proposedTail, start[g * m + k - 1], upperTail, start[g * m + k - 1], start[g * m + k] - start[g * m + k - 1]);
+                System.arraycopy(proposedTail, start[below] - gap[below], upperTail, start[below] - gap[below], start[below + 1] - start[below]);
             }
             if (!aboveIsPoint) {
-                System.arraycopy(proposedTail, start[g * m + k], lowerTail, start[g * m + k], start[g * m + k + 1] - start[g * m + k]);
+                System.arraycopy(proposedTail, start[above] - gap[above], lowerTail, start[above] - gap[above], start[above + 1] - start[above]);
             }
             if (s.channel != null) {
                 for (int j : visited[k]) {
                     if (s.channel.isPoint(j)) {
-                        int from = start[g * m + j];
-                        int to = start[g * m + j + 1];
+                        int from = start[g * m + j] - gap[g * m + j];
+                        int to = start[g * m + j + 1] - gap[g * m + j];
                         System.arraycopy(proposedTail, from, mixtureFull, from, to - from);
                         System.arraycopy(proposedCoarse, from, mixtureCoarse, from, to - from);
                     }
