@@ -172,8 +172,9 @@ public final class FitJob {
             out.print(AttractionWords.format(profile, survey.groupLabels()));
         }
         if (!converged && !result.interrupted()) {
-            out.println("The chains have not converged: read no estimate yet. Run longer chains (for example"
-                    + " --warmup and --draws five times as large) and check R-hat and ESS again (README, known limits).");
+            out.println("The chains have not converged: read no estimate yet. Run longer chains (raise --warmup and"
+                    + " --draws; the bulk ESS grows about in proportion to --draws) and check R-hat and ESS again"
+                    + " (README, known limits).");
         }
         out.println("Files written to " + folder.dir().toAbsolutePath() + ": draws.csv, summary.csv"
                 + (attraction ? ", attraction.csv" : "") + ", derived_draws.csv, "
