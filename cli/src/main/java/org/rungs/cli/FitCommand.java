@@ -190,6 +190,7 @@ final class FitCommand implements Callable<Integer> {
         o.put("chains", settings.chains());
         o.put("warmup", settings.warmup());
         o.put("draws", settings.draws());
+        o.put("thin", settings.thin());
         o.put("seed", settings.seed());
         o.put("threads", settings.threads());
         o.put("out", out.toString());

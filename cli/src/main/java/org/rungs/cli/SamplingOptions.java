@@ -39,8 +39,14 @@ final class SamplingOptions {
     @Option(names = "--warmup", defaultValue = "1000", description = "Warm-up iterations per chain. Default: ${DEFAULT-VALUE}.")
     int warmup;
 
-    @Option(names = "--draws", defaultValue = "1000", description = "Kept iterations per chain. Default: ${DEFAULT-VALUE}.")
+    @Option(names = "--draws", defaultValue = "1000", description = "Kept draws per chain. Default: ${DEFAULT-VALUE}.")
     int draws;
+
+    @Option(names = "--thin", defaultValue = "1", paramLabel = "K",
+            description = "Keep every K-th iteration after warm-up: a chain runs warm-up + K x draws iterations, so slow "
+                    + "parameters gain effective draws without K times the files and the time to summarise them. "
+                    + "Default: ${DEFAULT-VALUE}.")
+    int thin;
 
     @Option(names = "--seed", description = "Random seed; with none, one is chosen, printed and recorded in run.json.")
     Long seed;
@@ -65,6 +71,6 @@ final class SamplingOptions {
     SamplerSettings settings() {
         long s = seed != null ? seed : new SecureRandom().nextLong() >>> 1;
         int t = threads != null ? threads : Math.max(1, Math.min(chains, Runtime.getRuntime().availableProcessors()));
-        return new SamplerSettings(chains, warmup, draws, s, t);
+        return new SamplerSettings(chains, warmup, draws, s, t, thin);
     }
 }

@@ -168,6 +168,22 @@ final class CommandLineTest {
     }
 
     @Test
+    void thinKeepsTheAskedDrawsAndIsRecorded() throws Exception {
+        Path out = dir.resolve("thinned");
+        Run r = rungs(concat(fit(simulated.toString(), "--rating", "rating", "--group", "region", "--seed", "5",
+                "--out", out.toString()), "--thin", "3"));
+        assertEquals(0, r.exit(), r.err());
+        assertEquals(2 * 20, Files.readAllLines(out.resolve("draws.csv")).size() - 1);
+        assertEquals(3L, jsonLong(Files.readString(out.resolve("run.json")), "thin"));
+        assertTrue(r.err().contains("20 kept iterations (one in 3 of 60 iterations)"), r.err());
+    }
+
+    @Test
+    void thinBelowOneIsRefused() throws IOException {
+        assertInputError("thin.csv", GOOD, List.of("--rating", "rating", "--thin", "0"), "thin must be at least 1");
+    }
+
+    @Test
     void sameSeedGivesIdenticalFilesWithOneTwoOrEightThreads() throws IOException {
         Path one = dir.resolve("one");
         assertEquals(0, fitSimulated(one, "99", "1").exit());

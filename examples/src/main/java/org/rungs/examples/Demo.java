@@ -53,6 +53,7 @@ public final class Demo {
         options.put("chains", settings.chains());
         options.put("warmup", settings.warmup());
         options.put("draws", settings.draws());
+        options.put("thin", settings.thin());
         options.put("seed", settings.seed());
         options.put("threads", settings.threads());
         return new Prepared(new FitRequest(file, spec, model, settings, out, true, options), data.truth());

@@ -90,12 +90,12 @@ final class Chain implements Checkpointed {
 
     /**
      * Runs warm-up then sampling, from the checkpoint's position when it restored one; returns the
-     * number of kept draws written. With a checkpoint, kept draws are appended to it as they are
+     * number of kept draws written: after warm-up every thin-th iteration is kept. With a checkpoint, kept draws are appended to it as they are
      * made, and the state is saved when the checkpoint is due and when the run ends or stops.
      */
     int run(int chain, SamplerSettings settings, ParameterLayout layout, Draws draws,
             ProgressListener progress, AtomicBoolean stop, ChainCheckpoint checkpoint) throws IOException {
-        int total = settings.warmup() + settings.draws();
+        int total = settings.iterations();
         double[] row = new double[layout.size()];
         int it = 0;
         int kept = 0;
@@ -115,7 +115,7 @@ final class Chain implements Checkpointed {
             for (Update u : sweep) {
                 u.update(warmingUp);
             }
-            if (!warmingUp) {
+            if (!warmingUp && (it + 1 - settings.warmup()) % settings.thin() == 0) {
                 state.writeRow(layout, row);
                 draws.putRow(chain, kept++, row);
                 if (checkpoint != null) {

@@ -25,7 +25,7 @@ import org.rungs.posteriors.Draws;
  */
 final class ChainCheckpoint implements Closeable {
     /** "RUNGSCK1": marks the file and its format. */
-    private static final long MAGIC = 0x52554E4753434B31L;
+    private static final long MAGIC = 0x52554E4753434B32L;
 
     /** Iterations done (warm-up included) and kept draws at a save. */
     record Position(int iterations, int kept) {
@@ -82,11 +82,12 @@ final class ChainCheckpoint implements Closeable {
         long seed = in.readLong();
         int warmup = in.readInt();
         int kept = in.readInt();
+        int thin = in.readInt();
         int savedParameters = in.readInt();
         if (savedChain != chain || seed != settings.seed() || warmup != settings.warmup() || kept != settings.draws()
-                || savedParameters != parameters) {
+                || thin != settings.thin() || savedParameters != parameters) {
             throw new IOException(stateFile + " was saved by another fit (chain " + savedChain + ", seed " + seed + ", "
-                    + warmup + " warm-up + " + kept + " kept iterations, " + savedParameters + " parameters)");
+                    + warmup + " warm-up + " + kept + " kept draws, thin " + thin + ", " + savedParameters + " parameters)");
         }
         return new Position(in.readInt(), in.readInt());
     }
@@ -130,6 +131,7 @@ final class ChainCheckpoint implements Closeable {
             out.writeLong(settings.seed());
             out.writeInt(settings.warmup());
             out.writeInt(settings.draws());
+            out.writeInt(settings.thin());
             out.writeInt(parameters);
             out.writeInt(iterations);
             out.writeInt(kept);

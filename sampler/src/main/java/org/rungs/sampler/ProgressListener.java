@@ -5,7 +5,7 @@ public interface ProgressListener {
     /**
      * @param chain     0-based chain
      * @param done      iterations finished, warm-up included
-     * @param total     warm-up plus kept iterations
+     * @param total     warm-up plus sampling iterations (thin per kept draw)
      * @param warmingUp true while in warm-up
      */
     void iterationDone(int chain, int done, int total, boolean warmingUp);

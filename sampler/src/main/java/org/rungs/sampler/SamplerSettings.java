@@ -5,12 +5,17 @@ package org.rungs.sampler;
  *
  * @param chains  independent chains, each with its own random stream derived from {@code seed}
  * @param warmup  warm-up iterations per chain (proposal scales adapt; draws are discarded)
- * @param draws   kept iterations per chain
+ * @param draws   kept draws per chain
  * @param seed    the base seed; chain k's stream depends on (seed, k) only, never on threads
  * @param threads worker threads; changes speed, never the draws
+ * @param thin    iterations per kept draw after warm-up: every thin-th is kept, so a chain runs
+ *                warmup + draws * thin iterations
  */
-public record SamplerSettings(int chains, int warmup, int draws, long seed, int threads) {
+public record SamplerSettings(int chains, int warmup, int draws, long seed, int threads, int thin) {
     public SamplerSettings {
+        if (thin < 1) {
+            throw new IllegalArgumentException("thin must be at least 1 (every iteration kept), got " + thin);
+        }
         if (chains < 1) {
             throw new IllegalArgumentException("at least one chain is needed, got " + chains);
         }
@@ -20,6 +25,16 @@ public record SamplerSettings(int chains, int warmup, int draws, long seed, int 
         if (threads < 1) {
             throw new IllegalArgumentException("at least one thread is needed, got " + threads);
         }
+    }
+
+    /** Every iteration after warm-up kept. */
+    public SamplerSettings(int chains, int warmup, int draws, long seed, int threads) {
+        this(chains, warmup, draws, seed, threads, 1);
+    }
+
+    /** Iterations per chain: warm-up, then thin per kept draw. */
+    public int iterations() {
+        return warmup + draws * thin;
     }
 
     /** 4 chains of 1000 warm-up and 1000 kept iterations, one thread per core. */

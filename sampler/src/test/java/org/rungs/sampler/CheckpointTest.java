@@ -64,6 +64,23 @@ final class CheckpointTest {
         return Fitter.fit(survey(), spec(), SETTINGS, progress, stop, checkpoints);
     }
 
+    /**
+     * Thinned: 30 warm-up iterations, then 15 draws kept one in 3. Stopped after 40 iterations
+     * (between kept draws) and resumed, the chains give the uninterrupted fit's draws.
+     */
+    @Test
+    void resumingAThinnedFitReproducesItsDraws() {
+        SamplerSettings thinned = new SamplerSettings(2, 30, 15, 17L, 2, 3);
+        Draws reference = Fitter.fit(survey(), spec(), thinned, ProgressListener.NONE, new AtomicBoolean(), Checkpoints.none()).draws();
+        assertEquals(15, reference.iterations());
+        Path here = dir.resolve("thinned");
+        AtomicBoolean stop = new AtomicBoolean();
+        assertTrue(Fitter.fit(survey(), spec(), thinned, stopAt(40, stop), stop, Checkpoints.start(here, RARELY)).interrupted());
+        FitResult resumed = Fitter.fit(survey(), spec(), thinned, ProgressListener.NONE, new AtomicBoolean(),
+                Checkpoints.resume(here, RARELY));
+        assertSameDraws(reference, resumed.draws());
+    }
+
     private static void assertSameDraws(Draws expected, Draws actual) {
         assertEquals(expected.names(), actual.names());
         assertEquals(expected.iterations(), actual.iterations());

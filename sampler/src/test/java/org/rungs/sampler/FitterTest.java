@@ -64,6 +64,39 @@ class FitterTest {
         assertFalse(java.util.Arrays.equals(one.chainsOf(0)[0], other.chainsOf(0)[0]), "another seed, other draws");
     }
 
+    /**
+     * Thinning keeps iterations of the same chain: after the same warm-up, draw t of a fit that
+     * keeps one iteration in 3 is draw 3t + 2 of the fit that keeps them all (coarse class on, so
+     * every kind of update runs between kept draws). Exact equality: same seed, same stream.
+     */
+    @Test
+    void thinningKeepsEveryKthIterationOfTheSameChain() {
+        Survey plain = smallSurvey(4L, 60);
+        Survey survey = Survey.of(plain.scale(), plain.category(), plain.group(), List.of("north", "south", "east", "west"),
+                plain.level(), Covariates.fromNumeric(List.of("w"), List.of(plain.level().column(0).clone())), null);
+        ModelSpec spec = new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults(), org.rungs.models.StyleClasses.coarse(null));
+        Draws all = Fitter.fit(survey, spec, new SamplerSettings(2, 20, 30, 7L, 2), ProgressListener.NONE, new AtomicBoolean()).draws();
+        Draws thinned = Fitter.fit(survey, spec, new SamplerSettings(2, 20, 10, 7L, 2, 3), ProgressListener.NONE,
+                new AtomicBoolean()).draws();
+        assertEquals(10, thinned.iterations());
+        for (int p = 0; p < all.parameterCount(); p++) {
+            for (int c = 0; c < 2; c++) {
+                double[] every = all.chainsOf(p)[c];
+                double[] kept = thinned.chainsOf(p)[c];
+                for (int t = 0; t < kept.length; t++) {
+                    assertEquals(every[3 * t + 2], kept[t], 0.0, all.names().get(p) + ", chain " + c + ", draw " + t);
+                }
+            }
+        }
+    }
+
+    @Test
+    void thinBelowOneIsRefused() {
+        IllegalArgumentException e = org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
+                () -> new SamplerSettings(1, 1, 1, 1L, 1, 0));
+        assertTrue(e.getMessage().contains("thin"), e.getMessage());
+    }
+
     @Test
     void parameterNamesFollowTheReadme() {
         Survey survey = smallSurvey(2L, 20);

@@ -101,7 +101,9 @@ public final class FitJob {
         }
 
         err.println("rungs: seed " + request.settings().seed() + ", " + request.settings().chains() + " chains of "
-                + request.settings().warmup() + " warm-up + " + request.settings().draws() + " kept iterations");
+                + request.settings().warmup() + " warm-up + " + request.settings().draws() + " kept iterations"
+                + (request.settings().thin() > 1 ? " (one in " + request.settings().thin() + " of "
+                        + request.settings().draws() * request.settings().thin() + " iterations)" : ""));
         RunRecord record = new RunRecord();
         for (String w : SurveyWarnings.of(survey)) {
             record.warn(w);
@@ -172,9 +174,9 @@ public final class FitJob {
             out.print(AttractionWords.format(profile, survey.groupLabels()));
         }
         if (!converged && !result.interrupted()) {
-            out.println("The chains have not converged: read no estimate yet. Run longer chains (raise --warmup and"
-                    + " --draws; the bulk ESS grows about in proportion to --draws) and check R-hat and ESS again"
-                    + " (README, known limits).");
+            out.println("The chains have not converged: read no estimate yet. Run longer chains (raise --warmup, and"
+                    + " --thin or --draws: the bulk ESS of a slow parameter grows about in proportion to the iterations"
+                    + " after warm-up) and check R-hat and ESS again (README, known limits).");
         }
         out.println("Files written to " + folder.dir().toAbsolutePath() + ": draws.csv, summary.csv"
                 + (attraction ? ", attraction.csv" : "") + ", derived_draws.csv, "
@@ -279,6 +281,7 @@ public final class FitJob {
         m.put("chains", result.settings().chains());
         m.put("warmup", result.settings().warmup());
         m.put("draws", result.settings().draws());
+        m.put("thin", result.settings().thin());
         m.put("kept_draws", result.draws().iterations());
         m.put("seed", result.settings().seed());
         m.put("threads", result.settings().threads());
