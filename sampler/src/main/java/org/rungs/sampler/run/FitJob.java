@@ -174,9 +174,7 @@ public final class FitJob {
             out.print(AttractionWords.format(profile, survey.groupLabels()));
         }
         if (!converged && !result.interrupted()) {
-            out.println("The chains have not converged: read no estimate yet. Run longer chains (raise --warmup, and"
-                    + " --thin or --draws: the bulk ESS of a slow parameter grows about in proportion to the iterations"
-                    + " after warm-up) and check R-hat and ESS again (README, known limits).");
+            out.println(LongerChains.advice(summaries, request.settings().chains(), request.settings().thin()));
         }
         out.println("Files written to " + folder.dir().toAbsolutePath() + ": draws.csv, summary.csv"
                 + (attraction ? ", attraction.csv" : "") + ", derived_draws.csv, "

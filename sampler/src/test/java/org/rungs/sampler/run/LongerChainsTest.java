@@ -1,0 +1,31 @@
+package org.rungs.sampler.run;
+
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.util.List;
+import org.junit.jupiter.api.Test;
+import org.rungs.posteriors.ParameterSummary;
+
+class LongerChainsTest {
+    private static ParameterSummary summary(String name, double rhat, double bulk, double tail) {
+        return ParameterSummary.of(name, 0, 1, -1.6, 0, 1.6, rhat, bulk, tail, 0.01, 4);
+    }
+
+    @Test
+    void namesTheSlowestParameterAndScalesTheThinning() {
+        List<ParameterSummary> s = List.of(summary("fast", 1.0, 3000, 2500), summary("slow", 1.05, 80, 120),
+                summary("tail-slow", 1.02, 150, 100));
+        String text = LongerChains.advice(s, 4, 1);
+        // 400 needed over 80 reached: 5 times, --thin 5
+        assertTrue(text.contains("the smallest effective sample size is 80 (slow) where 400 are needed"), text);
+        assertTrue(text.contains("--thin 5 "), text);
+        // already thinned by 3: 15
+        assertTrue(LongerChains.advice(s, 4, 3).contains("--thin 15 "), LongerChains.advice(s, 4, 3));
+    }
+
+    @Test
+    void rhatAloneAsksForTwiceTheIterations() {
+        String text = LongerChains.advice(List.of(summary("a", 1.03, 900, 800)), 4, 2);
+        assertTrue(text.contains("--thin 4 ") && !text.contains("smallest effective"), text);
+    }
+}
