@@ -90,8 +90,9 @@ final class Chain implements Checkpointed {
 
     /**
      * Runs warm-up then sampling, from the checkpoint's position when it restored one; returns the
-     * number of kept draws written: after warm-up every thin-th iteration is kept. With a checkpoint, kept draws are appended to it as they are
-     * made, and the state is saved when the checkpoint is due and when the run ends or stops.
+     * number of kept draws written: after warm-up every thin-th iteration is kept. With a
+     * checkpoint, kept draws are appended to it as they are made, and the state is saved when the
+     * checkpoint is due and when the run ends or stops.
      */
     int run(int chain, SamplerSettings settings, ParameterLayout layout, Draws draws,
             ProgressListener progress, AtomicBoolean stop, ChainCheckpoint checkpoint) throws IOException {
