@@ -47,7 +47,7 @@ final class Chain implements Checkpointed {
         this.rng = rng;
     }
 
-    static Chain of(SurveyOrder order, ModelSpec spec, boolean byGroup, RestorableUniformRandomProvider rng) {
+    static Chain of(SurveyOrder order, ModelSpec spec, boolean byGroup, int warmup, RestorableUniformRandomProvider rng) {
         Priors priors = spec.priors();
         StyleClasses classes = spec.styleClasses();
         Scale scale = order.survey().scale();
@@ -60,6 +60,7 @@ final class Chain implements Checkpointed {
         InitialValues.apply(state, priors.styleMean().mean(), rng);
         List<Update> sweep = new ArrayList<>();
         if (channel != null || state.attractionOn()) {
+            sweep.add(JointHamiltonianUpdate.of(state, priors, warmup, rng));
             sweep.add(ThresholdUpdate.ends(state, order.start(), priors, rng));
         }
         if (state.byGroup) {

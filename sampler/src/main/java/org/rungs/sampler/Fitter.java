@@ -70,7 +70,7 @@ public final class Fitter {
                 int chain = c;
                 futures.add(pool.submit(() -> {
                     RestorableUniformRandomProvider rng = ChainSeeds.stream(settings.seed(), chain);
-                    Chain run = Chain.of(order, spec, byGroup, rng);
+                    Chain run = Chain.of(order, spec, byGroup, settings.warmup(), rng);
                     try (ChainCheckpoint checkpoint = checkpoints.open(chain, settings, layout.size())) {
                         kept[chain] = run.run(chain, settings, layout, draws, progress, stop, checkpoint);
                     } catch (IOException e) {

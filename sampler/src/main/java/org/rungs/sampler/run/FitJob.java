@@ -42,7 +42,7 @@ public final class FitJob {
      * Draws used for the derived quantities (spread evenly over the chains): their cost is that of
      * a sweep with ~35 normal-function calls per respondent, so they are thinned.
      */
-    static final int DERIVED_DRAWS = 500;
+    static final int DERIVED_DRAWS = 1000;
     /** Fewer kept iterations than this (an early interruption) leave no derived quantities. */
     private static final int MIN_DERIVED_ITERATIONS = 4;
 

@@ -22,7 +22,7 @@ import org.rungs.models.StyleClasses;
 final class CoarseRecoveryTest {
 
     /**
-     * One simulated survey, fitted with 2 chains of 5,000 + 4,000 iterations. The 90% intervals of
+     * One simulated survey, fitted with 2 chains of 1,000 + 1,000 iterations. The 90% intervals of
      * the coarse shares and of the intended means must cover the truth in at least 10 of 12
      * regions, and the education effects on coarse use must have the true sign with 90%
      * intervals that exclude zero (the issue's checks). With independent intervals of exact
@@ -30,17 +30,14 @@ final class CoarseRecoveryTest {
      * survey err together through their common intercept, which makes a miss likelier; the seed
      * is fixed, so the outcome is deterministic.
      *
-     * <p>The chains must be long: the coarse shares mix slowly (their posterior is a ridge with
-     * the thresholds beside the coarse points). With 2 x (2,500 + 1,500) iterations 9 of 12 shares
-     * covered, one of them missing by 0.001; with 2 x (5,000 + 4,000) and with 2 x (8,000 +
-     * 6,000) the same 10 (VALIDATION.md, recovery studies). The same survey fitted by the sampler
-     * before the threshold rescaling steps (commit a153d57, 2 x (2,500 + 1,500)) gave the same
-     * posterior means to within 0.01.
+     * <p>Before the joint Hamiltonian step the chains had to be long: 2 x (2,500 + 1,500)
+     * iterations covered 9 of 12 shares, 2 x (5,000 + 4,000) 10 (VALIDATION.md, recovery
+     * studies). With it, 2 x (1,000 + 1,000) pass, in a fifth of the time.
      */
     @Test
     void coarseSharesIntendedMeansAndTheEducationEffectAreRecovered(@TempDir Path dir) {
         ModelSpec model = ModelSpec.defaults().withStyleClasses(StyleClasses.coarse(null));
-        RecoveryConfig config = RecoveryConfig.of(DemoTruth.of(DemoTruth.Variant.NO_ATTRACTION), model, 2, 5000, 4000, 11L, 1);
+        RecoveryConfig config = RecoveryConfig.of(DemoTruth.of(DemoTruth.Variant.NO_ATTRACTION), model, 2, 1000, 1000, 11L, 1);
         RecoverySummary summary = Recovery.run(config, dir, false, 2, null, new AtomicBoolean());
         assertEquals(1, summary.replications().size());
         Map<String, QuantityEstimate> estimates = summary.replications().get(0).estimates().stream()

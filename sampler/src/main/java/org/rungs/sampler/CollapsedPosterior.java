@@ -1,0 +1,710 @@
+package org.rungs.sampler;
+
+import org.rungs.models.ResponseLikelihood;
+import org.rungs.models.RoundingChannel;
+import org.rungs.priors.Normal;
+import org.rungs.priors.Priors;
+import org.rungs.priors.StandardNormal;
+
+/**
+ * The log posterior of the parameters that the data touch, with every respondent's latent level,
+ * class, intended answer and rejected draws summed out (MODEL.md 4c), and its gradient: the
+ * target of {@link JointHamiltonianUpdate}. The hyperparameters tau_alpha, tau_d, tau_gamma and tau_a
+ * are read from the chain state and held fixed.
+ *
+ * <p>The vector, in order: the level intercepts alpha[g] and mu_alpha (with one group, alpha
+ * alone), beta, the logs of the M-2 gaps c[k] - c[k-1] between the common thresholds (which fix
+ * them, as they sum to zero, MODEL.md 3), by group each group's deviations d[g,1..M-2]
+ * (d[g,M-1] = minus their sum), then for the coarse class gamma[g] and mu_gamma (or gamma
+ * alone), delta, then the attraction a[g,j] and abar[j] (or a[j] alone). The density is the one
+ * of MODEL.md 3 to 5 times the Jacobian of the gaps' logs, and zero where a group's thresholds
+ * are not increasing. On the log scale the common row's lowest gap, whose long flat tail appears
+ * when most answers at that end can be coarse ones, is closer to Gaussian; the deviations stay
+ * linear because their prior, tau_d, is Gaussian there (on gaps it becomes a funnel: measured,
+ * the joint step's leapfrog steps shrank).
+ */
+final class CollapsedPosterior {
+    private static final double LOG_SQRT_2PI = 0.5 * Math.log(2 * Math.PI);
+    /** Below this a probability is recomputed in log space. */
+    private static final double TINY = 1e-280;
+    /**
+     * The probability path ({@link #plain}) is taken above this probability and within this
+     * distance of 0 for the class probit, where 1 - q and the ratios it divides keep full precision.
+     */
+    private static final double PLAIN_FLOOR = 1e-200;
+    private static final double PLAIN_PROBIT = 6;
+
+    private final ChainState state;
+    private final Priors priors;
+    private final RoundingChannel channel;
+    private final int groups;
+    private final int m;
+    private final int free;
+    private final int levelCount;
+    private final int styleCount;
+    private final int[] attracted;
+    private final boolean pooled;
+    private final boolean byGroup;
+
+    final int alphaAt;
+    final int betaAt;
+    final int commonAt;
+    final int deviationAt;
+    final int gammaAt;
+    final int deltaAt;
+    final int attractionAt;
+    final int attractionMeanAt;
+    private final int dimension;
+
+    /** Coarse point r: the thresholds k with R(r|k-1) != R(r|k), and that difference. */
+    private final int[][] coarseBound;
+    private final double[][] coarseWeight;
+
+    // Unpacked vector and gradient in the model's own coordinates; reused by every call.
+    private final double[] alpha;
+    private final double[] beta;
+    private final double[] rows;
+    private final double[] common;
+    private final double[] gamma;
+    private final double[] delta;
+    private final double[] odds;
+    private final double[] attraction;
+    private final double[] gradAlpha;
+    private final double[] gradBeta;
+    private final double[] gradRows;
+    private final double[] gradGamma;
+    private final double[] gradDelta;
+    private final double[] gradAttraction;
+    private final double[] cdf;
+    private final double[] gradT;
+    private final double[] fullCoords;
+    private int sampled = 1;
+
+    CollapsedPosterior(ChainState state, Priors priors) {
+        this.state = state;
+        this.priors = priors;
+        this.channel = state.channel;
+        this.groups = state.groups;
+        this.m = state.categories;
+        this.free = m - 2;
+        this.levelCount = state.level.count;
+        this.styleCount = state.style == null ? 0 : state.style.count;
+        this.attracted = state.attracted.clone();
+        this.pooled = groups > 1;
+        this.byGroup = state.byGroup;
+        int at = 0;
+        alphaAt = at;
+        at += pooled ? groups + 1 : 1;
+        betaAt = at;
+        at += levelCount;
+        commonAt = at;
+        at += Math.max(free, 0);
+        deviationAt = at;
+        at += byGroup ? groups * free : 0;
+        gammaAt = at;
+        at += channel == null ? 0 : (pooled ? groups + 1 : 1);
+        deltaAt = at;
+        at += styleCount;
+        attractionAt = at;
+        at += attracted.length * (pooled ? groups : 1);
+        attractionMeanAt = at;
+        at += pooled ? attracted.length : 0;
+        dimension = at;
+        coarseBound = new int[m][];
+        coarseWeight = new double[m][];
+        if (channel != null) {
+            for (int r = 0; r < m; r++) {
+                if (!channel.isPoint(r)) {
+                    continue;
+                }
+                int n = 0;
+                int[] bound = new int[m];
+                double[] weight = new double[m];
+                for (int k = 1; k < m; k++) {
+                    double w = channel.probability(r, k - 1) - channel.probability(r, k);
+                    if (w != 0) {
+                        bound[n] = k;
+                        weight[n++] = w;
+                    }
+                }
+                coarseBound[r] = java.util.Arrays.copyOf(bound, n);
+                coarseWeight[r] = java.util.Arrays.copyOf(weight, n);
+            }
+        }
+        alpha = new double[groups];
+        beta = new double[levelCount];
+        rows = new double[groups * (m + 1)];
+        common = new double[m + 1];
+        gamma = new double[groups];
+        delta = new double[styleCount];
+        odds = new double[groups * m];
+        attraction = new double[groups * m];
+        gradAlpha = new double[groups];
+        gradBeta = new double[levelCount];
+        gradRows = new double[groups * (m + 1)];
+        gradGamma = new double[groups];
+        gradDelta = new double[styleCount];
+        gradAttraction = new double[groups * m];
+        cdf = new double[m + 1];
+        gradT = new double[m + 1];
+        fullCoords = new double[m + 1];
+    }
+
+    int dimension() {
+        return dimension;
+    }
+
+    /**
+     * From now on the likelihood reads every {@code every}-th respondent of the sorted survey
+     * (a systematic sample across groups and answers) and counts each that many times: an
+     * approximation, used only to fit the joint step's metric on large surveys.
+     */
+    void sampleEvery(int every) {
+        if (every < 1) {
+            throw new IllegalArgumentException("need every >= 1, got " + every);
+        }
+        this.sampled = every;
+    }
+
+    /** Reads the chain state into {@code theta}. */
+    void read(double[] theta) {
+        ChainState s = state;
+        int stride = m + 1;
+        readBlock(s.level, theta, alphaAt, betaAt);
+        for (int j = 0; j < free; j++) {
+            theta[commonAt + j] = Math.log(s.common[j + 2] - s.common[j + 1]);
+        }
+        if (byGroup) {
+            for (int g = 0; g < groups; g++) {
+                for (int j = 0; j < free; j++) {
+                    theta[deviationAt + g * free + j] = s.thresholds[g * stride + j + 1] - s.common[j + 1];
+                }
+            }
+        }
+        if (channel != null) {
+            readBlock(s.style, theta, gammaAt, deltaAt);
+        }
+        int na = attracted.length;
+        for (int j = 0; j < na; j++) {
+            int k = attracted[j];
+            if (pooled) {
+                for (int g = 0; g < groups; g++) {
+                    theta[attractionAt + g * na + j] = s.attraction[g * m + k];
+                }
+                theta[attractionMeanAt + j] = s.attractionMean[k];
+            } else {
+                theta[attractionAt + j] = s.attraction[k];
+            }
+        }
+    }
+
+    /** A regression block's intercepts then mean (or its one intercept) at {@code at}, its coefficients at {@code coefficientsAt}. */
+    private void readBlock(RegressionBlock block, double[] theta, int at, int coefficientsAt) {
+        if (pooled) {
+            System.arraycopy(block.intercept, 0, theta, at, groups);
+            theta[at + groups] = block.mean;
+        } else {
+            theta[at] = block.intercept[0];
+        }
+        System.arraycopy(block.coefficient, 0, theta, coefficientsAt, block.count);
+    }
+
+    /** Writes {@code theta} into the chain state. */
+    void write(double[] theta) {
+        ChainState s = state;
+        unpack(theta);
+        System.arraycopy(alpha, 0, s.level.intercept, 0, groups);
+        s.level.mean = pooled ? theta[alphaAt + groups] : alpha[0];
+        System.arraycopy(beta, 0, s.level.coefficient, 0, levelCount);
+        System.arraycopy(common, 0, s.common, 0, m + 1);
+        System.arraycopy(rows, 0, s.thresholds, 0, rows.length);
+        if (channel != null) {
+            System.arraycopy(gamma, 0, s.style.intercept, 0, groups);
+            s.style.mean = pooled ? theta[gammaAt + groups] : gamma[0];
+            System.arraycopy(delta, 0, s.style.coefficient, 0, styleCount);
+        }
+        int na = attracted.length;
+        for (int j = 0; j < na; j++) {
+            int k = attracted[j];
+            for (int g = 0; g < groups; g++) {
+                s.attraction[g * m + k] = attraction[g * m + k];
+            }
+            s.attractionMean[k] = pooled ? theta[attractionMeanAt + j] : attraction[k];
+        }
+    }
+
+    /** The log posterior at theta up to a constant; minus infinity where a group's thresholds are not increasing. */
+    double logDensity(double[] theta) {
+        return evaluate(theta, null);
+    }
+
+    /** The log posterior at theta, and its gradient in {@code gradient} (left unset where it is minus infinity). */
+    double gradient(double[] theta, double[] gradient) {
+        return evaluate(theta, gradient);
+    }
+
+    /** Fills the model-coordinate arrays from theta; false if some group's thresholds are not increasing. */
+    private boolean unpack(double[] theta) {
+        int stride = m + 1;
+        if (pooled) {
+            System.arraycopy(theta, alphaAt, alpha, 0, groups);
+        } else {
+            alpha[0] = theta[alphaAt];
+        }
+        System.arraycopy(theta, betaAt, beta, 0, levelCount);
+        fillFromGaps(theta, commonAt, common, 0);
+        boolean increasing = true;
+        for (int g = 0; g < groups; g++) {
+            if (byGroup) {
+                int base = g * stride;
+                double sum = 0;
+                for (int j = 0; j < free; j++) {
+                    double d = theta[deviationAt + g * free + j];
+                    rows[base + j + 1] = common[j + 1] + d;
+                    sum += d;
+                }
+                rows[base + m - 1] = common[m - 1] - sum;
+                rows[base] = Double.NEGATIVE_INFINITY;
+                rows[base + m] = Double.POSITIVE_INFINITY;
+                for (int k = 2; k < m; k++) {
+                    increasing &= rows[base + k] > rows[base + k - 1];
+                }
+            } else {
+                System.arraycopy(common, 0, rows, g * stride, stride);
+            }
+        }
+        if (channel != null) {
+            if (pooled) {
+                System.arraycopy(theta, gammaAt, gamma, 0, groups);
+            } else {
+                gamma[0] = theta[gammaAt];
+            }
+            System.arraycopy(theta, deltaAt, delta, 0, styleCount);
+        }
+        int na = attracted.length;
+        for (int j = 0; j < na; j++) {
+            int k = attracted[j];
+            for (int g = 0; g < groups; g++) {
+                double a = theta[attractionAt + (pooled ? g * na : 0) + j];
+                attraction[g * m + k] = a;
+                odds[g * m + k] = Math.exp(a);
+            }
+        }
+        return increasing;
+    }
+
+    /**
+     * A row of thresholds with sentinels, out[base..base+M], whose entries 1..M-1 sum to zero,
+     * from the logs of its M-2 gaps at theta[from..].
+     */
+    private void fillFromGaps(double[] theta, int from, double[] out, int base) {
+        double value = 0;
+        double sum = 0;
+        out[base + 1] = 0;
+        for (int j = 0; j < free; j++) {
+            value += Math.exp(theta[from + j]);
+            out[base + j + 2] = value;
+            sum += value;
+        }
+        double mean = sum / (m - 1);
+        for (int k = 1; k < m; k++) {
+            out[base + k] -= mean;
+        }
+        out[base] = Double.NEGATIVE_INFINITY;
+        out[base + m] = Double.POSITIVE_INFINITY;
+    }
+
+    /**
+     * Adds to gradient[at..] the gradient in a row's gap logs, given the gradient in its entries
+     * 1..M-1 ({@link #fullCoords}) and the row: entry k minus the row's mean moves with gap log j
+     * by exp(u_j) ([k >= j+2] - (M-2-j)/(M-1)); plus 1 per gap for the Jacobian.
+     */
+    private void gapGradient(double[] row, int base, double[] gradient, int at) {
+        double total = 0;
+        for (int k = 1; k < m; k++) {
+            total += fullCoords[k];
+        }
+        double above = total - fullCoords[1];
+        for (int j = 0; j < free; j++) {
+            double gap = row[base + j + 2] - row[base + j + 1];
+            gradient[at + j] += gap * (above - (m - 2.0 - j) / (m - 1) * total) + 1;
+            above -= fullCoords[j + 2];
+        }
+    }
+
+    private double evaluate(double[] theta, double[] gradient) {
+        java.util.Arrays.fill(odds, 1.0);
+        java.util.Arrays.fill(attraction, 0.0);
+        if (!unpack(theta)) {
+            return Double.NEGATIVE_INFINITY;
+        }
+        boolean grad = gradient != null;
+        if (grad) {
+            java.util.Arrays.fill(gradAlpha, 0);
+            java.util.Arrays.fill(gradBeta, 0);
+            java.util.Arrays.fill(gradRows, 0);
+            java.util.Arrays.fill(gradGamma, 0);
+            java.util.Arrays.fill(gradDelta, 0);
+            java.util.Arrays.fill(gradAttraction, 0);
+        }
+        double logLik = likelihood(grad);
+        if (sampled > 1) {
+            logLik *= sampled;
+            if (grad) {
+                for (double[] part : new double[][] {gradAlpha, gradBeta, gradRows, gradGamma, gradDelta, gradAttraction}) {
+                    for (int j = 0; j < part.length; j++) {
+                        part[j] *= sampled;
+                    }
+                }
+            }
+        }
+        if (grad) {
+            java.util.Arrays.fill(gradient, 0);
+        }
+        double logPrior = prior(theta, gradient);
+        if (grad) {
+            scatter(gradient);
+        }
+        return logLik + logPrior;
+    }
+
+    /** Sum over respondents of log P(r_i) (MODEL.md 4c) and, if asked, its gradient in model coordinates. */
+    private double likelihood(boolean grad) {
+        ChainState s = state;
+        int stride = m + 1;
+        byte[] category = s.category;
+        int[] group = s.group;
+        double[][] x = s.level.columns;
+        double[][] w = s.style == null ? null : s.style.columns;
+        boolean attractionOn = attracted.length > 0;
+        double total = 0;
+        for (int i = 0; i < s.size; i += sampled) {
+            int g = group[i];
+            int r = category[i];
+            int base = g * stride;
+            double eta = alpha[g];
+            for (int p = 0; p < levelCount; p++) {
+                eta += x[p][i] * beta[p];
+            }
+            double zeta = 0;
+            if (channel != null) {
+                zeta = gamma[g];
+                for (int q = 0; q < styleCount; q++) {
+                    zeta += w[q][i] * delta[q];
+                }
+            }
+            if (!attractionOn) {
+                double log = plain(i, g, r, base, eta, zeta, grad);
+                if (!Double.isNaN(log)) {
+                    total += log;
+                    continue;
+                }
+            }
+            double lower = rows[base + r] - eta;
+            double upper = rows[base + r + 1] - eta;
+            double logPi = logInterval(lower, upper);
+            double logFull = logPi;
+            double normaliser = 1;
+            if (attractionOn) {
+                cdf[0] = 0;
+                cdf[m] = 1;
+                for (int k = 1; k < m; k++) {
+                    cdf[k] = StandardNormal.cdf(rows[base + k] - eta);
+                }
+                for (int k : attracted) {
+                    normaliser += (cdf[k + 1] - cdf[k]) * (odds[g * m + k] - 1);
+                }
+                logFull += attraction[g * m + r] - Math.log(normaliser);
+            }
+            double logQ = 0;
+            double logNotQ = 0;
+            double logCoarse = Double.NEGATIVE_INFINITY;
+            double log;
+            boolean point = channel != null && channel.isPoint(r);
+            if (channel == null) {
+                log = logFull;
+            } else {
+                logNotQ = StandardNormal.logUpperTail(zeta);
+                if (point) {
+                    logQ = StandardNormal.logCdf(zeta);
+                    logCoarse = logCoarse(base, r, eta);
+                    log = logSum(logNotQ + logFull, logQ + logCoarse);
+                } else {
+                    log = logNotQ + logFull;
+                }
+            }
+            total += log;
+            if (!grad) {
+                continue;
+            }
+            // d log P / d(threshold - eta) for each threshold of the row, then the chain rule.
+            java.util.Arrays.fill(gradT, 0);
+            double weightFull = channel == null ? 1 : Math.exp(logNotQ + logFull - log);
+            if (r > 0) {
+                gradT[r] -= weightFull * Math.exp(logDensity(lower) - logPi);
+            }
+            if (r < m - 1) {
+                gradT[r + 1] += weightFull * Math.exp(logDensity(upper) - logPi);
+            }
+            if (attractionOn) {
+                for (int k = 1; k < m; k++) {
+                    double change = odds[g * m + k - 1] - odds[g * m + k];
+                    if (change != 0) {
+                        gradT[k] -= weightFull * StandardNormal.density(rows[base + k] - eta) * change / normaliser;
+                    }
+                }
+                gradAttraction[g * m + r] += weightFull;
+                for (int k : attracted) {
+                    gradAttraction[g * m + k] -= weightFull * (cdf[k + 1] - cdf[k]) * odds[g * m + k] / normaliser;
+                }
+            }
+            if (point) {
+                int[] bound = coarseBound[r];
+                double[] weight = coarseWeight[r];
+                for (int b = 0; b < bound.length; b++) {
+                    int k = bound[b];
+                    gradT[k] += weight[b] * Math.exp(logDensity(rows[base + k] - eta) + logQ - log);
+                }
+            }
+            double gradEta = 0;
+            for (int k = 1; k < m; k++) {
+                gradRows[base + k] += gradT[k];
+                gradEta -= gradT[k];
+            }
+            double gradZeta = 0;
+            if (channel != null) {
+                double logPhi = logDensity(zeta);
+                gradZeta = point
+                        ? Math.exp(logPhi + logCoarse - log) - Math.exp(logPhi + logFull - log)
+                        : -Math.exp(logPhi - logNotQ);
+            }
+            chainRule(i, g, gradEta, gradZeta);
+        }
+        return total;
+    }
+
+    /**
+     * Without attraction, respondent i's log-likelihood and gradient computed on probabilities,
+     * which costs about half the normal-function calls of the log-space path; NaN, with nothing
+     * accumulated, when a probability is too small for that or the class probit is far out.
+     */
+    private double plain(int i, int g, int r, int base, double eta, double zeta, boolean grad) {
+        double lower = rows[base + r] - eta;
+        double upper = rows[base + r + 1] - eta;
+        double full = StandardNormal.intervalProbability(lower, upper);
+        if (!(full > PLAIN_FLOOR) || Math.abs(zeta) > PLAIN_PROBIT) {
+            return Double.NaN;
+        }
+        boolean point = channel != null && channel.isPoint(r);
+        double q = channel == null ? 0 : StandardNormal.cdf(zeta);
+        double coarse = 0;
+        double likelihood = channel == null ? full : (1 - q) * full;
+        if (point) {
+            coarse = ResponseLikelihood.coarse(channel, rows, base, r, eta, -1, 0);
+            if (!(coarse > PLAIN_FLOOR)) {
+                return Double.NaN;
+            }
+            likelihood += q * coarse;
+        }
+        if (!grad) {
+            return Math.log(likelihood);
+        }
+        double weightFull = (channel == null ? 1 : 1 - q) / likelihood;
+        double gradEta = 0;
+        if (r > 0) {
+            double v = -weightFull * StandardNormal.density(lower);
+            gradRows[base + r] += v;
+            gradEta -= v;
+        }
+        if (r < m - 1) {
+            double v = weightFull * StandardNormal.density(upper);
+            gradRows[base + r + 1] += v;
+            gradEta -= v;
+        }
+        double gradZeta = 0;
+        if (channel != null) {
+            double phi = StandardNormal.density(zeta);
+            gradZeta = point ? phi * (coarse - full) / likelihood : -phi / (1 - q);
+        }
+        if (point) {
+            int[] bound = coarseBound[r];
+            double[] weight = coarseWeight[r];
+            double weightCoarse = q / likelihood;
+            for (int b = 0; b < bound.length; b++) {
+                int k = bound[b];
+                double v = weight[b] * weightCoarse * StandardNormal.density(rows[base + k] - eta);
+                gradRows[base + k] += v;
+                gradEta -= v;
+            }
+        }
+        chainRule(i, g, gradEta, gradZeta);
+        return Math.log(likelihood);
+    }
+
+    /** Adds respondent i's d log P / d eta and d log P / d zeta to its group's and the coefficients' gradients. */
+    private void chainRule(int i, int g, double gradEta, double gradZeta) {
+        double[][] x = state.level.columns;
+        gradAlpha[g] += gradEta;
+        for (int p = 0; p < levelCount; p++) {
+            gradBeta[p] += x[p][i] * gradEta;
+        }
+        if (channel != null) {
+            double[][] w = state.style.columns;
+            gradGamma[g] += gradZeta;
+            for (int q = 0; q < styleCount; q++) {
+                gradDelta[q] += w[q][i] * gradZeta;
+            }
+        }
+    }
+
+    /** log P(r | coarse, eta) from the row at {@code base} (MODEL.md 4a). */
+    private double logCoarse(int base, int r, double eta) {
+        double p = ResponseLikelihood.coarse(channel, rows, base, r, eta, -1, 0);
+        return p > TINY ? Math.log(p) : ResponseLikelihood.logCoarse(channel, rows, base, r, eta, -1, 0);
+    }
+
+    private static double logInterval(double lower, double upper) {
+        double p = StandardNormal.intervalProbability(lower, upper);
+        return p > TINY ? Math.log(p) : StandardNormal.logIntervalProbability(lower, upper);
+    }
+
+    private static double logDensity(double x) {
+        return -0.5 * x * x - LOG_SQRT_2PI;
+    }
+
+    private static double logSum(double a, double b) {
+        return ResponseLikelihood.logSum(a, b);
+    }
+
+    /** The log prior (MODEL.md 3 and 5) and, if {@code gradient} is not null, its gradient added there. */
+    private double prior(double[] theta, double[] gradient) {
+        ChainState s = state;
+        double lp = pooledNormals(theta, alphaAt, groups, priors.groupMean(), s.level.sd, gradient);
+        lp += normals(theta, betaAt, levelCount, priors.level(), gradient);
+        double thresholdPrecision = priors.threshold().precision();
+        double deviationPrecision = byGroup ? 1.0 / (s.thresholdSd * s.thresholdSd) : 0;
+        for (int k = 1; k < m; k++) {
+            lp -= 0.5 * thresholdPrecision * common[k] * common[k];
+        }
+        for (int j = 0; j < free; j++) {
+            lp += theta[commonAt + j]; // the Jacobian of the gaps' logs
+        }
+        if (byGroup) {
+            int stride = m + 1;
+            for (int g = 0; g < groups; g++) {
+                for (int k = 1; k < m; k++) {
+                    double d = rows[g * stride + k] - common[k];
+                    lp -= 0.5 * deviationPrecision * d * d;
+                }
+            }
+        }
+        if (channel != null) {
+            lp += pooledNormals(theta, gammaAt, groups, priors.styleMean(), s.style.sd, gradient);
+            lp += normals(theta, deltaAt, styleCount, priors.style(), gradient);
+        }
+        int na = attracted.length;
+        if (na > 0) {
+            if (pooled) {
+                lp += normals(theta, attractionMeanAt, na, priors.attractionMean(), gradient);
+                double precision = 1.0 / (s.attractionSd * s.attractionSd);
+                for (int g = 0; g < groups; g++) {
+                    for (int j = 0; j < na; j++) {
+                        double d = theta[attractionAt + g * na + j] - theta[attractionMeanAt + j];
+                        lp -= 0.5 * precision * d * d;
+                        if (gradient != null) {
+                            gradient[attractionAt + g * na + j] -= precision * d;
+                            gradient[attractionMeanAt + j] += precision * d;
+                        }
+                    }
+                }
+            } else {
+                lp += normals(theta, attractionAt, na, priors.attractionMean(), gradient);
+            }
+        }
+        return lp;
+    }
+
+    /** Independent normal priors on theta[from..from+n-1]. */
+    private static double normals(double[] theta, int from, int n, Normal prior, double[] gradient) {
+        double lp = 0;
+        for (int j = 0; j < n; j++) {
+            double x = theta[from + j];
+            lp += prior.logDensity(x);
+            if (gradient != null) {
+                gradient[from + j] -= (x - prior.mean()) * prior.precision();
+            }
+        }
+        return lp;
+    }
+
+    /**
+     * Group intercepts at {@code from} pooled around their mean (stored after them) with spread
+     * {@code sd}, the mean with its prior; with one group the intercept is the mean.
+     */
+    private double pooledNormals(double[] theta, int from, int n, Normal meanPrior, double sd, double[] gradient) {
+        if (!pooled) {
+            return normals(theta, from, 1, meanPrior, gradient);
+        }
+        double mean = theta[from + n];
+        double lp = normals(theta, from + n, 1, meanPrior, gradient);
+        double precision = 1.0 / (sd * sd);
+        for (int g = 0; g < n; g++) {
+            double d = theta[from + g] - mean;
+            lp -= 0.5 * precision * d * d;
+            if (gradient != null) {
+                gradient[from + g] -= precision * d;
+                gradient[from + n] += precision * d;
+            }
+        }
+        return lp;
+    }
+
+    /** Adds the likelihood's gradient, held in model coordinates, to the vector's coordinates. */
+    private void scatter(double[] gradient) {
+        ChainState s = state;
+        int stride = m + 1;
+        for (int g = 0; g < groups; g++) {
+            gradient[alphaAt + (pooled ? g : 0)] += gradAlpha[g];
+        }
+        for (int p = 0; p < levelCount; p++) {
+            gradient[betaAt + p] += gradBeta[p];
+        }
+        // The gradient in the entries 1..M-1 of the common row (which every group row follows),
+        // then in its gap logs; each group's in its deviations d[g,1..M-2], d[g,M-1] = -their sum.
+        double thresholdPrecision = priors.threshold().precision();
+        double deviationPrecision = byGroup ? 1.0 / (s.thresholdSd * s.thresholdSd) : 0;
+        for (int k = 1; k < m; k++) {
+            double sum = -thresholdPrecision * common[k];
+            for (int g = 0; g < groups; g++) {
+                sum += gradRows[g * stride + k];
+            }
+            fullCoords[k] = sum;
+        }
+        gapGradient(common, 0, gradient, commonAt);
+        if (byGroup) {
+            for (int g = 0; g < groups; g++) {
+                for (int k = 1; k < m; k++) {
+                    fullCoords[k] = gradRows[g * stride + k] - deviationPrecision * (rows[g * stride + k] - common[k]);
+                }
+                for (int j = 0; j < free; j++) {
+                    gradient[deviationAt + g * free + j] += fullCoords[j + 1] - fullCoords[m - 1];
+                }
+            }
+        }
+        if (channel != null) {
+            for (int g = 0; g < groups; g++) {
+                gradient[gammaAt + (pooled ? g : 0)] += gradGamma[g];
+            }
+            for (int q = 0; q < styleCount; q++) {
+                gradient[deltaAt + q] += gradDelta[q];
+            }
+        }
+        int na = attracted.length;
+        for (int j = 0; j < na; j++) {
+            int k = attracted[j];
+            for (int g = 0; g < groups; g++) {
+                gradient[attractionAt + (pooled ? g * na : 0) + j] += gradAttraction[g * m + k];
+            }
+        }
+    }
+}
