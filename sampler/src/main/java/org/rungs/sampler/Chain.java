@@ -17,19 +17,20 @@ import org.rungs.priors.Priors;
 import org.rungs.posteriors.Draws;
 
 /**
- * One Markov chain: its state and the cycle of updates of one sweep, in the order collapsed
- * threshold steps (coarse class or attraction on), threshold hyperparameters, style classes
- * (when on), number attraction (when on), latent levels, threshold rescaling steps, level
- * coefficients and group levels, their pooling, then the coarse class's coefficients and pooling.
+ * One Markov chain: its state and the cycle of updates of one sweep, in the order the joint
+ * Hamiltonian step and the collapsed threshold steps (coarse class or attraction on), threshold
+ * hyperparameters, style classes (when on), number attraction (when on), latent levels, threshold
+ * rescaling steps, level coefficients and group levels, their pooling, then the coarse class's
+ * coefficients and pooling.
  *
- * <p>The collapsed threshold steps and the classes' intercepts are drawn with the classes, the
- * latent levels and the rejected draws of the attraction scheme integrated out; then the classes,
- * then the attraction given the classes, then the latent levels and rejected draws given both.
- * Each quantity integrated out is redrawn before any later step conditions on it, so the cycle
- * leaves the posterior invariant (van Dyk & Park 2008, Partially collapsed Gibbs samplers, JASA
- * 103, section 3). The rescaling steps then move every threshold with the latent values
- * (Liu & Sabatti 2000), at a cost independent of the number of respondents; in the plain model
- * they are the only threshold steps.
+ * <p>The joint step, the collapsed threshold steps and the classes' intercepts are drawn with the
+ * classes, the latent levels and the rejected draws of the attraction scheme integrated out;
+ * then the classes, then the attraction given the classes, then the latent levels and rejected
+ * draws given both. Each quantity integrated out is redrawn before any later step conditions on
+ * it, so the cycle leaves the posterior invariant (van Dyk & Park 2008, Partially collapsed Gibbs
+ * samplers, JASA 103, section 3). The rescaling steps then move every threshold with the latent
+ * values (Liu & Sabatti 2000), at a cost independent of the number of respondents; in the plain
+ * model they are the only threshold steps.
  *
  * <p>Its future depends only on its state, the state of its updates and its random stream, which
  * together make its checkpoint: restoring them continues the chain bit for bit.
@@ -160,6 +161,16 @@ final class Chain implements Checkpointed {
                 ((Checkpointed) u).restore(in);
             }
         }
+    }
+
+    /** Acceptance of the joint Hamiltonian step while sampling; NaN when the sweep has none or it never started. */
+    double jointAcceptance() {
+        for (Update u : sweep) {
+            if (u instanceof JointHamiltonianUpdate) {
+                return ((JointHamiltonianUpdate) u).acceptanceRate();
+            }
+        }
+        return Double.NaN;
     }
 
     /** Acceptance of the rescaling steps, made in every mode. */

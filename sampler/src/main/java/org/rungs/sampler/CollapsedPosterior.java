@@ -9,19 +9,21 @@ import org.rungs.priors.StandardNormal;
 /**
  * The log posterior of the parameters that the data touch, with every respondent's latent level,
  * class, intended answer and rejected draws summed out (MODEL.md 4c), and its gradient: the
- * target of {@link JointHamiltonianUpdate}. The hyperparameters tau_alpha, tau_d, tau_gamma and tau_a
- * are read from the chain state and held fixed.
+ * target of {@link JointHamiltonianUpdate}. The hyperparameters tau_alpha, tau_d and tau_gamma are
+ * read from the chain state and held fixed; tau_a is part of the vector.
  *
  * <p>The vector, in order: the level intercepts alpha[g] and mu_alpha (with one group, alpha
  * alone), beta, the logs of the M-2 gaps c[k] - c[k-1] between the common thresholds (which fix
  * them, as they sum to zero, MODEL.md 3), by group each group's deviations d[g,1..M-2]
  * (d[g,M-1] = minus their sum), then for the coarse class gamma[g] and mu_gamma (or gamma
- * alone), delta, then the attraction a[g,j] and abar[j] (or a[j] alone). The density is the one
- * of MODEL.md 3 to 5 times the Jacobian of the gaps' logs, and zero where a group's thresholds
- * are not increasing. On the log scale the common row's lowest gap, whose long flat tail appears
- * when most answers at that end can be coarse ones, is closer to Gaussian; the deviations stay
- * linear because their prior, tau_d, is Gaussian there (on gaps it becomes a funnel: measured,
- * the joint step's leapfrog steps shrank).
+ * alone), delta, then the attraction: with several groups non-centred, z[g,j] with
+ * a[g,j] = abar[j] + tau_a z[g,j], then abar[j], then log tau_a (the group deviations are weakly
+ * identified, and centred they and tau_a form a funnel); with one group a[j] alone. The density
+ * is the one of MODEL.md 3 to 5 in these coordinates (with the Jacobians of the logs and of z),
+ * and zero where a group's thresholds are not increasing. On the log scale the common row's
+ * lowest gap, whose long flat tail appears when most answers at that end can be coarse ones, is
+ * closer to Gaussian; the threshold deviations stay linear because their prior, tau_d, is
+ * Gaussian there (on gaps it becomes a funnel: measured, the joint step's leapfrog steps shrank).
  */
 final class CollapsedPosterior {
     private static final double LOG_SQRT_2PI = 0.5 * Math.log(2 * Math.PI);
@@ -54,6 +56,8 @@ final class CollapsedPosterior {
     final int deltaAt;
     final int attractionAt;
     final int attractionMeanAt;
+    /** log tau_a, when attraction is on with several groups; -1 otherwise. */
+    final int attractionSdAt;
     private final int dimension;
 
     /** Coarse point r: the thresholds k with R(r|k-1) != R(r|k), and that difference. */
@@ -69,6 +73,9 @@ final class CollapsedPosterior {
     private final double[] delta;
     private final double[] odds;
     private final double[] attraction;
+    /** Unpacked abar[j] by position in A, and tau_a (with several groups). */
+    private final double[] means;
+    private double spread;
     private final double[] gradAlpha;
     private final double[] gradBeta;
     private final double[] gradRows;
@@ -109,6 +116,7 @@ final class CollapsedPosterior {
         at += attracted.length * (pooled ? groups : 1);
         attractionMeanAt = at;
         at += pooled ? attracted.length : 0;
+        attractionSdAt = pooled && attracted.length > 0 ? at++ : -1;
         dimension = at;
         coarseBound = new int[m][];
         coarseWeight = new double[m][];
@@ -139,6 +147,7 @@ final class CollapsedPosterior {
         delta = new double[styleCount];
         odds = new double[groups * m];
         attraction = new double[groups * m];
+        means = new double[attracted.length];
         gradAlpha = new double[groups];
         gradBeta = new double[levelCount];
         gradRows = new double[groups * (m + 1)];
@@ -189,12 +198,15 @@ final class CollapsedPosterior {
             int k = attracted[j];
             if (pooled) {
                 for (int g = 0; g < groups; g++) {
-                    theta[attractionAt + g * na + j] = s.attraction[g * m + k];
+                    theta[attractionAt + g * na + j] = (s.attraction[g * m + k] - s.attractionMean[k]) / s.attractionSd;
                 }
                 theta[attractionMeanAt + j] = s.attractionMean[k];
             } else {
                 theta[attractionAt + j] = s.attraction[k];
             }
+        }
+        if (attractionSdAt >= 0) {
+            theta[attractionSdAt] = Math.log(s.attractionSd);
         }
     }
 
@@ -230,6 +242,9 @@ final class CollapsedPosterior {
                 s.attraction[g * m + k] = attraction[g * m + k];
             }
             s.attractionMean[k] = pooled ? theta[attractionMeanAt + j] : attraction[k];
+        }
+        if (attractionSdAt >= 0) {
+            s.attractionSd = Math.exp(theta[attractionSdAt]);
         }
     }
 
@@ -282,10 +297,14 @@ final class CollapsedPosterior {
             System.arraycopy(theta, deltaAt, delta, 0, styleCount);
         }
         int na = attracted.length;
+        spread = attractionSdAt >= 0 ? Math.exp(theta[attractionSdAt]) : 0;
         for (int j = 0; j < na; j++) {
             int k = attracted[j];
+            means[j] = pooled ? theta[attractionMeanAt + j] : 0;
             for (int g = 0; g < groups; g++) {
-                double a = theta[attractionAt + (pooled ? g * na : 0) + j];
+                double a = pooled
+                        ? means[j] + spread * theta[attractionAt + g * na + j]
+                        : theta[attractionAt + j];
                 attraction[g * m + k] = a;
                 odds[g * m + k] = Math.exp(a);
             }
@@ -605,17 +624,24 @@ final class CollapsedPosterior {
         int na = attracted.length;
         if (na > 0) {
             if (pooled) {
+                // Non-centred: t[g,j] = tau_a z[g,j] with z standard normal, and log tau_a with
+                // its Half-Normal prior and the Jacobian tau_a.
                 lp += normals(theta, attractionMeanAt, na, priors.attractionMean(), gradient);
-                double precision = 1.0 / (s.attractionSd * s.attractionSd);
                 for (int g = 0; g < groups; g++) {
                     for (int j = 0; j < na; j++) {
-                        double d = theta[attractionAt + g * na + j] - theta[attractionMeanAt + j];
-                        lp -= 0.5 * precision * d * d;
+                        double z = theta[attractionAt + g * na + j];
+                        lp -= 0.5 * z * z;
                         if (gradient != null) {
-                            gradient[attractionAt + g * na + j] -= precision * d;
-                            gradient[attractionMeanAt + j] += precision * d;
+                            gradient[attractionAt + g * na + j] -= z;
                         }
                     }
+                }
+                double logSd = theta[attractionSdAt];
+                double sd = Math.exp(logSd);
+                lp += priors.attractionSd().logDensity(sd) + logSd;
+                if (gradient != null) {
+                    double scale = priors.attractionSd().sd();
+                    gradient[attractionSdAt] += 1 - sd * sd / (scale * scale);
                 }
             } else {
                 lp += normals(theta, attractionAt, na, priors.attractionMean(), gradient);
@@ -703,7 +729,15 @@ final class CollapsedPosterior {
         for (int j = 0; j < na; j++) {
             int k = attracted[j];
             for (int g = 0; g < groups; g++) {
-                gradient[attractionAt + (pooled ? g * na : 0) + j] += gradAttraction[g * m + k];
+                double d = gradAttraction[g * m + k];
+                if (pooled) {
+                    // a = abar + tau z: d/dz = tau d/da, d/dabar = d/da, d/dlog tau = (a - abar) d/da
+                    gradient[attractionAt + g * na + j] += spread * d;
+                    gradient[attractionMeanAt + j] += d;
+                    gradient[attractionSdAt] += (attraction[g * m + k] - means[j]) * d;
+                } else {
+                    gradient[attractionAt + j] += d;
+                }
             }
         }
     }

@@ -11,8 +11,10 @@ import org.rungs.posteriors.Draws;
  * @param settings             the sampler settings used, with the seed actually used
  * @param seconds              wall-clock time of the sampling
  * @param thresholdAcceptance  per chain, the share of accepted threshold proposals while sampling
+ * @param jointAcceptance      per chain, the share of accepted joint Hamiltonian proposals while
+ *                             sampling; NaN when the model has no such step (plain ordered probit)
  * @param interrupted          true when the run was stopped before all iterations were done
  */
 public record FitResult(Draws draws, ParameterLayout layout, SamplerSettings settings, double seconds,
-                        double[] thresholdAcceptance, boolean interrupted) {
+                        double[] thresholdAcceptance, double[] jointAcceptance, boolean interrupted) {
 }

@@ -58,6 +58,7 @@ public final class Fitter {
         Draws draws = new Draws(layout.names(), settings.chains(), settings.draws());
         int[] kept = new int[settings.chains()];
         double[] acceptance = new double[settings.chains()];
+        double[] joint = new double[settings.chains()];
         long start = System.nanoTime();
         ExecutorService pool = Executors.newFixedThreadPool(Math.min(settings.threads(), settings.chains()), r -> {
             Thread t = new Thread(r, "rungs-chain");
@@ -77,6 +78,7 @@ public final class Fitter {
                         throw new UncheckedIOException("checkpoint of chain " + (chain + 1) + ": " + e.getMessage(), e);
                     }
                     acceptance[chain] = run.thresholdAcceptance();
+                    joint[chain] = run.jointAcceptance();
                 }));
             }
             for (Future<?> f : futures) {
@@ -100,6 +102,6 @@ public final class Fitter {
         }
         boolean interrupted = common < settings.draws();
         Draws result = interrupted ? draws.withIterations(common) : draws;
-        return new FitResult(result, layout, settings, (System.nanoTime() - start) / 1e9, acceptance, interrupted);
+        return new FitResult(result, layout, settings, (System.nanoTime() - start) / 1e9, acceptance, joint, interrupted);
     }
 }

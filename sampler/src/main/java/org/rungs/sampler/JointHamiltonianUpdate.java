@@ -156,10 +156,12 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
             probability = Double.isNaN(next) ? 0 : Math.min(1, Math.exp(energy - next));
         }
         boolean accept = rng.nextDouble() < probability;
-        proposed++;
         if (accept) {
-            accepted++;
             posterior.write(proposal);
+        }
+        if (!adapt) {
+            proposed++;
+            accepted += accept ? 1 : 0;
         }
         if (adapt) {
             logStep += Math.pow(warmupCalls - stepStart + 1.0, -0.6) * (probability - TARGET);
@@ -240,7 +242,7 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
         solveLower(g);
     }
 
-    /** Share of proposals accepted so far (NaN before the first). */
+    /** Share of proposals accepted while sampling (NaN before the first, or when the step never started). */
     double acceptanceRate() {
         return proposed == 0 ? Double.NaN : (double) accepted / proposed;
     }

@@ -109,11 +109,16 @@ class CollapsedPosteriorTest {
                 total += PRIORS.style().logDensity(b);
             }
         }
+        if (s.attracted.length > 0) {
+            // The vector holds z = (a - abar) / tau_a and log tau_a: their Jacobian, and tau_a's prior.
+            total += PRIORS.attractionSd().logDensity(s.attractionSd)
+                    + (s.groups * s.attracted.length + 1) * Math.log(s.attractionSd);
+        }
         for (int k : s.attracted) {
             total += PRIORS.attractionMean().logDensity(s.attractionMean[k]);
             for (int g = 0; g < s.groups; g++) {
                 double d = s.attraction[g * m + k] - s.attractionMean[k];
-                total += -0.5 * d * d / (s.attractionSd * s.attractionSd);
+                total += -0.5 * d * d / (s.attractionSd * s.attractionSd) - Math.log(s.attractionSd);
             }
         }
         return total;

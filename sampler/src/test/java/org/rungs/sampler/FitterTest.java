@@ -65,6 +65,34 @@ class FitterTest {
     }
 
     /**
+     * With the coarse class on, the joint Hamiltonian step (fitted half-way through warm-up, its
+     * metric refitted at three quarters) keeps the draws independent of the thread count, and its
+     * acceptance while sampling is recorded per chain; the plain model has no such step.
+     */
+    @Test
+    void coarseFitIsTheSameWhateverTheThreadsAndRecordsItsJointStep() {
+        Survey plain = smallSurvey(2L, 80);
+        Survey survey = Survey.of(plain.scale(), plain.category(), plain.group(), List.of("north", "south", "east", "west"),
+                plain.level(), Covariates.fromNumeric(List.of("w"), List.of(plain.level().column(0).clone())), null);
+        ModelSpec spec = new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults(), org.rungs.models.StyleClasses.coarse(null));
+        FitResult one = Fitter.fit(survey, spec, new SamplerSettings(3, 40, 20, 11L, 1), ProgressListener.NONE, new AtomicBoolean());
+        FitResult three = Fitter.fit(survey, spec, new SamplerSettings(3, 40, 20, 11L, 3), ProgressListener.NONE, new AtomicBoolean());
+        for (int p = 0; p < one.draws().parameterCount(); p++) {
+            for (int c = 0; c < 3; c++) {
+                assertArrayEquals(one.draws().chainsOf(p)[c], three.draws().chainsOf(p)[c], one.draws().names().get(p));
+            }
+        }
+        for (double a : one.jointAcceptance()) {
+            assertTrue(a > 0 && a <= 1, "joint step acceptance " + a);
+        }
+        FitResult ordinal = Fitter.fit(plain, new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults()),
+                new SamplerSettings(2, 40, 20, 11L, 2), ProgressListener.NONE, new AtomicBoolean());
+        for (double a : ordinal.jointAcceptance()) {
+            assertTrue(Double.isNaN(a), "no joint step in the plain model");
+        }
+    }
+
+    /**
      * Thinning keeps iterations of the same chain: after the same warm-up, draw t of a fit that
      * keeps one iteration in 3 is draw 3t + 2 of the fit that keeps them all (coarse class on, so
      * every kind of update runs between kept draws). Exact equality: same seed, same stream.

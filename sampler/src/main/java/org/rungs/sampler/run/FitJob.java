@@ -285,11 +285,19 @@ public final class FitJob {
         m.put("threads", result.settings().threads());
         m.put("seconds", result.seconds());
         m.put("interrupted", result.interrupted());
-        StringBuilder acc = new StringBuilder();
-        for (double a : result.thresholdAcceptance()) {
-            acc.append(acc.length() == 0 ? "" : ", ").append(String.format(Locale.ROOT, "%.3f", a));
+        m.put("threshold_acceptance_per_chain", perChain(result.thresholdAcceptance()));
+        if (java.util.Arrays.stream(result.jointAcceptance()).anyMatch(Double::isFinite)) {
+            m.put("joint_step_acceptance_per_chain", perChain(result.jointAcceptance()));
         }
-        m.put("threshold_acceptance_per_chain", acc.toString());
         return m;
+    }
+
+    /** "0.712, 0.698, ..." */
+    private static String perChain(double[] values) {
+        StringBuilder sb = new StringBuilder();
+        for (double v : values) {
+            sb.append(sb.length() == 0 ? "" : ", ").append(String.format(Locale.ROOT, "%.3f", v));
+        }
+        return sb.toString();
     }
 }
