@@ -8,6 +8,7 @@ import java.util.concurrent.ExecutionException;
 import java.util.concurrent.ExecutorService;
 import java.util.concurrent.Executors;
 import java.util.concurrent.Future;
+import java.util.concurrent.TimeUnit;
 import java.util.concurrent.atomic.AtomicBoolean;
 import org.apache.commons.rng.RestorableUniformRandomProvider;
 import org.rungs.models.ModelSpec;
@@ -42,6 +43,24 @@ public final class Fitter {
     public static FitResult fit(Survey survey, ModelSpec spec, SamplerSettings settings,
                                 ProgressListener progress, AtomicBoolean stop) {
         return fit(survey, spec, settings, progress, stop, Checkpoints.none());
+    }
+
+    /**
+     * Waits until every chain has stopped, so that no chain writes a draw or a checkpoint after the
+     * fit has returned or thrown (a failed or interrupted fit must leave nothing being written).
+     */
+    private static void awaitChains(ExecutorService pool) {
+        boolean interrupted = false;
+        while (!pool.isTerminated()) {
+            try {
+                pool.awaitTermination(1, TimeUnit.SECONDS); // chains check the stop flag once per iteration
+            } catch (InterruptedException e) {
+                interrupted = true;
+            }
+        }
+        if (interrupted) {
+            Thread.currentThread().interrupt();
+        }
     }
 
     /**
@@ -88,6 +107,7 @@ public final class Fitter {
             Thread.currentThread().interrupt();
             stop.set(true);
         } catch (ExecutionException e) {
+            stop.set(true); // the other chains end at their next iteration
             Throwable cause = e.getCause();
             if (cause instanceof RuntimeException) {
                 throw (RuntimeException) cause;
@@ -95,6 +115,7 @@ public final class Fitter {
             throw new IllegalStateException(cause);
         } finally {
             pool.shutdownNow();
+            awaitChains(pool);
         }
         int common = settings.draws();
         for (int k : kept) {
