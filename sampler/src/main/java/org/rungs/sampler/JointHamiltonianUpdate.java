@@ -15,11 +15,13 @@ import org.rungs.priors.Priors;
  * posterior with the latent levels, classes and rejected draws summed out
  * ({@link CollapsedPosterior}): a Hamiltonian proposal (Duane, Kennedy, Pendleton & Roweth 1987,
  * Hybrid Monte Carlo, Physics Letters B 195; Neal 2011, MCMC using Hamiltonian dynamics, Handbook
- * of MCMC, chapter 5, eq. 5.18-5.20 for the leapfrog steps and 4.3 for the metric) accepted with
- * the Metropolis ratio of the joint energy, so the posterior stays exact. It mixes the direction
+ * of MCMC, chapter 5: the leapfrog steps of section 2.3 and, as the metric, the linear
+ * transformation of section 4.1; section numbers from memory) accepted with the Metropolis ratio
+ * of the joint energy, so the posterior stays exact. It mixes the direction
  * that the Gibbs steps crawl along: the coarse share traded against the end and middle thresholds
  * and the style coefficients, survey-wide, which the augmented classes and levels pin down from
- * one sweep to the next (bulk ESS of the demo's slowest parameter from about 30 to over 400).
+ * one sweep to the next (bulk ESS of the demo's slowest parameter from about 30 to 190 to 404,
+ * depending on the seed).
  *
  * <p>Warm-up, in sweeps: off for the first half. At half-way the metric is fitted at the chain's
  * state: H, minus the Hessian by finite differences of the exact gradient, made positive definite
@@ -36,12 +38,12 @@ import org.rungs.priors.Priors;
  * Park 2008, section 3).
  */
 final class JointHamiltonianUpdate implements Update, Checkpointed {
-    /** Mean acceptance probability aimed at (Neal 2011, section 5.4.2: 0.65 and above is efficient). */
+    /** Mean acceptance probability aimed at (Neal 2011, section 4.2, from memory: about 0.65 is optimal in high dimension). */
     private static final double TARGET = 0.7;
     /**
      * Trajectory length in units of the metric, and a cap on leapfrog steps. On the demo a length
-     * of 1 kept the slowest bulk ESS above 400 with 6 leapfrog steps; 1.5 cost a third more time
-     * for no more ESS.
+     * of 1 gave the slowest bulk ESS 404 with 6 leapfrog steps (default seed); 1.5 cost a third
+     * more time for no more ESS.
      */
     private static final double LENGTH = 1.0;
     private static final int MAX_LEAPS = 12;
