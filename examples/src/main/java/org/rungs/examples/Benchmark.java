@@ -141,9 +141,19 @@ public final class Benchmark {
     }
 
     /** One timed single-chain, single-thread fit. */
-    public record Timing(int respondents, int sweeps, double seconds) {
+    /**
+     * One timed fit: all its sweeps, and separately its sampling sweeps (after warm-up and the
+     * one-off fitting of the joint step's metric), with the joint step's acceptance while sampling
+     * (NaN when the model has no joint step).
+     */
+    public record Timing(int respondents, int sweeps, double seconds, int samplingSweeps, double samplingSeconds,
+                         double jointAcceptance) {
         public double nanosPerRespondentSweep() {
             return seconds * 1e9 / ((double) respondents * sweeps);
+        }
+
+        public double samplingNanosPerRespondentSweep() {
+            return samplingSeconds * 1e9 / ((double) respondents * samplingSweeps);
         }
     }
 
@@ -199,18 +209,29 @@ public final class Benchmark {
         for (int n : settings.sizes()) {
             int sweeps = (int) Math.max(2, Math.round((double) settings.sweeps() * largest / n / divisor));
             Survey survey = survey(scenario.apply(n), settings.seed());
-            FitResult result = fit(survey, model, new SamplerSettings(1, sweeps / 2, sweeps - sweeps / 2, settings.seed(), 1));
-            Timing t = new Timing(n, sweeps, result.seconds());
+            long[] samplingFrom = {0};
+            ProgressListener clock = (chain, done, total, warmingUp) -> {
+                if (done == sweeps / 2) {
+                    samplingFrom[0] = System.nanoTime();
+                }
+            };
+            FitResult result = Fitter.fit(survey, model, new SamplerSettings(1, sweeps / 2, sweeps - sweeps / 2, settings.seed(), 1),
+                    clock, new AtomicBoolean());
+            double sampling = (System.nanoTime() - samplingFrom[0]) / 1e9;
+            Timing t = new Timing(n, sweeps, result.seconds(), sweeps - sweeps / 2, sampling, result.jointAcceptance()[0]);
             timings.add(t);
-            log.printf(Locale.ROOT, "benchmark: %s%,d respondents, %d sweeps, %.1f s, %.1f ns per respondent per sweep%n",
-                    label, n, sweeps, t.seconds(), t.nanosPerRespondentSweep());
+            log.printf(Locale.ROOT, "benchmark: %s%,d respondents, %d sweeps, %.1f s, %.1f ns per respondent per sweep"
+                    + " (sampling sweeps %.1f), joint step acceptance %.2f%n",
+                    label, n, sweeps, t.seconds(), t.nanosPerRespondentSweep(), t.samplingNanosPerRespondentSweep(),
+                    t.jointAcceptance());
         }
         return timings;
     }
 
     private static void timingTable(StringBuilder sb, List<Timing> timings) {
-        sb.append("| respondents | sweeps | seconds | ns per respondent per sweep | time per sweep vs previous size |\n");
-        sb.append("|---:|---:|---:|---:|---:|\n");
+        sb.append("| respondents | sweeps | seconds | ns per respondent per sweep | the same over the sampling sweeps"
+                + " | joint step acceptance | time per sweep vs previous size |\n");
+        sb.append("|---:|---:|---:|---:|---:|---:|---:|\n");
         Timing previous = null;
         for (Timing t : timings) {
             String ratio = "";
@@ -220,8 +241,9 @@ public final class Benchmark {
                 ratio = String.format(Locale.ROOT, "%.2fx for %.0fx respondents", perSweep / previousPerSweep,
                         (double) t.respondents() / previous.respondents());
             }
-            sb.append(String.format(Locale.ROOT, "| %,d | %d | %.1f | %.1f | %s |%n", t.respondents(), t.sweeps(),
-                    t.seconds(), t.nanosPerRespondentSweep(), ratio));
+            String acceptance = Double.isNaN(t.jointAcceptance()) ? "-" : String.format(Locale.ROOT, "%.2f", t.jointAcceptance());
+            sb.append(String.format(Locale.ROOT, "| %,d | %d | %.1f | %.1f | %.1f | %s | %s |%n", t.respondents(), t.sweeps(),
+                    t.seconds(), t.nanosPerRespondentSweep(), t.samplingNanosPerRespondentSweep(), acceptance, ratio));
             previous = t;
         }
     }

@@ -59,6 +59,15 @@ final class CollapsedPosterior {
     /** log tau_a, when attraction is on with several groups; -1 otherwise. */
     final int attractionSdAt;
     private final int dimension;
+    /**
+     * Per coordinate, the group whose respondents and prior terms alone it touches (-1 for a
+     * survey-wide one) and its position among that group's own coordinates; by group and position,
+     * the coordinate.
+     */
+    private final int[] owner;
+    private final int[] slot;
+    private final int slots;
+    private final int[] member;
 
     /** Coarse point r: the thresholds k with R(r|k-1) != R(r|k), and that difference. */
     private final int[][] coarseBound;
@@ -118,6 +127,23 @@ final class CollapsedPosterior {
         at += pooled ? attracted.length : 0;
         attractionSdAt = pooled && attracted.length > 0 ? at++ : -1;
         dimension = at;
+        owner = new int[dimension];
+        slot = new int[dimension];
+        java.util.Arrays.fill(owner, -1);
+        int perGroup = 0;
+        if (pooled) {
+            perGroup = own(alphaAt, 1, perGroup);
+            perGroup = own(deviationAt, byGroup ? free : 0, perGroup);
+            perGroup = own(gammaAt, channel == null ? 0 : 1, perGroup);
+            perGroup = own(attractionAt, attracted.length, perGroup);
+        }
+        slots = perGroup;
+        member = new int[groups * slots];
+        for (int k = 0; k < dimension; k++) {
+            if (owner[k] >= 0) {
+                member[owner[k] * slots + slot[k]] = k;
+            }
+        }
         coarseBound = new int[m][];
         coarseWeight = new double[m][];
         if (channel != null) {
@@ -161,6 +187,109 @@ final class CollapsedPosterior {
 
     int dimension() {
         return dimension;
+    }
+
+    /** Marks the block at {@code at}, {@code width} coordinates per group laid out group by group, as the groups' own from position {@code first}. */
+    private int own(int at, int width, int first) {
+        for (int g = 0; g < groups; g++) {
+            for (int j = 0; j < width; j++) {
+                owner[at + g * width + j] = g;
+                slot[at + g * width + j] = first + j;
+            }
+        }
+        return first + width;
+    }
+
+    /**
+     * Minus the Hessian of the log density at x, row-major d x d, by forward differences of the
+     * gradient (step 1e-6 max(1, |x_j|), reversed where it leaves the support), symmetrised; null
+     * if the gradient cannot be evaluated near x. A group's own coordinates (alpha[g], d[g,.],
+     * gamma[g], z[g,.]) touch only its respondents and its prior terms, so two groups' own
+     * coordinates share no Hessian entry and one gradient perturbs the same coordinate of every
+     * group at once (Curtis, Powell & Reid 1974, "On the estimation of sparse Jacobian matrices",
+     * J. Inst. Maths Applics 13, 117-119): 1 + (survey-wide coordinates) + (coordinates per group)
+     * gradients instead of d + 1.
+     */
+    double[] negativeHessian(double[] x) {
+        int d = dimension;
+        double[] base = new double[d];
+        if (gradient(x, base) == Double.NEGATIVE_INFINITY) {
+            return null;
+        }
+        double[] h = new double[d * d];
+        boolean[] known = new boolean[d * d];
+        double[] step = new double[d];
+        for (int j = 0; j < d; j++) {
+            step[j] = 1e-6 * Math.max(1, Math.abs(x[j]));
+        }
+        double[] moved = new double[d];
+        for (int j = 0; j < d; j++) {
+            if (owner[j] < 0 && !column(x, new int[] {j}, step, base, moved, h, known)) {
+                return null;
+            }
+        }
+        for (int s = 0; s < slots; s++) {
+            int[] set = new int[groups];
+            for (int g = 0; g < groups; g++) {
+                set[g] = member[g * slots + s];
+            }
+            if (!perturbed(x, set, step, moved)) {
+                for (int c : set) {
+                    if (!column(x, new int[] {c}, step, base, moved, h, known)) {
+                        return null;
+                    }
+                }
+                continue;
+            }
+            for (int i = 0; i < d; i++) {
+                if (owner[i] >= 0) {
+                    int c = member[owner[i] * slots + s];
+                    h[i * d + c] = -(moved[i] - base[i]) / step[c];
+                    known[i * d + c] = true;
+                }
+            }
+        }
+        for (int i = 0; i < d; i++) {
+            for (int j = 0; j < i; j++) {
+                boolean a = known[i * d + j];
+                boolean b = known[j * d + i];
+                double v = a && b ? 0.5 * (h[i * d + j] + h[j * d + i]) : a ? h[i * d + j] : b ? h[j * d + i] : 0;
+                h[i * d + j] = v;
+                h[j * d + i] = v;
+            }
+        }
+        return h;
+    }
+
+    /** Fills column {@code set[0]} of h from one perturbed gradient; false if it cannot be evaluated. */
+    private boolean column(double[] x, int[] set, double[] step, double[] base, double[] moved, double[] h, boolean[] known) {
+        if (!perturbed(x, set, step, moved)) {
+            return false;
+        }
+        int d = dimension;
+        int c = set[0];
+        for (int i = 0; i < d; i++) {
+            h[i * d + c] = -(moved[i] - base[i]) / step[c];
+            known[i * d + c] = true;
+        }
+        return true;
+    }
+
+    /** The gradient with every coordinate of {@code set} moved by its step, or by minus it where that leaves the support. */
+    private boolean perturbed(double[] x, int[] set, double[] step, double[] moved) {
+        double[] point = x.clone();
+        for (int sign = 0; sign < 2; sign++) {
+            for (int c : set) {
+                if (sign == 1) {
+                    step[c] = -step[c];
+                }
+                point[c] = x[c] + step[c];
+            }
+            if (gradient(point, moved) != Double.NEGATIVE_INFINITY) {
+                return true;
+            }
+        }
+        return false;
     }
 
     /**

@@ -24,9 +24,10 @@ import org.rungs.priors.Priors;
  * depending on the seed).
  *
  * <p>Warm-up, in sweeps: off for the first half. At half-way the metric is fitted at the chain's
- * state: H, minus the Hessian by finite differences of the exact gradient, made positive definite
- * by taking its eigenvalues' absolute values, recomputed after Newton steps towards the mode
- * until they gain less than {@link #CONVERGED}. From then on the step size adapts towards a mean
+ * state: H, minus the Hessian by finite differences of the exact gradient (one gradient per
+ * survey-wide coordinate and per coordinate of a group, {@link CollapsedPosterior#negativeHessian}),
+ * made positive definite where needed by taking its eigenvalues' absolute values, recomputed
+ * after Newton steps towards the mode until they gain less than {@link #CONVERGED}. From then on the step size adapts towards a mean
  * acceptance probability of {@link #TARGET} (Robbins-Monro on its log, as for the other
  * proposals). At three quarters the metric becomes the covariance of the states since half-way,
  * shrunk towards H^-1, which sees the long flat tails that the curvature at the mode misses, and
@@ -54,8 +55,8 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
     private static final double CONVERGED = 0.1;
     /**
      * The metric is fitted on a systematic sample of about this many respondents, each counted
-     * n / sample times: the finite-difference Hessian costs d + 1 gradients per round, which on
-     * a million respondents would take minutes; the metric only sets the proposal's shape, so the
+     * n / sample times: the finite-difference Hessian costs a gradient per survey-wide coordinate
+     * and per coordinate of a group each round, which on a million respondents would take minutes; the metric only sets the proposal's shape, so the
      * posterior stays exact, and the draws' covariance refines it at three quarters of warm-up.
      */
     private static final int METRIC_RESPONDENTS = 20_000;
@@ -339,41 +340,21 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
     }
 
     /**
-     * H = minus the Hessian at x by forward differences of the gradient, symmetrised, with its
-     * eigenvalues replaced by their absolute values (floored at 1e-8 of the largest); stores its
-     * Cholesky factor. False if the gradient cannot be evaluated there.
+     * H = minus the Hessian at x ({@link CollapsedPosterior#negativeHessian}); where it is not
+     * positive definite (away from the mode), its eigenvalues are replaced by their absolute
+     * values, floored at 1e-8 of the largest. Stores its Cholesky factor. False if the gradient
+     * cannot be evaluated there.
      */
     private boolean curvature(double[] x) {
         int d = dimension;
-        double[] base = new double[d];
-        double[] moved = new double[d];
-        if (posterior.gradient(x, base) == Double.NEGATIVE_INFINITY) {
+        double[] negative = posterior.negativeHessian(x);
+        if (negative == null) {
             return false;
         }
-        DMatrixRMaj h = new DMatrixRMaj(d, d);
-        double[] point = x.clone();
-        for (int j = 0; j < d; j++) {
-            double step = 1e-5 * Math.max(1, Math.abs(x[j]));
-            point[j] = x[j] + step;
-            if (posterior.gradient(point, moved) == Double.NEGATIVE_INFINITY) {
-                step = -step;
-                point[j] = x[j] + step;
-                if (posterior.gradient(point, moved) == Double.NEGATIVE_INFINITY) {
-                    return false;
-                }
-            }
-            point[j] = x[j];
-            for (int i = 0; i < d; i++) {
-                h.set(i, j, -(moved[i] - base[i]) / step);
-            }
+        if (cholesky(negative)) {
+            return true;
         }
-        for (int i = 0; i < d; i++) {
-            for (int j = 0; j < i; j++) {
-                double v = 0.5 * (h.get(i, j) + h.get(j, i));
-                h.set(i, j, v);
-                h.set(j, i, v);
-            }
-        }
+        DMatrixRMaj h = DMatrixRMaj.wrap(d, d, negative);
         EigenDecomposition_F64<DMatrixRMaj> eig = DecompositionFactory_DDRM.eig(d, true, true);
         if (!eig.decompose(h)) {
             return false;
