@@ -158,6 +158,52 @@ public final class StandardNormal {
     }
 
     /**
+     * {@link #intervalProbability(double, double)}, bit for bit, also writing phi(lower) to
+     * {@code density[at]} and phi(upper) to {@code density[at + 1]}: beyond the central range the
+     * tail and the density share their exponential, exp(-x^2/2) R(|x|) and exp(-x^2/2) / sqrt(2 pi).
+     */
+    public static double intervalProbability(double lower, double upper, double[] density, int at) {
+        double low = smallerTail(lower, density, at);
+        double high = smallerTail(upper, density, at + 1);
+        if (lower > 0) {
+            return low - high;
+        }
+        if (upper < 0) {
+            return high - low;
+        }
+        return 1 - low - high;
+    }
+
+    /** {@link #cdf(double)}, bit for bit, also writing phi(x) to {@code density[at]} (one exponential for both beyond the central range). */
+    public static double cdf(double x, double[] density, int at) {
+        double y = Math.abs(x);
+        if (y <= CENTRAL) {
+            density[at] = ONE_OVER_SQRT_2PI * halfSquareExp(y);
+            return 0.5 + centralPhiMinusHalf(x);
+        }
+        double tail = smallerTail(x, density, at);
+        return x > 0 ? 1 - tail : tail;
+    }
+
+    /**
+     * Q(|x|), the mass beyond x on its own side, computed as {@link #cdf(double)} computes Phi(-|x|),
+     * with phi(x) written to {@code density[at]}.
+     */
+    private static double smallerTail(double x, double[] density, int at) {
+        double y = Math.abs(x);
+        if (y > TAIL_UNDERFLOW) {
+            density[at] = 0;
+            return 0;
+        }
+        double e = halfSquareExp(y);
+        density[at] = ONE_OVER_SQRT_2PI * e;
+        if (y <= CENTRAL) {
+            return 0.5 + centralPhiMinusHalf(-y);
+        }
+        return e * tailFactor(y);
+    }
+
+    /**
      * log(Phi(upper) - Phi(lower)) for lower < upper, either possibly infinite. An interval in one
      * tail is measured from that tail, log Q(l) + log(1 - Q(u)/Q(l)), so it keeps full relative
      * accuracy far out; an interval touching the centre is the difference of the two offsets

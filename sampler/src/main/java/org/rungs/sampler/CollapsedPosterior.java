@@ -94,6 +94,10 @@ final class CollapsedPosterior {
     private final double[] cdf;
     private final double[] gradT;
     private final double[] fullCoords;
+    /** Scratch: phi at the answer's lower and upper bound and at the class probit; at each threshold; a pair. */
+    private final double[] density = new double[3];
+    private final double[] thresholdDensity;
+    private final double[] pair = new double[2];
     private int sampled = 1;
 
     CollapsedPosterior(ChainState state, Priors priors) {
@@ -183,6 +187,7 @@ final class CollapsedPosterior {
         cdf = new double[m + 1];
         gradT = new double[m + 1];
         fullCoords = new double[m + 1];
+        thresholdDensity = new double[m + 1];
     }
 
     int dimension() {
@@ -639,16 +644,18 @@ final class CollapsedPosterior {
     private double plain(int i, int g, int r, int base, double eta, double zeta, boolean grad) {
         double lower = rows[base + r] - eta;
         double upper = rows[base + r + 1] - eta;
-        double full = StandardNormal.intervalProbability(lower, upper);
+        // With the gradient, the normal densities come with the probabilities (one exponential each).
+        double full = grad ? StandardNormal.intervalProbability(lower, upper, density, 0)
+                : StandardNormal.intervalProbability(lower, upper);
         if (!(full > PLAIN_FLOOR) || Math.abs(zeta) > PLAIN_PROBIT) {
             return Double.NaN;
         }
         boolean point = channel != null && channel.isPoint(r);
-        double q = channel == null ? 0 : StandardNormal.cdf(zeta);
+        double q = channel == null ? 0 : grad ? StandardNormal.cdf(zeta, density, 2) : StandardNormal.cdf(zeta);
         double coarse = 0;
         double likelihood = channel == null ? full : (1 - q) * full;
         if (point) {
-            coarse = ResponseLikelihood.coarse(channel, rows, base, r, eta, -1, 0);
+            coarse = grad ? coarseWithDensities(base, r, eta) : ResponseLikelihood.coarse(channel, rows, base, r, eta, -1, 0);
             if (!(coarse > PLAIN_FLOOR)) {
                 return Double.NaN;
             }
@@ -660,18 +667,18 @@ final class CollapsedPosterior {
         double weightFull = (channel == null ? 1 : 1 - q) / likelihood;
         double gradEta = 0;
         if (r > 0) {
-            double v = -weightFull * StandardNormal.density(lower);
+            double v = -weightFull * density[0];
             gradRows[base + r] += v;
             gradEta -= v;
         }
         if (r < m - 1) {
-            double v = weightFull * StandardNormal.density(upper);
+            double v = weightFull * density[1];
             gradRows[base + r + 1] += v;
             gradEta -= v;
         }
         double gradZeta = 0;
         if (channel != null) {
-            double phi = StandardNormal.density(zeta);
+            double phi = density[2];
             gradZeta = point ? phi * (coarse - full) / likelihood : -phi / (1 - q);
         }
         if (point) {
@@ -680,13 +687,34 @@ final class CollapsedPosterior {
             double weightCoarse = q / likelihood;
             for (int b = 0; b < bound.length; b++) {
                 int k = bound[b];
-                double v = weight[b] * weightCoarse * StandardNormal.density(rows[base + k] - eta);
+                double v = weight[b] * weightCoarse * thresholdDensity[k];
                 gradRows[base + k] += v;
                 gradEta -= v;
             }
         }
         chainRule(i, g, gradEta, gradZeta);
         return Math.log(likelihood);
+    }
+
+    /**
+     * P(r | coarse, eta) exactly as {@link ResponseLikelihood#coarse} computes it (MODEL.md 4a),
+     * with phi(c[g,k] - eta) at each threshold k it reads written to {@link #thresholdDensity}.
+     */
+    private double coarseWithDensities(int base, int r, double eta) {
+        int low = channel.fullLow(r);
+        int high = channel.fullHigh(r);
+        double p = StandardNormal.intervalProbability(rows[base + low] - eta, rows[base + high + 1] - eta, pair, 0);
+        thresholdDensity[low] = pair[0];
+        thresholdDensity[high + 1] = pair[1];
+        if (channel.tieBelow(r)) {
+            p += 0.5 * StandardNormal.intervalProbability(rows[base + low - 1] - eta, rows[base + low] - eta, pair, 0);
+            thresholdDensity[low - 1] = pair[0];
+        }
+        if (channel.tieAbove(r)) {
+            p += 0.5 * StandardNormal.intervalProbability(rows[base + high + 1] - eta, rows[base + high + 2] - eta, pair, 0);
+            thresholdDensity[high + 2] = pair[1];
+        }
+        return p;
     }
 
     /** Adds respondent i's d log P / d eta and d log P / d zeta to its group's and the coefficients' gradients. */

@@ -48,6 +48,11 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
      */
     private static final double LENGTH = 1.0;
     private static final int MAX_LEAPS = 12;
+    /**
+     * Trajectories per sweep. Two on the demo (default seed) raised the smallest bulk ESS from 282
+     * to 431 for half as much time again (162 s against 107 s): the same ESS per second.
+     */
+    private static final int TRAJECTORIES = 1;
     /** Newton steps per Hessian, step halvings per Newton step, Hessians at most, and the gain taken as converged. */
     private static final int NEWTON_STEPS = 10;
     private static final int HALVINGS = 12;
@@ -123,6 +128,19 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
         if (!built) {
             return;
         }
+        for (int t = 0; t < TRAJECTORIES; t++) {
+            trajectory(adapt);
+        }
+        if (adapt) {
+            if (warmupCalls < refitAt) {
+                collect();
+            } else if (warmupCalls == refitAt) {
+                refit();
+            }
+        }
+    }
+
+    private void trajectory(boolean adapt) {
         posterior.read(theta);
         double start = posterior.gradient(theta, gradient);
         whiten(gradient);
@@ -168,11 +186,6 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
         }
         if (adapt) {
             logStep += Math.pow(warmupCalls - stepStart + 1.0, -0.6) * (probability - TARGET);
-            if (warmupCalls < refitAt) {
-                collect();
-            } else if (warmupCalls == refitAt) {
-                refit();
-            }
         }
     }
 
