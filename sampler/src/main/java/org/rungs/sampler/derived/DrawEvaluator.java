@@ -58,6 +58,8 @@ final class DrawEvaluator {
     private final double[] styleIndex;
     /** Phi(c[g,t] - eta) for t = 0..M, the latent distribution function at the group's thresholds. */
     private final double[] own;
+    /** phi(c[g,t] - eta) beside own[t], from the same exponential. */
+    private final double[] ownDensity;
     private final double[] harmonised;
     private final double[] intendedSum;
     private final double[] harmonisedSum;
@@ -158,6 +160,7 @@ final class DrawEvaluator {
         eta = new double[size];
         styleIndex = new double[size];
         own = new double[categories + 1];
+        ownDensity = new double[categories + 1];
         harmonised = new double[categories + 1];
         own[categories] = 1;
         harmonised[categories] = 1;
@@ -197,7 +200,8 @@ final class DrawEvaluator {
             // MODEL.md 3: pi[g,k](eta) = Phi(c[g,k] - eta) - Phi(c[g,k-1] - eta); differences of
             // Phi are exact to a few eps in absolute terms, which is what a share needs
             for (int t = 1; t < m; t++) {
-                own[t] = StandardNormal.cdf(thresholds[base + t] - e);
+                own[t] = anyNumeric ? StandardNormal.cdf(thresholds[base + t] - e, ownDensity, t)
+                        : StandardNormal.cdf(thresholds[base + t] - e);
             }
             for (int k = 0; k < m; k++) {
                 intendedSum[cell + k] += w * (own[k + 1] - own[k]);
@@ -227,7 +231,7 @@ final class DrawEvaluator {
                 // dE[k]/deta = sum_k phi(c[g,k] - eta) (MODEL.md 6)
                 double slope = 0;
                 for (int t = 1; t < m; t++) {
-                    slope += StandardNormal.density(thresholds[base + t] - e);
+                    slope += ownDensity[t];
                 }
                 slopeSum += w * slope;
             }
