@@ -98,6 +98,10 @@ final class CollapsedPosterior {
     private final double[] density = new double[3];
     private final double[] thresholdDensity;
     private final double[] pair = new double[2];
+    /** The last class probit zeta seen by {@link #plain}, and Phi and phi there; NaN at the start of every pass. */
+    private double lastZeta = Double.NaN;
+    private double lastQ;
+    private double lastPhi;
     private int sampled = 1;
 
     CollapsedPosterior(ChainState state, Priors priors) {
@@ -531,6 +535,7 @@ final class CollapsedPosterior {
         double[][] w = s.style == null ? null : s.style.columns;
         boolean attractionOn = attracted.length > 0;
         double total = 0;
+        lastZeta = Double.NaN;
         for (int i = 0; i < s.size; i += sampled) {
             int g = group[i];
             int r = category[i];
@@ -651,7 +656,14 @@ final class CollapsedPosterior {
             return Double.NaN;
         }
         boolean point = channel != null && channel.isPoint(r);
-        double q = channel == null ? 0 : grad ? StandardNormal.cdf(zeta, density, 2) : StandardNormal.cdf(zeta);
+        if (channel != null && zeta != lastZeta) {
+            // Respondents of a group who share their style covariates share zeta: with categorical
+            // ones (or none), runs of equal values are common in the sorted survey.
+            lastQ = StandardNormal.cdf(zeta, density, 2);
+            lastPhi = density[2];
+            lastZeta = zeta;
+        }
+        double q = channel == null ? 0 : lastQ;
         double coarse = 0;
         double likelihood = channel == null ? full : (1 - q) * full;
         if (point) {
@@ -678,7 +690,7 @@ final class CollapsedPosterior {
         }
         double gradZeta = 0;
         if (channel != null) {
-            double phi = density[2];
+            double phi = lastPhi;
             gradZeta = point ? phi * (coarse - full) / likelihood : -phi / (1 - q);
         }
         if (point) {

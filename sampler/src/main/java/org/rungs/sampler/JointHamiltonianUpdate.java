@@ -27,8 +27,10 @@ import org.rungs.priors.Priors;
  * state: H, minus the Hessian by finite differences of the exact gradient (one gradient per
  * survey-wide coordinate and per coordinate of a group, {@link CollapsedPosterior#negativeHessian}),
  * made positive definite where needed by taking its eigenvalues' absolute values, recomputed
- * after Newton steps towards the mode until they gain less than {@link #CONVERGED}. From then on the step size adapts towards a mean
- * acceptance probability of {@link #TARGET} (Robbins-Monro on its log, as for the other
+ * after Newton steps towards the mode until they gain less than {@link #CONVERGED} (on a large
+ * survey the search runs on a sample, {@link #METRIC_RESPONDENTS}, and the last Newton steps and
+ * Hessian on the whole survey). From then on the step size adapts towards a mean acceptance
+ * probability of {@link #TARGET} (Robbins-Monro on its log, as for the other
  * proposals). At three quarters the metric becomes the covariance of the states since half-way,
  * shrunk towards H^-1, which sees the long flat tails that the curvature at the mode misses, and
  * the step size adapts afresh. Trajectories are about one unit long in the metric's scale, with
@@ -59,10 +61,11 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
     private static final int ROUNDS = 4;
     private static final double CONVERGED = 0.1;
     /**
-     * The metric is fitted on a systematic sample of about this many respondents, each counted
-     * n / sample times: the finite-difference Hessian costs a gradient per survey-wide coordinate
-     * and per coordinate of a group each round, which on a million respondents would take minutes; the metric only sets the proposal's shape, so the
-     * posterior stays exact, and the draws' covariance refines it at three quarters of warm-up.
+     * On a larger survey the search for the mode runs on a systematic sample of about this many
+     * respondents, each counted n / sample times; then Newton steps and one last Hessian use the
+     * whole survey. The sample's Hessian alone is not enough: in the weakly identified directions
+     * (the coarse share against the end thresholds) its curvature is mostly sampling noise, and
+     * at a million respondents the step size it allowed took the full 12 leapfrog steps.
      */
     private static final int METRIC_RESPONDENTS = 20_000;
 
@@ -287,11 +290,16 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
 
     /** Fits the metric from the chain's current state, on a sample of a large survey; leaves the step off if that fails. */
     private void build() {
-        posterior.sampleEvery(Math.max(1, size / METRIC_RESPONDENTS));
+        int sample = Math.max(1, size / METRIC_RESPONDENTS);
+        posterior.sampleEvery(sample);
         try {
             fit();
         } finally {
             posterior.sampleEvery(1);
+        }
+        if (built && sample > 1) {
+            newton();
+            built = curvature(mode);
         }
         stepStart = warmupCalls;
     }
