@@ -24,20 +24,48 @@ public final class ResponseLikelihood {
     /** P(r = j | coarse, eta) = sum_k pi[g,k](eta) R(j|k) (MODEL.md 4a); 0 unless j is a coarse point. */
     public static double coarse(RoundingChannel channel, double[] thresholds, int base, int j, double eta,
                                 int moved, double delta) {
+        return coarse(channel, thresholds, base, j, eta, moved, delta, null);
+    }
+
+    /**
+     * As above with no threshold moved, also writing phi(c[g,k] - eta) to {@code density[k]} for
+     * each threshold k it reads (the same exponentials as the probability's tails); other entries
+     * of {@code density} may be overwritten.
+     */
+    public static double coarse(RoundingChannel channel, double[] thresholds, int base, int j, double eta, double[] density) {
+        return coarse(channel, thresholds, base, j, eta, -1, 0, density);
+    }
+
+    private static double coarse(RoundingChannel channel, double[] thresholds, int base, int j, double eta,
+                                 int moved, double delta, double[] density) {
         if (!channel.isPoint(j)) {
             return 0;
         }
         int low = channel.fullLow(j);
         int high = channel.fullHigh(j);
-        double p = StandardNormal.intervalProbability(at(thresholds, base, low, moved, delta) - eta,
-                at(thresholds, base, high + 1, moved, delta) - eta);
+        double p = interval(thresholds, base, low, high + 1, eta, moved, delta, density);
         if (channel.tieBelow(j)) {
-            p += 0.5 * StandardNormal.intervalProbability(at(thresholds, base, low - 1, moved, delta) - eta,
-                    at(thresholds, base, low, moved, delta) - eta);
+            p += 0.5 * interval(thresholds, base, low - 1, low, eta, moved, delta, density);
         }
         if (channel.tieAbove(j)) {
-            p += 0.5 * StandardNormal.intervalProbability(at(thresholds, base, high + 1, moved, delta) - eta,
-                    at(thresholds, base, high + 2, moved, delta) - eta);
+            p += 0.5 * interval(thresholds, base, high + 1, high + 2, eta, moved, delta, density);
+        }
+        return p;
+    }
+
+    /** Phi(c[from] - eta) .. Phi(c[to] - eta), with the densities at both ends in density[from], density[to] if asked. */
+    private static double interval(double[] thresholds, int base, int from, int to, double eta, int moved, double delta,
+                                   double[] density) {
+        double lower = at(thresholds, base, from, moved, delta) - eta;
+        double upper = at(thresholds, base, to, moved, delta) - eta;
+        if (density == null) {
+            return StandardNormal.intervalProbability(lower, upper);
+        }
+        double p = StandardNormal.intervalProbability(lower, upper, density, from);
+        // intervalProbability wrote phi(upper) next to phi(lower); move it to its own threshold.
+        double atUpper = density[from + 1];
+        if (to != from + 1) {
+            density[to] = atUpper;
         }
         return p;
     }

@@ -94,10 +94,9 @@ final class CollapsedPosterior {
     private final double[] cdf;
     private final double[] gradT;
     private final double[] fullCoords;
-    /** Scratch: phi at the answer's lower and upper bound and at the class probit; at each threshold; a pair. */
+    /** Scratch: phi at the answer's lower and upper bound and at the class probit; at each threshold. */
     private final double[] density = new double[3];
     private final double[] thresholdDensity;
-    private final double[] pair = new double[2];
     /** The last class probit zeta seen by {@link #plain}, and Phi and phi there; NaN at the start of every pass. */
     private double lastZeta = Double.NaN;
     private double lastQ;
@@ -667,7 +666,8 @@ final class CollapsedPosterior {
         double coarse = 0;
         double likelihood = channel == null ? full : (1 - q) * full;
         if (point) {
-            coarse = grad ? coarseWithDensities(base, r, eta) : ResponseLikelihood.coarse(channel, rows, base, r, eta, -1, 0);
+            coarse = grad ? ResponseLikelihood.coarse(channel, rows, base, r, eta, thresholdDensity)
+                    : ResponseLikelihood.coarse(channel, rows, base, r, eta, -1, 0);
             if (!(coarse > PLAIN_FLOOR)) {
                 return Double.NaN;
             }
@@ -706,27 +706,6 @@ final class CollapsedPosterior {
         }
         chainRule(i, g, gradEta, gradZeta);
         return Math.log(likelihood);
-    }
-
-    /**
-     * P(r | coarse, eta) exactly as {@link ResponseLikelihood#coarse} computes it (MODEL.md 4a),
-     * with phi(c[g,k] - eta) at each threshold k it reads written to {@link #thresholdDensity}.
-     */
-    private double coarseWithDensities(int base, int r, double eta) {
-        int low = channel.fullLow(r);
-        int high = channel.fullHigh(r);
-        double p = StandardNormal.intervalProbability(rows[base + low] - eta, rows[base + high + 1] - eta, pair, 0);
-        thresholdDensity[low] = pair[0];
-        thresholdDensity[high + 1] = pair[1];
-        if (channel.tieBelow(r)) {
-            p += 0.5 * StandardNormal.intervalProbability(rows[base + low - 1] - eta, rows[base + low] - eta, pair, 0);
-            thresholdDensity[low - 1] = pair[0];
-        }
-        if (channel.tieAbove(r)) {
-            p += 0.5 * StandardNormal.intervalProbability(rows[base + high + 1] - eta, rows[base + high + 2] - eta, pair, 0);
-            thresholdDensity[high + 2] = pair[1];
-        }
-        return p;
     }
 
     /** Adds respondent i's d log P / d eta and d log P / d zeta to its group's and the coefficients' gradients. */
