@@ -81,7 +81,9 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
     private final ZigguratSampler.NormalizedGaussian normal;
     private final int dimension;
     private final int size;
-    private final int buildAt;
+    private int buildAt;
+    private int buildAttempts;
+    private final int warmup;
     private final double[] theta;
     private final double[] proposal;
     private final double[] mode;
@@ -111,6 +113,7 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
         this.dimension = posterior.dimension();
         this.size = state.size;
         this.buildAt = warmup >= 2 ? warmup / 2 : Integer.MAX_VALUE;
+        this.warmup = warmup;
         this.refitAt = warmup >= 8 ? warmup * 3 / 4 : Integer.MAX_VALUE;
         this.lastRefitAt = warmup >= 16 ? warmup * 7 / 8 : Integer.MAX_VALUE;
         this.drawSum = new double[dimension];
@@ -135,6 +138,10 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
             warmupCalls++;
             if (!built && warmupCalls >= buildAt) {
                 build();
+                if (!built) {
+                    // A failed fit costs dozens of passes; try again a sixteenth of warm-up later.
+                    buildAt = warmupCalls + Math.max(1, warmup / 16);
+                }
             }
         }
         if (!built) {
@@ -271,6 +278,11 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
         solveLower(g);
     }
 
+    /** For tests: how often the metric's fit was attempted. */
+    int buildAttempts() {
+        return buildAttempts;
+    }
+
     /** Share of proposals accepted while sampling (NaN before the first, or when the step never started). */
     double acceptanceRate() {
         return proposed == 0 ? Double.NaN : (double) accepted / proposed;
@@ -300,6 +312,7 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
 
     /** Fits the metric from the chain's current state, on a sample of a large survey; leaves the step off if that fails. */
     private void build() {
+        buildAttempts++;
         int sample = Math.max(1, size / METRIC_RESPONDENTS);
         posterior.sampleEvery(sample);
         try {
@@ -435,6 +448,7 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
     @Override
     public void save(DataOutput out) throws IOException {
         out.writeBoolean(built);
+        out.writeInt(buildAt);
         out.writeInt(warmupCalls);
         Checkpointed.writeDouble(out, logStep);
         out.writeInt(stepStart);
@@ -451,6 +465,7 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
     @Override
     public void restore(DataInput in) throws IOException {
         built = in.readBoolean();
+        buildAt = in.readInt();
         warmupCalls = in.readInt();
         logStep = Checkpointed.readDouble(in);
         stepStart = in.readInt();

@@ -39,7 +39,7 @@ class CollapsedPosteriorTest {
                 Covariates.fromNumeric(List.of("x"), List.of(x)), Covariates.fromNumeric(List.of("w"), List.of(w)), null);
     }
 
-    private static ChainState state(boolean byGroup, boolean coarse, boolean attraction, double far) {
+    static ChainState state(boolean byGroup, boolean coarse, boolean attraction, double far) {
         Survey survey = survey();
         RoundingChannel channel = coarse ? RoundingChannel.of(survey.scale(), new int[] {0, 3, 6}) : null;
         ChainState s = new ChainState(SurveyOrder.of(survey), byGroup, channel, attraction ? new int[] {2, 4} : new int[0]);
