@@ -187,9 +187,11 @@ public final class StandardNormal {
 
     /**
      * Q(|x|), the mass beyond x on its own side, computed as {@link #cdf(double)} computes Phi(-|x|),
-     * with phi(x) written to {@code density[at]}.
+     * with phi(x) written to {@code density[at]}: Phi(x) for x <= 0, 1 - Phi(x) for x > 0, with
+     * full relative accuracy, so that an interval's probability is a difference taken on the side
+     * where it lies, as {@link #intervalProbability(double, double, double[], int)} takes it.
      */
-    private static double smallerTail(double x, double[] density, int at) {
+    public static double smallerTail(double x, double[] density, int at) {
         double y = Math.abs(x);
         if (y > TAIL_UNDERFLOW) {
             density[at] = 0;

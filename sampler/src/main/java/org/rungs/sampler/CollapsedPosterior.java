@@ -97,6 +97,12 @@ final class CollapsedPosterior {
     /** Scratch: phi at the answer's lower and upper bound and at the class probit; at each threshold. */
     private final double[] density = new double[3];
     private final double[] thresholdDensity;
+    /** Scratch of {@link #attracted}: c[g,k] - eta and its smaller normal tail, by threshold. */
+    private final double[] offset;
+    private final double[] tail;
+    /** Coarse point r: the categories k with R(r|k) > 0 and R(r|k) (MODEL.md 4a). */
+    private final int[][] coarseFrom;
+    private final double[][] coarseShare;
     /** The last class probit zeta seen by {@link #plain}, and Phi and phi there; NaN at the start of every pass. */
     private double lastZeta = Double.NaN;
     private double lastQ;
@@ -153,6 +159,8 @@ final class CollapsedPosterior {
         }
         coarseBound = new int[m][];
         coarseWeight = new double[m][];
+        coarseFrom = new int[m][];
+        coarseShare = new double[m][];
         if (channel != null) {
             for (int r = 0; r < m; r++) {
                 if (!channel.isPoint(r)) {
@@ -170,6 +178,17 @@ final class CollapsedPosterior {
                 }
                 coarseBound[r] = java.util.Arrays.copyOf(bound, n);
                 coarseWeight[r] = java.util.Arrays.copyOf(weight, n);
+                int from = 0;
+                int[] categories = new int[m];
+                double[] shares = new double[m];
+                for (int k = 0; k < m; k++) {
+                    if (channel.probability(r, k) > 0) {
+                        categories[from] = k;
+                        shares[from++] = channel.probability(r, k);
+                    }
+                }
+                coarseFrom[r] = java.util.Arrays.copyOf(categories, from);
+                coarseShare[r] = java.util.Arrays.copyOf(shares, from);
             }
         }
         alpha = new double[groups];
@@ -191,6 +210,8 @@ final class CollapsedPosterior {
         gradT = new double[m + 1];
         fullCoords = new double[m + 1];
         thresholdDensity = new double[m + 1];
+        offset = new double[m + 1];
+        tail = new double[m + 1];
     }
 
     int dimension() {
@@ -550,12 +571,10 @@ final class CollapsedPosterior {
                     zeta += w[q][i] * delta[q];
                 }
             }
-            if (!attractionOn) {
-                double log = plain(i, g, r, base, eta, zeta, grad);
-                if (!Double.isNaN(log)) {
-                    total += log;
-                    continue;
-                }
+            double fast = attractionOn ? attracted(i, g, r, base, eta, zeta, grad) : plain(i, g, r, base, eta, zeta, grad);
+            if (!Double.isNaN(fast)) {
+                total += fast;
+                continue;
             }
             double lower = rows[base + r] - eta;
             double upper = rows[base + r + 1] - eta;
@@ -655,14 +674,7 @@ final class CollapsedPosterior {
             return Double.NaN;
         }
         boolean point = channel != null && channel.isPoint(r);
-        if (channel != null && zeta != lastZeta) {
-            // Respondents of a group who share their style covariates share zeta: with categorical
-            // ones (or none), runs of equal values are common in the sorted survey.
-            lastQ = StandardNormal.cdf(zeta, density, 2);
-            lastPhi = density[2];
-            lastZeta = zeta;
-        }
-        double q = channel == null ? 0 : lastQ;
+        double q = classProbit(zeta);
         double coarse = 0;
         double likelihood = channel == null ? full : (1 - q) * full;
         if (point) {
@@ -706,6 +718,115 @@ final class CollapsedPosterior {
         }
         chainRule(i, g, gradEta, gradZeta);
         return Math.log(likelihood);
+    }
+
+    /** q = Phi(zeta), and phi(zeta) in {@link #lastPhi}; 0 without the coarse class. */
+    private double classProbit(double zeta) {
+        if (channel != null && zeta != lastZeta) {
+            // Respondents of a group who share their style covariates share zeta: with categorical
+            // ones (or none), runs of equal values are common in the sorted survey.
+            lastQ = StandardNormal.cdf(zeta, density, 2);
+            lastPhi = density[2];
+            lastZeta = zeta;
+        }
+        return channel == null ? 0 : lastQ;
+    }
+
+    /**
+     * Under attraction, respondent i's log-likelihood (MODEL.md 4b, 4c) and gradient computed on
+     * probabilities, as {@link #plain} does: each threshold's smaller normal tail and density from
+     * one exponential, each category's probability a difference of tails on the side where it
+     * lies, the coarse probability a sum of categories. NaN, with nothing accumulated, when the
+     * answer's probability is too small for that or the class probit is far out.
+     */
+    private double attracted(int i, int g, int r, int base, double eta, double zeta, boolean grad) {
+        if (channel != null && Math.abs(zeta) > PLAIN_PROBIT) {
+            return Double.NaN;
+        }
+        for (int k = 1; k < m; k++) {
+            offset[k] = rows[base + k] - eta;
+            tail[k] = StandardNormal.smallerTail(offset[k], thresholdDensity, k);
+        }
+        double pi = category(r);
+        if (!(pi > PLAIN_FLOOR)) {
+            return Double.NaN;
+        }
+        int row = g * m;
+        double normaliser = 1;
+        for (int k : attracted) {
+            normaliser += category(k) * (odds[row + k] - 1);
+        }
+        double full = pi * odds[row + r] / normaliser;
+        double q = classProbit(zeta);
+        boolean point = channel != null && channel.isPoint(r);
+        double coarse = 0;
+        double likelihood = (1 - q) * full;
+        if (point) {
+            int[] from = coarseFrom[r];
+            double[] share = coarseShare[r];
+            for (int b = 0; b < from.length; b++) {
+                coarse += share[b] * category(from[b]);
+            }
+            if (!(coarse > PLAIN_FLOOR)) {
+                return Double.NaN;
+            }
+            likelihood += q * coarse;
+        }
+        if (!grad) {
+            return Math.log(likelihood);
+        }
+        // d log P / d(c[g,k] - eta) for each threshold k, then the chain rule (as in the log-space path).
+        double weightFull = (1 - q) * full / likelihood;
+        java.util.Arrays.fill(gradT, 0);
+        if (r > 0) {
+            gradT[r] -= weightFull * thresholdDensity[r] / pi;
+        }
+        if (r < m - 1) {
+            gradT[r + 1] += weightFull * thresholdDensity[r + 1] / pi;
+        }
+        for (int k = 1; k < m; k++) {
+            double change = odds[row + k - 1] - odds[row + k];
+            if (change != 0) {
+                gradT[k] -= weightFull * thresholdDensity[k] * change / normaliser;
+            }
+        }
+        gradAttraction[row + r] += weightFull;
+        for (int k : attracted) {
+            gradAttraction[row + k] -= weightFull * category(k) * odds[row + k] / normaliser;
+        }
+        if (point) {
+            int[] bound = coarseBound[r];
+            double[] weight = coarseWeight[r];
+            double weightCoarse = q / likelihood;
+            for (int b = 0; b < bound.length; b++) {
+                int k = bound[b];
+                gradT[k] += weight[b] * weightCoarse * thresholdDensity[k];
+            }
+        }
+        double gradEta = 0;
+        for (int k = 1; k < m; k++) {
+            gradRows[base + k] += gradT[k];
+            gradEta -= gradT[k];
+        }
+        double gradZeta = 0;
+        if (channel != null) {
+            gradZeta = point ? lastPhi * (coarse - full) / likelihood : -lastPhi / (1 - q);
+        }
+        chainRule(i, g, gradEta, gradZeta);
+        return Math.log(likelihood);
+    }
+
+    /** Category k's probability from the tails {@link #attracted} filled: between thresholds k and k + 1. */
+    private double category(int k) {
+        double low = k > 0 ? tail[k] : 0;
+        double high = k + 1 < m ? tail[k + 1] : 0;
+        if (k > 0 && offset[k] > 0) {
+            return low - high;
+        }
+        if (k + 1 < m && offset[k + 1] < 0) {
+            return high - low;
+        }
+        return 1 - low - high;
     }
 
     /** Adds respondent i's d log P / d eta and d log P / d zeta to its group's and the coefficients' gradients. */
