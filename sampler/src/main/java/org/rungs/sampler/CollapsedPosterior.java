@@ -642,11 +642,7 @@ final class CollapsedPosterior {
                     gradT[k] += weight[b] * Math.exp(logDensity(rows[base + k] - eta) + logQ - log);
                 }
             }
-            double gradEta = 0;
-            for (int k = 1; k < m; k++) {
-                gradRows[base + k] += gradT[k];
-                gradEta -= gradT[k];
-            }
+            double gradEta = rowGradient(base);
             double gradZeta = 0;
             if (channel != null) {
                 double logPhi = logDensity(zeta);
@@ -803,17 +799,23 @@ final class CollapsedPosterior {
                 gradT[k] += weight[b] * weightCoarse * thresholdDensity[k];
             }
         }
-        double gradEta = 0;
-        for (int k = 1; k < m; k++) {
-            gradRows[base + k] += gradT[k];
-            gradEta -= gradT[k];
-        }
+        double gradEta = rowGradient(base);
         double gradZeta = 0;
         if (channel != null) {
             gradZeta = point ? lastPhi * (coarse - full) / likelihood : -lastPhi / (1 - q);
         }
         chainRule(i, g, gradEta, gradZeta);
         return Math.log(likelihood);
+    }
+
+    /** Adds gradT[1..M-1], d log P / d(c[g,k] - eta), to the row at {@code base}; returns d log P / d eta. */
+    private double rowGradient(int base) {
+        double gradEta = 0;
+        for (int k = 1; k < m; k++) {
+            gradRows[base + k] += gradT[k];
+            gradEta -= gradT[k];
+        }
+        return gradEta;
     }
 
     /** Category k's probability from the tails {@link #attracted} filled: between thresholds k and k + 1. */
