@@ -702,15 +702,7 @@ final class CollapsedPosterior {
             gradZeta = point ? phi * (coarse - full) / likelihood : -phi / (1 - q);
         }
         if (point) {
-            int[] bound = coarseBound[r];
-            double[] weight = coarseWeight[r];
-            double weightCoarse = q / likelihood;
-            for (int b = 0; b < bound.length; b++) {
-                int k = bound[b];
-                double v = weight[b] * weightCoarse * thresholdDensity[k];
-                gradRows[base + k] += v;
-                gradEta -= v;
-            }
+            gradEta = addCoarse(r, q / likelihood, gradRows, base, gradEta);
         }
         chainRule(i, g, gradEta, gradZeta);
         return Math.log(likelihood);
@@ -791,13 +783,7 @@ final class CollapsedPosterior {
             gradAttraction[row + k] -= weightFull * category(k) * odds[row + k] / normaliser;
         }
         if (point) {
-            int[] bound = coarseBound[r];
-            double[] weight = coarseWeight[r];
-            double weightCoarse = q / likelihood;
-            for (int b = 0; b < bound.length; b++) {
-                int k = bound[b];
-                gradT[k] += weight[b] * weightCoarse * thresholdDensity[k];
-            }
+            addCoarse(r, q / likelihood, gradT, 0, 0);
         }
         double gradEta = rowGradient(base);
         double gradZeta = 0;
@@ -806,6 +792,23 @@ final class CollapsedPosterior {
         }
         chainRule(i, g, gradEta, gradZeta);
         return Math.log(likelihood);
+    }
+
+    /**
+     * Adds the coarse class's part of d log P / d(c[g,k] - eta) for coarse point r,
+     * R-weight x weightCoarse x phi(c[g,k] - eta) from {@link #thresholdDensity}, to
+     * {@code target[offset + k]}; returns {@code gradEta} less each part added.
+     */
+    private double addCoarse(int r, double weightCoarse, double[] target, int offset, double gradEta) {
+        int[] bound = coarseBound[r];
+        double[] weight = coarseWeight[r];
+        for (int b = 0; b < bound.length; b++) {
+            int k = bound[b];
+            double v = weight[b] * weightCoarse * thresholdDensity[k];
+            target[offset + k] += v;
+            gradEta -= v;
+        }
+        return gradEta;
     }
 
     /** Adds gradT[1..M-1], d log P / d(c[g,k] - eta), to the row at {@code base}; returns d log P / d eta. */
