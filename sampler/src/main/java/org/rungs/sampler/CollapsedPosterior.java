@@ -97,9 +97,10 @@ final class CollapsedPosterior {
     /** Scratch: phi at the answer's lower and upper bound and at the class probit; at each threshold. */
     private final double[] density = new double[3];
     private final double[] thresholdDensity;
-    /** Scratch of {@link #attracted}: c[g,k] - eta and its smaller normal tail, by threshold. */
+    /** Scratch of {@link #attracted}: c[g,k] - eta and its smaller normal tail, by threshold; pi[g,k] of the attracted numbers. */
     private final double[] offset;
     private final double[] tail;
+    private final double[] probability;
     /** Coarse point r: the categories k with R(r|k) > 0 and R(r|k) (MODEL.md 4a). */
     private final int[][] coarseFrom;
     private final double[][] coarseShare;
@@ -212,6 +213,7 @@ final class CollapsedPosterior {
         thresholdDensity = new double[m + 1];
         offset = new double[m + 1];
         tail = new double[m + 1];
+        probability = new double[m];
     }
 
     int dimension() {
@@ -742,7 +744,8 @@ final class CollapsedPosterior {
         int row = g * m;
         double normaliser = 1;
         for (int k : attracted) {
-            normaliser += category(k) * (odds[row + k] - 1);
+            probability[k] = category(k);
+            normaliser += probability[k] * (odds[row + k] - 1);
         }
         double full = pi * odds[row + r] / normaliser;
         double q = classProbit(zeta);
@@ -780,7 +783,7 @@ final class CollapsedPosterior {
         }
         gradAttraction[row + r] += weightFull;
         for (int k : attracted) {
-            gradAttraction[row + k] -= weightFull * category(k) * odds[row + k] / normaliser;
+            gradAttraction[row + k] -= weightFull * probability[k] * odds[row + k] / normaliser;
         }
         if (point) {
             addCoarse(r, q / likelihood, gradT, 0, 0);
