@@ -29,7 +29,7 @@ public final class ResponseLikelihood {
 
     /**
      * As above with no threshold moved, also writing phi(c[g,k] - eta) to {@code density[k]} for
-     * each threshold k it reads (the same exponentials as the probability's tails); other entries
+     * each threshold k it reads (computed with the probability's tails); other entries
      * of {@code density} may be overwritten.
      */
     public static double coarse(RoundingChannel channel, double[] thresholds, int base, int j, double eta, double[] density) {

@@ -7,6 +7,12 @@ package org.rungs.priors;
  * value is representable ({@code |x| < 1.89e154}, far beyond where the natural scale underflows
  * at 38.5).
  *
+ * <p>Within 6 sd, {@code Phi}, its tails and {@code phi} are interpolated from a table of
+ * Cody's values with their first two derivatives (quintic Hermite, nodes 1/256 apart, relative
+ * error at most 3e-15; {@code StandardNormalTest} holds them to 1e-14 against R), which costs a
+ * few multiplications instead of an exponential and a rational function; beyond, and on the
+ * log scale everywhere, the functions below are used directly.
+ *
  * <p>{@code Phi} uses the rational Chebyshev approximations of W. J. Cody (1969), "Rational
  * Chebyshev approximations for the error function", Math. Comp. 23, 631-637, with the
  * coefficients for {@code Phi} of Cody's routine ANORM (W. J. Cody (1993), "Algorithm 715:
@@ -31,6 +37,9 @@ public final class StandardNormal {
     private static final double TAIL_UNDERFLOW = 40;
     /** log Q(x) < -x^2/2 < -Double.MAX_VALUE beyond this. */
     private static final double LOG_TAIL_OVERFLOW = 1.9e154;
+    /** The table's nodes per unit of |x| and its end (see {@link #tableTail}). */
+    private static final int PER_UNIT = 256;
+    private static final double TABLE_END = 6;
 
     private static final double[] A = {
         2.2352520354606839287, 161.02823106855587881, 1067.6894854603709582,
@@ -53,12 +62,71 @@ public final class StandardNormal {
         1.28426009614491121, 0.468238212480865118, 0.0659881378689285515,
         0.00378239633202758244, 7.29751555083966205e-5};
 
+    /** Per node y = j / PER_UNIT: Q, h Q', h^2 Q''/2, phi, h phi', h^2 phi''/2 with h = 1 / PER_UNIT (Cody's values). */
+    private static final double[] NODES = nodes();
+
     private StandardNormal() {
+    }
+
+    private static double[] nodes() {
+        int n = (int) (TABLE_END * PER_UNIT) + 2;
+        double h = 1.0 / PER_UNIT;
+        double[] nodes = new double[6 * n];
+        for (int j = 0; j < n; j++) {
+            double y = j * h;
+            double phi = ONE_OVER_SQRT_2PI * halfSquareExp(y);
+            int i = 6 * j;
+            nodes[i] = y <= CENTRAL ? 0.5 + centralPhiMinusHalf(-y) : tailBeyondCentral(y);
+            nodes[i + 1] = -h * phi;
+            nodes[i + 2] = 0.5 * h * h * y * phi;
+            nodes[i + 3] = phi;
+            nodes[i + 4] = -h * y * phi;
+            nodes[i + 5] = 0.5 * h * h * (y * y - 1) * phi;
+        }
+        return nodes;
+    }
+
+    /**
+     * Q(y) for 0 <= y < TABLE_END, with phi(y) written to density[at] if density is not null:
+     * {@link #interpolate}d between nodes 1/256 apart whose values and first two derivatives
+     * come from Cody's functions (Q' = -phi, Q'' = y phi; phi' = -y phi, phi'' = (y^2 - 1) phi).
+     * Relative error at most 3e-15 for both (the quintic's error is h^6 (t(1-t))^3 / 720 times
+     * the sixth derivative; measured on steps of 1e-5), for a few multiplications instead of an
+     * exponential and a rational function.
+     */
+    private static double tableTail(double y, double[] density, int at) {
+        if (density != null) {
+            density[at] = interpolate(y, 3);
+        }
+        return interpolate(y, 0);
+    }
+
+    /** Quintic Hermite interpolation at y of the node column at {@code column}: 0 for Q, 3 for phi. */
+    private static double interpolate(double y, int column) {
+        double s = y * PER_UNIT;
+        int j = (int) s;
+        double t = s - j;
+        double t2 = t * t;
+        double t3 = t2 * t;
+        double u = 1 - t;
+        double u3 = u * u * u;
+        // The quintic Hermite basis on [0, 1]: value, first and second derivative at each end.
+        double b5 = t3 * (10 - 15 * t + 6 * t2);
+        double b1 = t * u3 * (1 + 3 * t);
+        double b2 = t2 * u3;
+        double b4 = -t3 * u * (4 - 3 * t);
+        double b3 = t3 * u * u;
+        double[] v = NODES;
+        int i = 6 * j + column;
+        return (1 - b5) * v[i] + b1 * v[i + 1] + b2 * v[i + 2] + b5 * v[i + 6] + b4 * v[i + 7] + b3 * v[i + 8];
     }
 
     /** phi(x) = exp(-x^2/2) / sqrt(2 pi). */
     public static double density(double x) {
         double y = Math.abs(x);
+        if (y < TABLE_END) {
+            return interpolate(y, 3);
+        }
         if (y > TAIL_UNDERFLOW) {
             return 0;
         }
@@ -68,10 +136,7 @@ public final class StandardNormal {
     /** Phi(x) = P(Z <= x). */
     public static double cdf(double x) {
         double y = Math.abs(x);
-        if (y <= CENTRAL) {
-            return 0.5 + centralPhiMinusHalf(x);
-        }
-        double tail = tailBeyondCentral(y);
+        double tail = y < TABLE_END ? tableTail(y, null, 0) : tailBeyondCentral(y);
         return x > 0 ? 1 - tail : tail;
     }
 
@@ -159,8 +224,9 @@ public final class StandardNormal {
 
     /**
      * {@link #intervalProbability(double, double)}, bit for bit, also writing phi(lower) to
-     * {@code density[at]} and phi(upper) to {@code density[at + 1]}: beyond the central range the
-     * tail and the density share their exponential, exp(-x^2/2) R(|x|) and exp(-x^2/2) / sqrt(2 pi).
+     * {@code density[at]} and phi(upper) to {@code density[at + 1]}: the tail and the density share
+     * their table lookup, and beyond the table their exponential, exp(-x^2/2) R(|x|) and
+     * exp(-x^2/2) / sqrt(2 pi).
      */
     public static double intervalProbability(double lower, double upper, double[] density, int at) {
         double low = smallerTail(lower, density, at);
@@ -174,13 +240,8 @@ public final class StandardNormal {
         return 1 - low - high;
     }
 
-    /** {@link #cdf(double)}, bit for bit, also writing phi(x) to {@code density[at]} (one exponential for both beyond the central range). */
+    /** {@link #cdf(double)}, bit for bit, also writing phi(x) to {@code density[at]} (as {@link #density}, bit for bit). */
     public static double cdf(double x, double[] density, int at) {
-        double y = Math.abs(x);
-        if (y <= CENTRAL) {
-            density[at] = ONE_OVER_SQRT_2PI * halfSquareExp(y);
-            return 0.5 + centralPhiMinusHalf(x);
-        }
         double tail = smallerTail(x, density, at);
         return x > 0 ? 1 - tail : tail;
     }
@@ -193,15 +254,15 @@ public final class StandardNormal {
      */
     public static double smallerTail(double x, double[] density, int at) {
         double y = Math.abs(x);
+        if (y < TABLE_END) {
+            return tableTail(y, density, at);
+        }
         if (y > TAIL_UNDERFLOW) {
             density[at] = 0;
             return 0;
         }
         double e = halfSquareExp(y);
         density[at] = ONE_OVER_SQRT_2PI * e;
-        if (y <= CENTRAL) {
-            return 0.5 + centralPhiMinusHalf(-y);
-        }
         return e * tailFactor(y);
     }
 

@@ -665,7 +665,7 @@ final class CollapsedPosterior {
     private double plain(int i, int g, int r, int base, double eta, double zeta, boolean grad) {
         double lower = rows[base + r] - eta;
         double upper = rows[base + r + 1] - eta;
-        // With the gradient, the normal densities come with the probabilities (one exponential each).
+        // With the gradient, the normal densities come with the probabilities (the same table lookup).
         double full = grad ? StandardNormal.intervalProbability(lower, upper, density, 0)
                 : StandardNormal.intervalProbability(lower, upper);
         if (!(full > PLAIN_FLOOR) || Math.abs(zeta) > PLAIN_PROBIT) {
@@ -725,7 +725,7 @@ final class CollapsedPosterior {
     /**
      * Under attraction, respondent i's log-likelihood (MODEL.md 4b, 4c) and gradient computed on
      * probabilities, as {@link #plain} does: each threshold's smaller normal tail and density from
-     * one exponential, each category's probability a difference of tails on the side where it
+     * one call, each category's probability a difference of tails on the side where it
      * lies, the coarse probability a sum of categories. NaN, with nothing accumulated, when the
      * answer's probability is too small for that or the class probit is far out.
      */

@@ -58,7 +58,7 @@ final class DrawEvaluator {
     private final double[] styleIndex;
     /** Phi(c[g,t] - eta) for t = 0..M, the latent distribution function at the group's thresholds. */
     private final double[] own;
-    /** phi(c[g,t] - eta) beside own[t], from the same exponential. */
+    /** phi(c[g,t] - eta) beside own[t], from the same call. */
     private final double[] ownDensity;
     private final double[] harmonised;
     private final double[] intendedSum;
