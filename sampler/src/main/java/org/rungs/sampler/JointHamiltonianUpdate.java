@@ -20,8 +20,8 @@ import org.rungs.priors.Priors;
  * of the joint energy, so the posterior stays exact. It mixes the direction
  * that the Gibbs steps crawl along: the coarse share traded against the end and middle thresholds
  * and the style coefficients, survey-wide, which the augmented classes and levels pin down from
- * one sweep to the next (bulk ESS of the demo's slowest parameter from about 30 to 334 to 408,
- * depending on the seed).
+ * one sweep to the next (bulk ESS of the demo's slowest parameter from about 30 to 261 to 332
+ * on seeds 1 to 5, in about a minute).
  *
  * <p>Warm-up, in sweeps: off for the first half. At half-way the metric is fitted at the chain's
  * state: H, minus the Hessian by finite differences of the exact gradient (one gradient per
