@@ -3,9 +3,9 @@ package org.rungs.priors;
 /**
  * The standard normal distribution: density, distribution function {@code Phi}, its tails on
  * the natural and the log scale, quantile, and the log-probability of an interval. Static,
- * allocation-free, accurate to a few ulp; the log-scale functions stay finite wherever the
- * value is representable ({@code |x| < 1.89e154}, far beyond where the natural scale underflows
- * at 38.5).
+ * allocation-free, accurate to a few ulp (about ten where the table below serves); the
+ * log-scale functions stay finite wherever the value is representable ({@code |x| < 1.89e154},
+ * far beyond where the natural scale underflows at 38.5).
  *
  * <p>Within 6 sd, {@code Phi}, its tails and {@code phi} are interpolated from a table of
  * Cody's values with their first two derivatives (quintic Hermite, nodes 1/256 apart, relative
@@ -121,7 +121,7 @@ public final class StandardNormal {
         return (1 - b5) * v[i] + b1 * v[i + 1] + b2 * v[i + 2] + b5 * v[i + 6] + b4 * v[i + 7] + b3 * v[i + 8];
     }
 
-    /** phi(x) = exp(-x^2/2) / sqrt(2 pi). */
+    /** phi(x) = exp(-x^2/2) / sqrt(2 pi) (from the table within 6 sd). */
     public static double density(double x) {
         double y = Math.abs(x);
         if (y < TABLE_END) {
