@@ -43,7 +43,7 @@ final class DemoCommand implements Callable<Integer> {
             FitOutcome outcome = FitJob.run(demo.request(), System.out, System.err, interruption.flag());
             System.out.println();
             System.out.println("Estimates against the values the demo data were drawn from:");
-            System.out.print(Demo.compare(outcome, demo.truth()));
+            System.out.print(Demo.compare(outcome, demo.truth(), sampling.model().attraction().on()));
             Runs.writeReport(out);
             return outcome.result().interrupted() ? Main.INTERRUPTED : 0;
         } catch (SurveyInputException | IllegalArgumentException e) {
