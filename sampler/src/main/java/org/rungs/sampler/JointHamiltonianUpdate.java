@@ -41,13 +41,6 @@ import org.rungs.priors.Priors;
  * 1 to 2L - 1 around its mean L, which breaks the near-periodic returns of a fixed length (Neal
  * 2011, section 3.2, from memory). A chain whose warm-up is shorter than 2 sweeps never uses it.
  *
- * <p>Under attraction, each sweep's trajectory is followed by a slice step (Neal 2003) on log tau_a
- * alone, with the standardised deviations z[g,j] held: the trajectories moved log tau_a by about
- * a third of its posterior sd per sweep (instrumented demo, lag-1 autocorrelation 0.93 to 0.97),
- * while the data barely tie it to the z's (their posterior sd 0.93 to 1.03, correlation of
- * sum z^2 with log tau_a -0.06). On `./rungs demo --attraction default`, seeds 1 and 2,
- * `attraction_sd` bulk ESS 89 and 38 against 50 and 24 without it, for a quarter more time.
- *
  * <p>Placed first in a sweep: every later step either integrates out the per-respondent latent
  * quantities too or redraws them given the parameters before it conditions on them (van Dyk &
  * Park 2008, section 3).
@@ -112,15 +105,11 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
     private double logStep = Math.log(0.5);
     private long proposed;
     private long accepted;
-    /** Under attraction: the slice step on log tau_a and its density, theta with that coordinate replaced. */
-    private final SliceSampler spreadSlice;
-    private final SliceSampler.LogDensity spreadDensity;
 
     private JointHamiltonianUpdate(ChainState state, Priors priors, int warmup, UniformRandomProvider rng) {
         this.posterior = new CollapsedPosterior(state, priors);
         this.rng = rng;
         this.normal = ZigguratSampler.NormalizedGaussian.of(rng);
-        this.spreadSlice = SliceSampler.of(rng, 1.0);
         this.dimension = posterior.dimension();
         this.size = state.size;
         this.buildAt = warmup >= 2 ? warmup / 2 : Integer.MAX_VALUE;
@@ -130,10 +119,6 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
         this.drawSum = new double[dimension];
         this.drawCross = new double[dimension * dimension];
         this.theta = new double[dimension];
-        this.spreadDensity = x -> {
-            theta[posterior.attractionSdAt] = x;
-            return posterior.logDensity(theta);
-        };
         this.proposal = new double[dimension];
         this.mode = new double[dimension];
         this.gradient = new double[dimension];
@@ -164,14 +149,6 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
         }
         for (int t = 0; t < TRAJECTORIES; t++) {
             trajectory(adapt);
-        }
-        if (posterior.attractionSdAt >= 0) {
-            // log tau_a once more, alone, by slice sampling its full conditional on the same
-            // collapsed posterior (the z[g,j] held, so every a[g,j] - abar[j] scales with it).
-            posterior.read(theta);
-            int at = posterior.attractionSdAt;
-            theta[at] = spreadSlice.sample(theta[at], spreadDensity);
-            posterior.write(theta);
         }
         if (adapt) {
             if (warmupCalls == refitAt || warmupCalls == lastRefitAt) {
