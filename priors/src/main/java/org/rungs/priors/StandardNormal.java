@@ -229,15 +229,21 @@ public final class StandardNormal {
      * exp(-x^2/2) / sqrt(2 pi).
      */
     public static double intervalProbability(double lower, double upper, double[] density, int at) {
-        double low = smallerTail(lower, density, at);
-        double high = smallerTail(upper, density, at + 1);
+        return intervalFromTails(lower, upper, smallerTail(lower, density, at), smallerTail(upper, density, at + 1));
+    }
+
+    /**
+     * Phi(upper) - Phi(lower) from the smaller tails at both bounds ({@link #smallerTail}; 0 at an
+     * infinite bound), as a difference on the side where the interval lies.
+     */
+    public static double intervalFromTails(double lower, double upper, double lowerTail, double upperTail) {
         if (lower > 0) {
-            return low - high;
+            return lowerTail - upperTail;
         }
         if (upper < 0) {
-            return high - low;
+            return upperTail - lowerTail;
         }
-        return 1 - low - high;
+        return 1 - lowerTail - upperTail;
     }
 
     /** {@link #cdf(double)}, bit for bit, also writing phi(x) to {@code density[at]} (as {@link #density}, bit for bit). */

@@ -213,6 +213,9 @@ final class CollapsedPosterior {
         thresholdDensity = new double[m + 1];
         offset = new double[m + 1];
         tail = new double[m + 1];
+        // The sentinels: c[g,0] = -inf and c[g,M] = +inf, whose tails are 0; attracted() fills 1..M-1.
+        offset[0] = Double.NEGATIVE_INFINITY;
+        offset[m] = Double.POSITIVE_INFINITY;
         probability = new double[m];
     }
 
@@ -826,15 +829,7 @@ final class CollapsedPosterior {
 
     /** Category k's probability from the tails {@link #attracted} filled: between thresholds k and k + 1. */
     private double category(int k) {
-        double low = k > 0 ? tail[k] : 0;
-        double high = k + 1 < m ? tail[k + 1] : 0;
-        if (k > 0 && offset[k] > 0) {
-            return low - high;
-        }
-        if (k + 1 < m && offset[k + 1] < 0) {
-            return high - low;
-        }
-        return 1 - low - high;
+        return StandardNormal.intervalFromTails(offset[k], offset[k + 1], tail[k], tail[k + 1]);
     }
 
     /** Adds respondent i's d log P / d eta and d log P / d zeta to its group's and the coefficients' gradients. */
