@@ -91,6 +91,13 @@ final class CollapsedPosterior {
     private final double[] gradGamma;
     private final double[] gradDelta;
     private final double[] gradAttraction;
+    /**
+     * Per respondent, d log P / d eta and d log P / d zeta of the last gradient pass; the
+     * coefficients' gradients are their sums against the covariate columns, taken after the pass
+     * ({@link #columnSums}) so that no sum waits on the one before it.
+     */
+    private final double[] respondentGradEta;
+    private final double[] respondentGradZeta;
     private final double[] cdf;
     private final double[] gradT;
     private final double[] fullCoords;
@@ -206,6 +213,8 @@ final class CollapsedPosterior {
         gradRows = new double[groups * (m + 1)];
         gradGamma = new double[groups];
         gradDelta = new double[styleCount];
+        respondentGradEta = levelCount > 0 ? new double[state.size] : null;
+        respondentGradZeta = channel != null && styleCount > 0 ? new double[state.size] : null;
         gradAttraction = new double[groups * m];
         cdf = new double[m + 1];
         gradT = new double[m + 1];
@@ -657,6 +666,12 @@ final class CollapsedPosterior {
             }
             chainRule(i, g, gradEta, gradZeta);
         }
+        if (grad && respondentGradEta != null) {
+            columnSums(x, levelCount, respondentGradEta, s.size, sampled, gradBeta);
+        }
+        if (grad && respondentGradZeta != null) {
+            columnSums(w, styleCount, respondentGradZeta, s.size, sampled, gradDelta);
+        }
         return total;
     }
 
@@ -834,17 +849,66 @@ final class CollapsedPosterior {
 
     /** Adds respondent i's d log P / d eta and d log P / d zeta to its group's and the coefficients' gradients. */
     private void chainRule(int i, int g, double gradEta, double gradZeta) {
-        double[][] x = state.level.columns;
         gradAlpha[g] += gradEta;
-        for (int p = 0; p < levelCount; p++) {
-            gradBeta[p] += x[p][i] * gradEta;
+        if (respondentGradEta != null) {
+            respondentGradEta[i] = gradEta;
         }
         if (channel != null) {
-            double[][] w = state.style.columns;
             gradGamma[g] += gradZeta;
-            for (int q = 0; q < styleCount; q++) {
-                gradDelta[q] += w[q][i] * gradZeta;
+            if (respondentGradZeta != null) {
+                respondentGradZeta[i] = gradZeta;
             }
+        }
+    }
+
+    /**
+     * sums[p] = sum over respondents i = 0, every, 2 every, ... of columns[p][i] * weight[i], each
+     * added in respondent order, four columns per pass so that four independent sums advance
+     * together (the same additions, in the same order, as one running sum per column).
+     */
+    private static void columnSums(double[][] columns, int count, double[] weight, int size, int every, double[] sums) {
+        int p = 0;
+        for (; p + 4 <= count; p += 4) {
+            double[] x0 = columns[p];
+            double[] x1 = columns[p + 1];
+            double[] x2 = columns[p + 2];
+            double[] x3 = columns[p + 3];
+            double s0 = 0;
+            double s1 = 0;
+            double s2 = 0;
+            double s3 = 0;
+            for (int i = 0; i < size; i += every) {
+                double v = weight[i];
+                s0 += x0[i] * v;
+                s1 += x1[i] * v;
+                s2 += x2[i] * v;
+                s3 += x3[i] * v;
+            }
+            sums[p] = s0;
+            sums[p + 1] = s1;
+            sums[p + 2] = s2;
+            sums[p + 3] = s3;
+        }
+        for (; p + 2 <= count; p += 2) {
+            double[] x0 = columns[p];
+            double[] x1 = columns[p + 1];
+            double s0 = 0;
+            double s1 = 0;
+            for (int i = 0; i < size; i += every) {
+                double v = weight[i];
+                s0 += x0[i] * v;
+                s1 += x1[i] * v;
+            }
+            sums[p] = s0;
+            sums[p + 1] = s1;
+        }
+        for (; p < count; p++) {
+            double[] x0 = columns[p];
+            double s0 = 0;
+            for (int i = 0; i < size; i += every) {
+                s0 += x0[i] * weight[i];
+            }
+            sums[p] = s0;
         }
     }
 
