@@ -630,18 +630,18 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
                     factor[f + j * count + l] = blockCurvature[j * count + l] + (j == l ? precision : 0);
                 }
             }
-            if (!cholesky(factor, f, count)) {
+            if (!Cholesky.factor(factor, f, factor, f, count)) {
                 return false;
             }
             // the Newton step: (L L') delta = gradient
             double[] delta = blockShare;
             System.arraycopy(blockGradient, 0, delta, 0, count);
-            solveLower(factor, f, count, delta);
+            Cholesky.solveLower(factor, f, count, delta);
             double decrement = 0;
             for (int j = 0; j < count; j++) {
                 decrement += delta[j] * delta[j];
             }
-            solveUpper(factor, f, count, delta);
+            Cholesky.solveUpper(factor, f, count, delta);
             double largest = 0;
             for (int j = 0; j < count; j++) {
                 largest = Math.max(largest, Math.abs(delta[j]));
@@ -687,52 +687,7 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
     /** Solves L' x = v in place with group g's factor: x ~ N(0, (L L')^-1) when v ~ N(0, I). */
     private void solveTransposed(double[] factor, int g, double[] v) {
         int count = attracted.length;
-        solveUpper(factor, g * count * count, count, v);
-    }
-
-    /** In-place lower Cholesky factor of the symmetric matrix whose lower triangle is at {@code f}, n x n row-major. */
-    private static boolean cholesky(double[] a, int f, int n) {
-        for (int j = 0; j < n; j++) {
-            double d = a[f + j * n + j];
-            for (int l = 0; l < j; l++) {
-                d -= a[f + j * n + l] * a[f + j * n + l];
-            }
-            if (!(d > 0)) {
-                return false;
-            }
-            d = Math.sqrt(d);
-            a[f + j * n + j] = d;
-            for (int i = j + 1; i < n; i++) {
-                double v = a[f + i * n + j];
-                for (int l = 0; l < j; l++) {
-                    v -= a[f + i * n + l] * a[f + j * n + l];
-                }
-                a[f + i * n + j] = v / d;
-            }
-        }
-        return true;
-    }
-
-    /** Solves L y = v in place. */
-    private static void solveLower(double[] a, int f, int n, double[] v) {
-        for (int i = 0; i < n; i++) {
-            double x = v[i];
-            for (int l = 0; l < i; l++) {
-                x -= a[f + i * n + l] * v[l];
-            }
-            v[i] = x / a[f + i * n + i];
-        }
-    }
-
-    /** Solves L' y = v in place. */
-    private static void solveUpper(double[] a, int f, int n, double[] v) {
-        for (int i = n - 1; i >= 0; i--) {
-            double x = v[i];
-            for (int l = i + 1; l < n; l++) {
-                x -= a[f + l * n + i] * v[l];
-            }
-            v[i] = x / a[f + i * n + i];
-        }
+        Cholesky.solveUpper(factor, g * count * count, count, v);
     }
 
     /** abar[j] given a[.,j] (conjugate normal), then tau_a given the deviations (slice on log tau_a). */
