@@ -24,11 +24,8 @@ import org.rungs.posteriors.Draws;
  * file may run ahead of the state after a kill; a resume cuts it back to the saved count.
  */
 final class ChainCheckpoint implements Closeable {
-    /**
-     * "RUNGSCK4": marks the file and its format (3: the joint Hamiltonian step's state in the
-     * sweep; 4: the attraction update's block-move scale and warm-up sums).
-     */
-    private static final long MAGIC = 0x52554E4753434B34L;
+    /** "RUNGSCK3": marks the file and its format (3: the joint Hamiltonian step's state in the sweep). */
+    private static final long MAGIC = 0x52554E4753434B33L;
 
     /** Iterations done (warm-up included) and kept draws at a save. */
     record Position(int iterations, int kept) {
