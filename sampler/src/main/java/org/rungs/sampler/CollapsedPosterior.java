@@ -858,7 +858,10 @@ final class CollapsedPosterior {
         return StandardNormal.intervalFromTails(offset[k], offset[k + 1], tail[k], tail[k + 1]);
     }
 
-    /** Adds respondent i's d log P / d eta and d log P / d zeta to its group's and the coefficients' gradients. */
+    /**
+     * Adds respondent i's d log P / d eta and d log P / d zeta to its group's gradients and keeps
+     * them for the coefficients', which {@link #columnSums} adds up after the pass.
+     */
     private void chainRule(int i, int g, double gradEta, double gradZeta) {
         gradAlpha[g] += gradEta;
         if (respondentGradEta != null) {
@@ -875,7 +878,8 @@ final class CollapsedPosterior {
     /**
      * sums[p] = sum over respondents i = 0, every, 2 every, ... of columns[p][i] * weight[i], each
      * added in respondent order, four columns per pass so that four independent sums advance
-     * together (the same additions, in the same order, as one running sum per column).
+     * together, the remaining columns one at a time (the same additions, in the same order, as
+     * one running sum per column).
      */
     private static void columnSums(double[][] columns, int count, double[] weight, int size, int every, double[] sums) {
         int p = 0;
@@ -899,19 +903,6 @@ final class CollapsedPosterior {
             sums[p + 1] = s1;
             sums[p + 2] = s2;
             sums[p + 3] = s3;
-        }
-        for (; p + 2 <= count; p += 2) {
-            double[] x0 = columns[p];
-            double[] x1 = columns[p + 1];
-            double s0 = 0;
-            double s1 = 0;
-            for (int i = 0; i < size; i += every) {
-                double v = weight[i];
-                s0 += x0[i] * v;
-                s1 += x1[i] * v;
-            }
-            sums[p] = s0;
-            sums[p + 1] = s1;
         }
         for (; p < count; p++) {
             double[] x0 = columns[p];
