@@ -35,8 +35,6 @@ final class CollapsedPosterior {
      */
     private static final double PLAIN_FLOOR = 1e-200;
     private static final double PLAIN_PROBIT = 6;
-    /** The running product of probabilities in {@link #likelihood} is logged and restarted below this. */
-    private static final double RENORMALISE = 1e-100;
 
     private final ChainState state;
     private final Priors priors;
@@ -571,7 +569,6 @@ final class CollapsedPosterior {
         double[][] w = s.style == null ? null : s.style.columns;
         boolean attractionOn = attracted.length > 0;
         double total = 0;
-        double product = 1;
         lastZeta = Double.NaN;
         for (int i = 0; i < s.size; i += sampled) {
             int g = group[i];
@@ -590,14 +587,7 @@ final class CollapsedPosterior {
             }
             double fast = attractionOn ? attracted(i, g, r, base, eta, zeta, grad) : plain(i, g, r, base, eta, zeta, grad);
             if (!Double.isNaN(fast)) {
-                // A product of probabilities, its log taken only before it could underflow: one
-                // logarithm per hundreds of respondents instead of one each (each factor is above
-                // PLAIN_FLOOR, so the product stays above 1e-300).
-                product *= fast;
-                if (product < RENORMALISE) {
-                    total += Math.log(product);
-                    product = 1;
-                }
+                total += fast;
                 continue;
             }
             double lower = rows[base + r] - eta;
@@ -676,7 +666,6 @@ final class CollapsedPosterior {
             }
             chainRule(i, g, gradEta, gradZeta);
         }
-        total += Math.log(product);
         if (grad && respondentGradEta != null) {
             columnSums(x, levelCount, respondentGradEta, s.size, sampled, gradBeta);
         }
@@ -687,7 +676,7 @@ final class CollapsedPosterior {
     }
 
     /**
-     * Without attraction, respondent i's likelihood (not its log) and gradient computed on probabilities,
+     * Without attraction, respondent i's log-likelihood and gradient computed on probabilities,
      * which costs about half the normal-function calls of the log-space path; NaN, with nothing
      * accumulated, when a probability is too small for that or the class probit is far out.
      */
@@ -713,7 +702,7 @@ final class CollapsedPosterior {
             likelihood += q * coarse;
         }
         if (!grad) {
-            return likelihood;
+            return Math.log(likelihood);
         }
         double weightFull = (channel == null ? 1 : 1 - q) / likelihood;
         double gradEta = 0;
@@ -736,7 +725,7 @@ final class CollapsedPosterior {
             gradEta = addCoarse(r, q / likelihood, gradRows, base, gradEta);
         }
         chainRule(i, g, gradEta, gradZeta);
-        return likelihood;
+        return Math.log(likelihood);
     }
 
     /** q = Phi(zeta), and phi(zeta) in {@link #lastPhi}; 0 without the coarse class. */
@@ -752,7 +741,7 @@ final class CollapsedPosterior {
     }
 
     /**
-     * Under attraction, respondent i's likelihood (MODEL.md 4b, 4c; not its log) and gradient computed on
+     * Under attraction, respondent i's log-likelihood (MODEL.md 4b, 4c) and gradient computed on
      * probabilities, as {@link #plain} does: each threshold's smaller normal tail and density from
      * one call, each category's probability a difference of tails on the side where it
      * lies, the coarse probability a sum of categories. NaN, with nothing accumulated, when the
@@ -793,7 +782,7 @@ final class CollapsedPosterior {
             likelihood += q * coarse;
         }
         if (!grad) {
-            return likelihood;
+            return Math.log(likelihood);
         }
         // d log P / d(c[g,k] - eta) for each threshold k, then the chain rule (as in the log-space path).
         double weightFull = (1 - q) * full / likelihood;
@@ -823,7 +812,7 @@ final class CollapsedPosterior {
             gradZeta = point ? lastPhi * (coarse - full) / likelihood : -lastPhi / (1 - q);
         }
         chainRule(i, g, gradEta, gradZeta);
-        return likelihood;
+        return Math.log(likelihood);
     }
 
     /**
