@@ -20,7 +20,8 @@ import org.rungs.posteriors.Draws;
  * One Markov chain: its state and the cycle of updates of one sweep, in the order the joint
  * Hamiltonian step and the collapsed threshold steps (coarse class or attraction on), threshold
  * hyperparameters, style classes (when on), number attraction (when on), latent levels, threshold
- * rescaling steps, level coefficients and group levels, their pooling, then the coarse class's
+ * rescaling steps, level coefficients and group levels (under attraction only while the redraw
+ * scheme's cost is bounded, {@link BoundedRedrawSteps}), their pooling, then the coarse class's
  * coefficients and pooling.
  *
  * <p>The joint step, the collapsed threshold steps and the classes' intercepts are drawn with the
@@ -74,10 +75,14 @@ final class Chain implements Checkpointed {
         if (state.attractionOn()) {
             sweep.add(AttractionUpdate.of(state, priors, rng));
         }
-        sweep.add(LatentLevelUpdate.of(state, rng));
         ThresholdRescaleUpdate thresholds = ThresholdRescaleUpdate.of(state, order.start(), priors, rng);
-        sweep.add(thresholds);
-        sweep.add(RegressionUpdate.of(state.level, priors.level(), priors.groupMean(), rng));
+        List<Update> levelSteps = List.of(LatentLevelUpdate.of(state, rng), thresholds,
+                RegressionUpdate.of(state.level, priors.level(), priors.groupMean(), rng));
+        if (state.attractionOn()) {
+            sweep.add(BoundedRedrawSteps.of(state, levelSteps));
+        } else {
+            sweep.addAll(levelSteps);
+        }
         if (state.groups > 1) {
             sweep.add(PoolingUpdate.of(state.level, priors.groupMean(), priors.groupSd(), rng));
         }
@@ -115,9 +120,7 @@ final class Chain implements Checkpointed {
                 break;
             }
             boolean warmingUp = it < settings.warmup();
-            for (Update u : sweep) {
-                u.update(warmingUp);
-            }
+            sweepOnce(warmingUp);
             if (!warmingUp && (it + 1 - settings.warmup()) % settings.thin() == 0) {
                 state.writeRow(layout, row);
                 draws.putRow(chain, kept++, row);
@@ -134,6 +137,13 @@ final class Chain implements Checkpointed {
             checkpoint.save(this, it, kept);
         }
         return kept;
+    }
+
+    /** One sweep: every update of the cycle once. */
+    void sweepOnce(boolean warmingUp) {
+        for (Update u : sweep) {
+            u.update(warmingUp);
+        }
     }
 
     /** The random stream's state, the chain state, then each stateful update in sweep order. */
@@ -171,6 +181,16 @@ final class Chain implements Checkpointed {
             }
         }
         return Double.NaN;
+    }
+
+    /** Under attraction, the share of sampling sweeps without the latent-level steps ({@link BoundedRedrawSteps}); else 0. */
+    double latentStepsSkipped() {
+        for (Update u : sweep) {
+            if (u instanceof BoundedRedrawSteps) {
+                return ((BoundedRedrawSteps) u).skippedShare();
+            }
+        }
+        return 0;
     }
 
     /** Acceptance of the rescaling steps, made in every mode. */

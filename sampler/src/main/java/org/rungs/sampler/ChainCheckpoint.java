@@ -24,8 +24,11 @@ import org.rungs.posteriors.Draws;
  * file may run ahead of the state after a kill; a resume cuts it back to the saved count.
  */
 final class ChainCheckpoint implements Closeable {
-    /** "RUNGSCK3": marks the file and its format (3: the joint Hamiltonian step's state in the sweep). */
-    private static final long MAGIC = 0x52554E4753434B33L;
+    /**
+     * "RUNGSCK4": marks the file and its format (3: the joint Hamiltonian step's state in the
+     * sweep; 4: under attraction, the counters of {@link BoundedRedrawSteps}).
+     */
+    private static final long MAGIC = 0x52554E4753434B34L;
 
     /** Iterations done (warm-up included) and kept draws at a save. */
     record Position(int iterations, int kept) {

@@ -13,8 +13,12 @@ import org.rungs.posteriors.Draws;
  * @param thresholdAcceptance  per chain, the share of accepted threshold proposals while sampling
  * @param jointAcceptance      per chain, the share of accepted joint Hamiltonian proposals while
  *                             sampling; NaN when the model has no such step (plain ordered probit)
+ * @param latentStepsSkipped   per chain, the share of sampling sweeps in which the attractions spread
+ *                             too wide for the latent-level steps ({@link BoundedRedrawSteps}); 0
+ *                             without attraction
  * @param interrupted          true when the run was stopped before all iterations were done
  */
 public record FitResult(Draws draws, ParameterLayout layout, SamplerSettings settings, double seconds,
-                        double[] thresholdAcceptance, double[] jointAcceptance, boolean interrupted) {
+                        double[] thresholdAcceptance, double[] jointAcceptance, double[] latentStepsSkipped,
+                        boolean interrupted) {
 }

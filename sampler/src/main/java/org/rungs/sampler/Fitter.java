@@ -78,6 +78,7 @@ public final class Fitter {
         int[] kept = new int[settings.chains()];
         double[] acceptance = new double[settings.chains()];
         double[] joint = new double[settings.chains()];
+        double[] skipped = new double[settings.chains()];
         long start = System.nanoTime();
         ExecutorService pool = Executors.newFixedThreadPool(Math.min(settings.threads(), settings.chains()), r -> {
             Thread t = new Thread(r, "rungs-chain");
@@ -98,6 +99,7 @@ public final class Fitter {
                     }
                     acceptance[chain] = run.thresholdAcceptance();
                     joint[chain] = run.jointAcceptance();
+                    skipped[chain] = run.latentStepsSkipped();
                 }));
             }
             for (Future<?> f : futures) {
@@ -123,6 +125,6 @@ public final class Fitter {
         }
         boolean interrupted = common < settings.draws();
         Draws result = interrupted ? draws.withIterations(common) : draws;
-        return new FitResult(result, layout, settings, (System.nanoTime() - start) / 1e9, acceptance, joint, interrupted);
+        return new FitResult(result, layout, settings, (System.nanoTime() - start) / 1e9, acceptance, joint, skipped, interrupted);
     }
 }

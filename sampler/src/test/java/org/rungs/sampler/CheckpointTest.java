@@ -17,6 +17,7 @@ import java.util.concurrent.atomic.AtomicBoolean;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 import org.rungs.models.ModelSpec;
+import org.rungs.models.NumberAttraction;
 import org.rungs.models.StyleClasses;
 import org.rungs.models.ThresholdMode;
 import org.rungs.models.survey.Covariates;
@@ -77,6 +78,23 @@ final class CheckpointTest {
         AtomicBoolean stop = new AtomicBoolean();
         assertTrue(Fitter.fit(survey(), spec(), thinned, stopAt(40, stop), stop, Checkpoints.start(here, RARELY)).interrupted());
         FitResult resumed = Fitter.fit(survey(), spec(), thinned, ProgressListener.NONE, new AtomicBoolean(),
+                Checkpoints.resume(here, RARELY));
+        assertSameDraws(reference, resumed.draws());
+    }
+
+    /**
+     * Under number attraction the sweep holds {@link BoundedRedrawSteps}, which saves its counters
+     * and its steps' state: stopped at iteration 45 (while sampling) and resumed, the chains give the
+     * uninterrupted fit's draws and the same share of skipped sweeps.
+     */
+    @Test
+    void resumingAnAttractionFitReproducesItsDraws() {
+        ModelSpec attraction = spec().withAttraction(NumberAttraction.of(2, 4));
+        Draws reference = Fitter.fit(survey(), attraction, SETTINGS, ProgressListener.NONE, new AtomicBoolean(), Checkpoints.none()).draws();
+        Path here = dir.resolve("attraction");
+        AtomicBoolean stop = new AtomicBoolean();
+        assertTrue(Fitter.fit(survey(), attraction, SETTINGS, stopAt(45, stop), stop, Checkpoints.start(here, RARELY)).interrupted());
+        FitResult resumed = Fitter.fit(survey(), attraction, SETTINGS, ProgressListener.NONE, new AtomicBoolean(),
                 Checkpoints.resume(here, RARELY));
         assertSameDraws(reference, resumed.draws());
     }

@@ -126,6 +126,15 @@ public final class FitJob {
         if (summaries.stream().anyMatch(ParameterSummary::flagged)) {
             record.warn(verdict);
         }
+        double skipped = java.util.Arrays.stream(result.latentStepsSkipped()).max().orElse(0);
+        if (skipped > 0) {
+            String w = String.format(Locale.ROOT, "in up to %.0f%% of a chain's sampling sweeps the attractions of a group "
+                    + "spanned more than log(1000), so the latent levels, the threshold rescaling and the level "
+                    + "regression were skipped there (exact, but slower mixing); such attractions are rarely "
+                    + "plausible: check the attraction set and the scale", 100 * skipped);
+            record.warn(w);
+            err.println("warning: " + w);
+        }
 
         folder.write("draws.csv", tmp -> DrawsCsv.write(result.draws(), tmp));
         folder.write("summary.csv", tmp -> SummaryTable.writeCsv(summaries, tmp));
@@ -288,6 +297,9 @@ public final class FitJob {
         m.put("threshold_acceptance_per_chain", perChain(result.thresholdAcceptance()));
         if (java.util.Arrays.stream(result.jointAcceptance()).anyMatch(Double::isFinite)) {
             m.put("joint_step_acceptance_per_chain", perChain(result.jointAcceptance()));
+        }
+        if (result.layout().attractionSet().length > 0) {
+            m.put("latent_steps_skipped_per_chain", perChain(result.latentStepsSkipped()));
         }
         return m;
     }
