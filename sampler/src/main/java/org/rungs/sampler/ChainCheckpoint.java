@@ -26,7 +26,8 @@ import org.rungs.posteriors.Draws;
 final class ChainCheckpoint implements Closeable {
     /**
      * "RUNGSCK4": marks the file and its format (3: the joint Hamiltonian step's state in the
-     * sweep; 4: under attraction, the counters of {@link BoundedRedrawSteps}).
+     * sweep; 4: under attraction, the counters of {@link BoundedRedrawSteps} and the attraction
+     * update's block-move scale and warm-up sums).
      */
     private static final long MAGIC = 0x52554E4753434B34L;
 

@@ -290,24 +290,12 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
 
     /** Solves R' y = v in place, so y ~ N(0, H^-1) when v ~ N(0, I). */
     private void solveUpper(double[] v) {
-        for (int j = dimension - 1; j >= 0; j--) {
-            double s = v[j];
-            for (int i = j + 1; i < dimension; i++) {
-                s -= factor[i * dimension + j] * v[i];
-            }
-            v[j] = s / factor[j * dimension + j];
-        }
+        Cholesky.solveUpper(factor, 0, dimension, v);
     }
 
     /** Solves R v = b in place. */
     private void solveLower(double[] v) {
-        for (int i = 0; i < dimension; i++) {
-            double s = v[i];
-            for (int j = 0; j < i; j++) {
-                s -= factor[i * dimension + j] * v[j];
-            }
-            v[i] = s / factor[i * dimension + i];
-        }
+        Cholesky.solveLower(factor, 0, dimension, v);
     }
 
     /** Fits the metric from the chain's current state, on a sample of a large survey; leaves the step off if that fails. */
@@ -423,25 +411,8 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
 
     /** Lower Cholesky factor of the row-major symmetric matrix a into {@link #factor}. */
     private boolean cholesky(double[] a) {
-        int d = dimension;
         java.util.Arrays.fill(factor, 0);
-        for (int i = 0; i < d; i++) {
-            for (int j = 0; j <= i; j++) {
-                double s = a[i * d + j];
-                for (int k = 0; k < j; k++) {
-                    s -= factor[i * d + k] * factor[j * d + k];
-                }
-                if (i == j) {
-                    if (!(s > 0)) {
-                        return false;
-                    }
-                    factor[i * d + i] = Math.sqrt(s);
-                } else {
-                    factor[i * d + j] = s / factor[j * d + j];
-                }
-            }
-        }
-        return true;
+        return Cholesky.factor(a, 0, factor, 0, dimension);
     }
 
     /** Warm-up position, step size, acceptance counts, the warm-up draws' sums and the metric. */
