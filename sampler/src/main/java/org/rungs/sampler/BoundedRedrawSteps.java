@@ -25,21 +25,28 @@ final class BoundedRedrawSteps implements Update, Checkpointed {
     static final double MAX_RANGE = Math.log(1000);
     private final ChainState state;
     private final List<Update> steps;
+    private final double maxRange;
     private int samplingSweeps;
     private int skipped;
 
-    private BoundedRedrawSteps(ChainState state, List<Update> steps) {
+    private BoundedRedrawSteps(ChainState state, List<Update> steps, double maxRange) {
         this.state = state;
         this.steps = steps;
+        this.maxRange = maxRange;
     }
 
     static BoundedRedrawSteps of(ChainState state, List<Update> steps) {
-        return new BoundedRedrawSteps(state, List.copyOf(steps));
+        return of(state, steps, MAX_RANGE);
+    }
+
+    /** For tests: another largest range, so that the bound binds on an ordinary posterior. */
+    static BoundedRedrawSteps of(ChainState state, List<Update> steps, double maxRange) {
+        return new BoundedRedrawSteps(state, List.copyOf(steps), maxRange);
     }
 
     @Override
     public void update(boolean adapt) {
-        boolean bounded = bounded(state);
+        boolean bounded = bounded(state, maxRange);
         if (!adapt) {
             samplingSweeps++;
             skipped += bounded ? 0 : 1;
@@ -51,15 +58,15 @@ final class BoundedRedrawSteps implements Update, Checkpointed {
         }
     }
 
-    /** True when every group's attractions, 0 included, span at most {@link #MAX_RANGE}. */
-    static boolean bounded(ChainState s) {
+    /** True when every group's attractions, 0 included, span at most maxRange. */
+    static boolean bounded(ChainState s, double maxRange) {
         int m = s.categories;
         for (int g = 0; g < s.groups; g++) {
             double low = 0;
             for (int k : s.attracted) {
                 low = Math.min(low, s.attraction[g * m + k]);
             }
-            if (!(s.attractionTop(g) - low <= MAX_RANGE)) {
+            if (!(s.attractionTop(g) - low <= maxRange)) {
                 return false;
             }
         }

@@ -50,6 +50,12 @@ final class Chain implements Checkpointed {
     }
 
     static Chain of(SurveyOrder order, ModelSpec spec, boolean byGroup, int warmup, RestorableUniformRandomProvider rng) {
+        return of(order, spec, byGroup, warmup, rng, BoundedRedrawSteps.MAX_RANGE);
+    }
+
+    /** For tests: maxRange is the bound of {@link BoundedRedrawSteps} under attraction. */
+    static Chain of(SurveyOrder order, ModelSpec spec, boolean byGroup, int warmup, RestorableUniformRandomProvider rng,
+                    double maxRange) {
         Priors priors = spec.priors();
         StyleClasses classes = spec.styleClasses();
         Scale scale = order.survey().scale();
@@ -79,7 +85,7 @@ final class Chain implements Checkpointed {
         List<Update> levelSteps = List.of(LatentLevelUpdate.of(state, rng), thresholds,
                 RegressionUpdate.of(state.level, priors.level(), priors.groupMean(), rng));
         if (state.attractionOn()) {
-            sweep.add(BoundedRedrawSteps.of(state, levelSteps));
+            sweep.add(BoundedRedrawSteps.of(state, levelSteps, maxRange));
         } else {
             sweep.addAll(levelSteps);
         }
