@@ -83,21 +83,13 @@ final class BoundedRedrawSteps implements Update, Checkpointed {
     public void save(DataOutput out) throws IOException {
         out.writeInt(samplingSweeps);
         out.writeInt(skipped);
-        for (Update u : steps) {
-            if (u instanceof Checkpointed) {
-                ((Checkpointed) u).save(out);
-            }
-        }
+        Checkpointed.saveAll(steps, out);
     }
 
     @Override
     public void restore(DataInput in) throws IOException {
         samplingSweeps = in.readInt();
         skipped = in.readInt();
-        for (Update u : steps) {
-            if (u instanceof Checkpointed) {
-                ((Checkpointed) u).restore(in);
-            }
-        }
+        Checkpointed.restoreAll(steps, in);
     }
 }

@@ -159,11 +159,7 @@ final class Chain implements Checkpointed {
         out.writeInt(stream.length);
         out.write(stream);
         state.save(out);
-        for (Update u : sweep) {
-            if (u instanceof Checkpointed) {
-                ((Checkpointed) u).save(out);
-            }
-        }
+        Checkpointed.saveAll(sweep, out);
     }
 
     @Override
@@ -172,11 +168,7 @@ final class Chain implements Checkpointed {
         in.readFully(stream);
         rng.restoreState(new RandomProviderDefaultState(stream));
         state.restore(in);
-        for (Update u : sweep) {
-            if (u instanceof Checkpointed) {
-                ((Checkpointed) u).restore(in);
-            }
-        }
+        Checkpointed.restoreAll(sweep, in);
     }
 
     /** Acceptance of the joint Hamiltonian step while sampling; NaN when the sweep has none or it never started. */

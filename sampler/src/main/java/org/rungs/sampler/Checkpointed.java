@@ -3,6 +3,7 @@ package org.rungs.sampler;
 import java.io.DataInput;
 import java.io.DataOutput;
 import java.io.IOException;
+import java.util.List;
 
 /**
  * A part of a chain whose values carry over from one iteration to the next, saved in a
@@ -14,6 +15,24 @@ interface Checkpointed {
 
     /** @throws IOException when the saved values do not fit this part (another model or survey) */
     void restore(DataInput in) throws IOException;
+
+    /** Saves, in order, those of {@code parts} that are checkpointed. */
+    static void saveAll(List<?> parts, DataOutput out) throws IOException {
+        for (Object p : parts) {
+            if (p instanceof Checkpointed) {
+                ((Checkpointed) p).save(out);
+            }
+        }
+    }
+
+    /** Restores, in order, those of {@code parts} that are checkpointed. */
+    static void restoreAll(List<?> parts, DataInput in) throws IOException {
+        for (Object p : parts) {
+            if (p instanceof Checkpointed) {
+                ((Checkpointed) p).restore(in);
+            }
+        }
+    }
 
     static void writeDoubles(DataOutput out, double[] values) throws IOException {
         out.writeInt(values.length);
