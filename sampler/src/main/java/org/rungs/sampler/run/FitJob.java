@@ -126,14 +126,10 @@ public final class FitJob {
         if (summaries.stream().anyMatch(ParameterSummary::flagged)) {
             record.warn(verdict);
         }
-        double skipped = java.util.Arrays.stream(result.latentStepsSkipped()).max().orElse(0);
-        if (skipped > 0) {
-            String w = String.format(Locale.ROOT, "in up to %.0f%% of a chain's sampling sweeps the attractions of a group "
-                    + "spanned more than log(1000), so the latent levels, the threshold rescaling and the level "
-                    + "regression were skipped there (exact, but slower mixing); such attractions are rarely "
-                    + "plausible: check the attraction set and the scale", 100 * skipped);
-            record.warn(w);
-            err.println("warning: " + w);
+        String skipped = skippedStepsWarning(result.latentStepsSkipped());
+        if (skipped != null) {
+            record.warn(skipped);
+            err.println("warning: " + skipped);
         }
 
         folder.write("draws.csv", tmp -> DrawsCsv.write(result.draws(), tmp));
@@ -281,6 +277,21 @@ public final class FitJob {
         m.put("level_covariates", covariates);
         m.put("parameters", layout.size());
         return m;
+    }
+
+    /**
+     * The warning when some chain skipped the latent-level steps in a share of its sampling sweeps
+     * ({@code FitResult.latentStepsSkipped}); null when none did.
+     */
+    static String skippedStepsWarning(double[] shares) {
+        double largest = java.util.Arrays.stream(shares).max().orElse(0);
+        if (!(largest > 0)) {
+            return null;
+        }
+        return String.format(Locale.ROOT, "in up to %.1f%% of a chain's sampling sweeps the attractions of a group "
+                + "spanned more than log(1000), so the latent levels, the threshold rescaling and the level "
+                + "regression were skipped there (exact, but slower mixing); such attractions are rarely "
+                + "plausible: check the attraction set and the scale", 100 * largest);
     }
 
     private static Map<String, Object> sampler(FitResult result) {

@@ -74,12 +74,23 @@ class FitJobAttractionTest {
         assertTrue(run.contains("\"attraction\": \"[4, 2]\""), run);
         assertTrue(run.replaceAll("\\s", "").contains("\"attraction_set\":[2,4]"), run);
         assertTrue(run.contains("\"attraction_mean\": \"" + Priors.defaults().attractionMean() + "\""), run);
+        assertTrue(run.contains("\"latent_steps_skipped_per_chain\": \"0.000, 0.000\""), run);
+        assertFalse(printed.contains("were skipped there"), printed);
         assertTrue(printed.contains("Numbers liked or avoided"), printed);
         for (String region : List.of("Fernholt", "Moorgate", "Lindcross")) {
             assertTrue(printed.contains("\n  " + region + ": "), printed);
         }
         assertTrue(printed.contains("summary.csv, attraction.csv, derived_draws.csv"), printed);
         assertTrue(printed.contains("plain ordered probit (style classes and attraction off)"), printed);
+    }
+
+    /** The warning names the largest share of any chain, and there is none when no chain skipped. */
+    @Test
+    void skippedLatentStepsAreWarnedAbout() {
+        assertEquals(null, FitJob.skippedStepsWarning(new double[] {0, 0}));
+        String w = FitJob.skippedStepsWarning(new double[] {0.0125, 0, 0.5});
+        assertTrue(w.startsWith("in up to 50.0% of a chain's sampling sweeps"), w);
+        assertTrue(FitJob.skippedStepsWarning(new double[] {0.001}).startsWith("in up to 0.1%"));
     }
 
     @Test
@@ -91,7 +102,7 @@ class FitJobAttractionTest {
         assertFalse(Files.readString(out.resolve("distributions.csv")).contains("attract"));
         String run = Files.readString(out.resolve("run.json"));
         assertTrue(run.contains("\"attraction\": \"none\""), run);
-        assertFalse(run.contains("attraction_set") || run.contains("attraction_mean"), run);
+        assertFalse(run.contains("attraction_set") || run.contains("attraction_mean") || run.contains("latent_steps_skipped"), run);
         assertFalse(printed.contains("liked or avoided") || printed.contains("attraction.csv")
                 || printed.contains("plain ordered probit"), printed);
     }
