@@ -15,6 +15,7 @@ import org.rungs.models.StyleClasses;
 import org.rungs.models.ThresholdMode;
 import org.rungs.priors.Priors;
 
+/** {@link BoundedRedrawSteps}: the bound, its bookkeeping, exactness where it binds, and a run-away start. */
 class BoundedRedrawStepsTest {
     /** Numbers 2 and 4 of the 1..5 scale, positions 1 and 3. */
     private static ChainState state() {
