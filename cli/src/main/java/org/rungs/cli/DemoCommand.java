@@ -30,6 +30,9 @@ final class DemoCommand implements Callable<Integer> {
         if (sampling.seed == null) {
             sampling.seed = 1L;
         }
+        if (sampling.thin == null) {
+            sampling.thin = SamplingOptions.DEMO_THIN;
+        }
         Demo.Prepared demo;
         try {
             demo = Demo.prepare(out, overwrite, sampling.model(), sampling.settings());

@@ -136,6 +136,7 @@ final class CommandLineTest {
         assertEquals(0, demo.exit());
         assertTrue(demo.flatOut().contains("Default: rungs-demo"), demo.out());
         assertTrue(demo.flatOut().contains("Number of chains. Default: 4"), demo.out());
+        assertTrue(demo.flatOut().contains("Default: 1 (the demo: " + SamplingOptions.DEMO_THIN + ")"), demo.out());
 
         Run simulate = rungs("simulate", "--help");
         assertEquals(0, simulate.exit());
@@ -176,6 +177,16 @@ final class CommandLineTest {
         assertEquals(2 * 20, Files.readAllLines(out.resolve("draws.csv")).size() - 1);
         assertEquals(3L, jsonLong(Files.readString(out.resolve("run.json")), "thin"));
         assertTrue(r.err().contains("20 kept iterations (one in 3 of 60 iterations)"), r.err());
+    }
+
+    @Test
+    void theDemoKeepsEverySecondIterationUnlessAskedOtherwise() throws Exception {
+        Path out = dir.resolve("short-demo");
+        Run r = rungs("demo", "--out", out.toString(), "--chains", "1", "--warmup", "4", "--draws", "3");
+        assertEquals(0, r.exit(), r.err());
+        assertEquals(SamplingOptions.DEMO_THIN, jsonLong(Files.readString(out.resolve("run.json")), "thin"));
+        assertTrue(r.err().contains("3 kept iterations (one in 2 of 6 iterations)"), r.err());
+        assertEquals(3, Files.readAllLines(out.resolve("draws.csv")).size() - 1);
     }
 
     @Test
