@@ -2,6 +2,10 @@ package org.rungs.cli;
 
 import java.io.IOException;
 import java.nio.file.Path;
+import java.util.EnumSet;
+import java.util.List;
+import java.util.Locale;
+import java.util.Set;
 import java.util.concurrent.Callable;
 import org.rungs.examples.Benchmark;
 import picocli.CommandLine.Command;
@@ -35,6 +39,11 @@ final class BenchmarkCommand implements Callable<Integer> {
     @Option(names = "--ess-draws", defaultValue = "1000", description = "Kept draws per chain of the ESS fits. Default: ${DEFAULT-VALUE}.")
     int essDraws;
 
+    @Option(names = "--models", split = ",", defaultValue = "plain,coarse,complete", paramLabel = "MODEL,...",
+            description = "Models whose speed is timed: plain (style classes off), coarse (the coarse class on, half the sweeps), "
+                    + "complete (attraction too, a quarter of the sweeps). Default: ${DEFAULT-VALUE}.")
+    List<String> models;
+
     @Option(names = "--out", paramLabel = "FILE", description = "Also write the Markdown report to this file.")
     Path out;
 
@@ -42,7 +51,15 @@ final class BenchmarkCommand implements Callable<Integer> {
     public Integer call() throws IOException {
         Benchmark.Settings settings;
         try {
-            settings = new Benchmark.Settings(sizes, sweeps, seed, essSizes, essWarmup, essDraws);
+            Set<Benchmark.Model> timed = EnumSet.noneOf(Benchmark.Model.class);
+            for (String m : models) {
+                try {
+                    timed.add(Benchmark.Model.valueOf(m.trim().toUpperCase(Locale.ROOT)));
+                } catch (IllegalArgumentException unknown) {
+                    throw new IllegalArgumentException("--models takes plain, coarse and complete, got '" + m + "'");
+                }
+            }
+            settings = new Benchmark.Settings(sizes, sweeps, seed, essSizes, essWarmup, essDraws, timed);
         } catch (IllegalArgumentException e) {
             System.err.println("rungs benchmark: " + e.getMessage());
             return Main.INPUT_ERROR;

@@ -7,8 +7,10 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.Arrays;
+import java.util.EnumSet;
 import java.util.List;
 import java.util.Locale;
+import java.util.Set;
 import java.util.concurrent.atomic.AtomicBoolean;
 import java.util.function.IntFunction;
 import org.rungs.models.ModelSpec;
@@ -54,11 +56,14 @@ public final class Benchmark {
      * @param essSizes  sizes of the bulk-ESS fits (2 chains on 2 threads)
      * @param essWarmup warm-up iterations per chain of the ESS fits
      * @param essDraws  kept iterations per chain of the ESS fits
+     * @param models    the models whose speed is timed
      */
-    public record Settings(int[] sizes, int sweeps, long seed, int[] essSizes, int essWarmup, int essDraws) {
+    public record Settings(int[] sizes, int sweeps, long seed, int[] essSizes, int essWarmup, int essDraws,
+                           Set<Model> models) {
         public Settings {
             sizes = sizes.clone();
             essSizes = essSizes.clone();
+            models = models.isEmpty() ? EnumSet.noneOf(Model.class) : EnumSet.copyOf(models);
             if (sizes.length == 0 || Arrays.stream(sizes).anyMatch(n -> n < GROUPS)
                     || Arrays.stream(essSizes).anyMatch(n -> n < GROUPS)) {
                 throw new IllegalArgumentException("every size needs at least " + GROUPS + " respondents");
@@ -76,6 +81,26 @@ public final class Benchmark {
         @Override
         public int[] essSizes() {
             return essSizes.clone();
+        }
+
+        @Override
+        public Set<Model> models() {
+            return models.isEmpty() ? EnumSet.noneOf(Model.class) : EnumSet.copyOf(models);
+        }
+    }
+
+    /**
+     * The models timed: the plain ordered probit, with the coarse class (half the sweeps), and the
+     * complete model with attraction too (a quarter of the sweeps).
+     */
+    public enum Model {
+        PLAIN(1), COARSE(2), COMPLETE(4);
+
+        /** The largest size runs {@code sweeps / divisor} sweeps of this model. */
+        final int divisor;
+
+        Model(int divisor) {
+            this.divisor = divisor;
         }
     }
 
@@ -172,11 +197,17 @@ public final class Benchmark {
         log.println("benchmark: untimed fit to let the compiler settle");
         fit(survey(JIT_RESPONDENTS, settings.seed()), model, new SamplerSettings(1, JIT_SWEEPS / 2, JIT_SWEEPS / 2, settings.seed(), 1));
 
-        List<Timing> timings = timings("", settings, n -> scenario(n, settings.seed()), model, 1, log);
+        Set<Model> models = settings.models();
+        List<Timing> timings = models.contains(Model.PLAIN)
+                ? timings("", settings, n -> scenario(n, settings.seed()), model, Model.PLAIN, log) : List.of();
         ModelSpec coarseModel = model.withStyleClasses(StyleClasses.coarse(null));
-        List<Timing> coarseTimings = timings("coarse class, ", settings, n -> coarseScenario(n, settings.seed()), coarseModel, 2, log);
-        List<Timing> fullTimings = timings("coarse class and attraction, ", settings, n -> fullScenario(n, settings.seed()),
-                coarseModel.withAttraction(NumberAttraction.besidesCoarsePoints()), 4, log);
+        List<Timing> coarseTimings = models.contains(Model.COARSE)
+                ? timings("coarse class, ", settings, n -> coarseScenario(n, settings.seed()), coarseModel, Model.COARSE, log)
+                : List.of();
+        List<Timing> fullTimings = models.contains(Model.COMPLETE)
+                ? timings("coarse class and attraction, ", settings, n -> fullScenario(n, settings.seed()),
+                        coarseModel.withAttraction(NumberAttraction.besidesCoarsePoints()), Model.COMPLETE, log)
+                : List.of();
 
         List<Ess> ess = new ArrayList<>();
         for (int n : settings.essSizes()) {
@@ -203,11 +234,11 @@ public final class Benchmark {
      * divisor} sweeps and smaller ones proportionally more, so each size takes about as long.
      */
     private static List<Timing> timings(String label, Settings settings, IntFunction<Scenario> scenario, ModelSpec model,
-                                        int divisor, PrintStream log) {
+                                        Model timed, PrintStream log) {
         int largest = Arrays.stream(settings.sizes()).max().orElseThrow();
         List<Timing> timings = new ArrayList<>();
         for (int n : settings.sizes()) {
-            int sweeps = (int) Math.max(2, Math.round((double) settings.sweeps() * largest / n / divisor));
+            int sweeps = (int) Math.max(2, Math.round((double) settings.sweeps() * largest / n / timed.divisor));
             Survey survey = survey(scenario.apply(n), settings.seed());
             long[] samplingFrom = {0};
             ProgressListener clock = (chain, done, total, warmingUp) -> {
@@ -338,15 +369,20 @@ public final class Benchmark {
         sb.append("Machine: ").append(machine()).append("\n\n");
         sb.append(String.format(Locale.ROOT, "Survey: %d groups, 4 numeric level covariates, scale 0..10, by-group thresholds, seed %d.%n%n",
                 GROUPS, settings.seed()));
-        sb.append("Speed of the plain ordered probit (style classes off): 1 chain on 1 thread, half warm-up and half kept sweeps; "
-                + "time is the sampler's wall clock.\n\n");
-        timingTable(sb, timings);
-        sb.append("\nSpeed with the coarse class on (a quarter of the respondents coarse, intercept-only class probit), "
-                + "measured the same way.\n\n");
-        timingTable(sb, coarseTimings);
-        sb.append("\nSpeed of the complete model: the coarse class and number attraction on every number but the coarse points "
-                + "(7 liked, 3 avoided), measured the same way.\n\n");
-        timingTable(sb, fullTimings);
+        sb.append("Speed: 1 chain on 1 thread, half warm-up and half kept sweeps; time is the sampler's wall clock.\n");
+        if (!timings.isEmpty()) {
+            sb.append("\nSpeed of the plain ordered probit (style classes off).\n\n");
+            timingTable(sb, timings);
+        }
+        if (!coarseTimings.isEmpty()) {
+            sb.append("\nSpeed with the coarse class on (a quarter of the respondents coarse, intercept-only class probit).\n\n");
+            timingTable(sb, coarseTimings);
+        }
+        if (!fullTimings.isEmpty()) {
+            sb.append("\nSpeed of the complete model: the coarse class and number attraction on every number but the coarse points "
+                    + "(7 liked, 3 avoided).\n\n");
+            timingTable(sb, fullTimings);
+        }
         if (!ess.isEmpty()) {
             sb.append("\nBulk ESS per second: 2 chains on 2 threads, seconds are wall clock; ESS over all parameters.\n\n");
             sb.append("| respondents | warm-up + kept per chain | seconds | min bulk ESS (parameter) | median bulk ESS | min ESS/s | median ESS/s |\n");
