@@ -7,7 +7,6 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.Arrays;
-import java.util.EnumSet;
 import java.util.List;
 import java.util.Locale;
 import java.util.Set;
@@ -63,7 +62,7 @@ public final class Benchmark {
         public Settings {
             sizes = sizes.clone();
             essSizes = essSizes.clone();
-            models = models.isEmpty() ? EnumSet.noneOf(Model.class) : EnumSet.copyOf(models);
+            models = Set.copyOf(models);
             if (sizes.length == 0 || Arrays.stream(sizes).anyMatch(n -> n < GROUPS)
                     || Arrays.stream(essSizes).anyMatch(n -> n < GROUPS)) {
                 throw new IllegalArgumentException("every size needs at least " + GROUPS + " respondents");
@@ -81,11 +80,6 @@ public final class Benchmark {
         @Override
         public int[] essSizes() {
             return essSizes.clone();
-        }
-
-        @Override
-        public Set<Model> models() {
-            return models.isEmpty() ? EnumSet.noneOf(Model.class) : EnumSet.copyOf(models);
         }
     }
 
