@@ -116,6 +116,8 @@ final class CollapsedPosterior {
     private double lastQ;
     private double lastPhi;
     private int sampled = 1;
+    /** False while {@link #gradientOnly} runs: the probability paths then skip each respondent's logarithm. */
+    private boolean densityWanted = true;
 
     CollapsedPosterior(ChainState state, Priors priors) {
         this.state = state;
@@ -328,7 +330,7 @@ final class CollapsedPosterior {
                 }
                 point[c] = x[c] + step[c];
             }
-            if (gradient(point, moved) != Double.NEGATIVE_INFINITY) {
+            if (gradientOnly(point, moved) != Double.NEGATIVE_INFINITY) {
                 return true;
             }
         }
@@ -428,6 +430,21 @@ final class CollapsedPosterior {
     /** The log posterior at theta, and its gradient in {@code gradient} (left unset where it is minus infinity). */
     double gradient(double[] theta, double[] gradient) {
         return evaluate(theta, gradient);
+    }
+
+    /**
+     * The gradient at theta, the same doubles as {@link #gradient} gives; the value returned is
+     * minus infinity or NaN where that one's is, and otherwise not the log density: the
+     * probability paths skip each respondent's logarithm (about a sixth of a pass), which a
+     * leapfrog step between the ends of a trajectory never reads.
+     */
+    double gradientOnly(double[] theta, double[] gradient) {
+        densityWanted = false;
+        try {
+            return evaluate(theta, gradient);
+        } finally {
+            densityWanted = true;
+        }
     }
 
     /** Fills the model-coordinate arrays from theta; false if some group's thresholds are not increasing. */
@@ -725,7 +742,7 @@ final class CollapsedPosterior {
             gradEta = addCoarse(r, q / likelihood, gradRows, base, gradEta);
         }
         chainRule(i, g, gradEta, gradZeta);
-        return Math.log(likelihood);
+        return densityWanted ? Math.log(likelihood) : 0;
     }
 
     /** q = Phi(zeta), and phi(zeta) in {@link #lastPhi}; 0 without the coarse class. */
@@ -812,7 +829,7 @@ final class CollapsedPosterior {
             gradZeta = point ? lastPhi * (coarse - full) / likelihood : -lastPhi / (1 - q);
         }
         chainRule(i, g, gradEta, gradZeta);
-        return Math.log(likelihood);
+        return densityWanted ? Math.log(likelihood) : 0;
     }
 
     /**

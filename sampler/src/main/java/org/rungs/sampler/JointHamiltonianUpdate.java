@@ -182,7 +182,8 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
             for (int j = 0; j < dimension; j++) {
                 proposal[j] += work[j];
             }
-            end = posterior.gradient(proposal, gradient);
+            // Only the last position's density enters the acceptance.
+            end = l == leaps - 1 ? posterior.gradient(proposal, gradient) : posterior.gradientOnly(proposal, gradient);
             whiten(gradient);
             for (int j = 0; j < dimension; j++) {
                 momentum[j] += 0.5 * step * gradient[j];

@@ -1,5 +1,6 @@
 package org.rungs.sampler;
 
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
@@ -200,6 +201,32 @@ class CollapsedPosteriorTest {
                 down[j] -= h;
                 double numeric = (posterior.logDensity(up) - posterior.logDensity(down)) / (2 * h);
                 assertEquals(numeric, gradient[j], 1e-5 * Math.max(1, Math.abs(numeric)), "coordinate " + j + " of variant " + variant);
+            }
+        }
+    }
+
+    /**
+     * The leapfrog's gradient without the density: the same doubles as the full evaluation (on
+     * the probability paths and, with respondents 40 sd out, the log-space one), minus infinity
+     * where a group's thresholds cross, and the density path back afterwards.
+     */
+    @Test
+    void gradientOnlyGivesTheSameGradientAndWalls() {
+        for (int variant = 0; variant < 16; variant++) {
+            boolean byGroup = variant % 2 == 0;
+            ChainState s = state(byGroup, (variant / 2) % 2 == 0, (variant / 4) % 2 == 0, variant < 8 ? 6 : 40);
+            CollapsedPosterior posterior = new CollapsedPosterior(s, PRIORS);
+            double[] theta = new double[posterior.dimension()];
+            posterior.read(theta);
+            double[] full = new double[theta.length];
+            double[] only = new double[theta.length];
+            double value = posterior.gradient(theta, full);
+            assertTrue(Double.isFinite(posterior.gradientOnly(theta, only)), "variant " + variant);
+            assertArrayEquals(full, only, 0.0, "variant " + variant);
+            assertEquals(value, posterior.gradient(theta, full), 0.0, "the density again after, variant " + variant);
+            if (byGroup) {
+                theta[posterior.deviationAt] += 50; // group 0's first threshold above its second
+                assertEquals(Double.NEGATIVE_INFINITY, posterior.gradientOnly(theta, only), "variant " + variant);
             }
         }
     }
