@@ -21,6 +21,7 @@ import org.rungs.validation.calibration.CalibrationSummary;
 import org.rungs.validation.calibration.Shard;
 import org.rungs.validation.calibration.Verdict;
 import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Option;
 import picocli.CommandLine.Parameters;
 
@@ -76,24 +77,9 @@ final class CalibrateCommand implements Callable<Integer> {
             description = "Replace a prior of the fit only: a deliberately wrong component the calibration should flag.")
     List<String> fitPriors = new ArrayList<>();
 
-    @Option(names = "--chains", defaultValue = "2", description = "Chains per fit. Default: ${DEFAULT-VALUE}.")
-    int chains;
-
-    @Option(names = "--warmup", defaultValue = "500", description = "Warm-up iterations per chain. Default: ${DEFAULT-VALUE}.")
-    int warmup;
-
-    @Option(names = "--draws", defaultValue = "1000", description = "Kept iterations per chain. Default: ${DEFAULT-VALUE}.")
-    int draws;
-
     @Option(names = "--rank-draws", defaultValue = "99", paramLabel = "L",
             description = "Draws kept at equal spacing for the ranks; a rank lies in 0..L. Default: ${DEFAULT-VALUE}.")
     int rankDraws;
-
-    @Option(names = "--replications", defaultValue = "100", description = "Replications in the whole calibration (all shards). Default: ${DEFAULT-VALUE}.")
-    int replications;
-
-    @Option(names = "--seed", defaultValue = "1", description = "Base seed; replication r depends on (seed, r) only. Default: ${DEFAULT-VALUE}.")
-    long seed;
 
     @Option(names = "--alpha", defaultValue = "0.01",
             description = "False-alarm rate of the verdicts over all quantities together (Bonferroni). Default: ${DEFAULT-VALUE}.")
@@ -102,18 +88,15 @@ final class CalibrateCommand implements Callable<Integer> {
     @Option(names = "--shard", paramLabel = "I/N", description = "Run only shard I of N (replication r belongs to shard (r mod N) + 1), e.g. a job array index.")
     String shard;
 
-    @Option(names = "--threads", description = "Replications fitted at once. Default: the number of cores.")
-    Integer threads;
-
-    @Option(names = "--out", paramLabel = "DIR", description = "Output folder (required); a rerun with the same folder resumes.")
-    Path out;
+    @Mixin
+    StudyOptions study;
 
     @Override
     public Integer call() {
-        if (out == null) {
-            System.err.println("rungs calibrate: --out DIR is required");
+        if (!study.hasOut("calibrate")) {
             return Main.INPUT_ERROR;
         }
+        Path out = study.out;
         CalibrationConfig config;
         Shard slice;
         try {
@@ -136,17 +119,17 @@ final class CalibrateCommand implements Callable<Integer> {
             NumberAttraction numbers = NumberAttraction.parse(attraction);
             numbers.resolve(ratings, classes); // rejects a bad set before any replication runs
             config = new CalibrationConfig(ratings, groups, respondents, covariates, q,
-                    new ModelSpec(mode, simulation, classes, numbers), new ModelSpec(mode, fit, classes, numbers), chains, warmup, draws,
-                    rankDraws, seed, replications, alpha);
+                    new ModelSpec(mode, simulation, classes, numbers), new ModelSpec(mode, fit, classes, numbers), study.chains, study.warmup,
+                    study.draws, rankDraws, study.seed, study.replications, alpha);
             slice = shard == null ? Shard.ALL : Shard.parse(shard);
         } catch (IllegalArgumentException e) {
             System.err.println("rungs calibrate: " + e.getMessage());
             return Main.INPUT_ERROR;
         }
-        CalibrationConfig study = config;
+        CalibrationConfig calibration = config;
         Shard part = slice;
-        return Runs.replications("calibrate", out, threads,
-                (t, stop) -> Calibration.run(study, out, part, t, System.err, stop),
+        return Runs.replications("calibrate", out, study.threads,
+                (t, stop) -> Calibration.run(calibration, out, part, t, System.err, stop),
                 summary -> {
                     if (part.count() > 1) {
                         System.out.println("Shard " + part + " done in " + out + ". When every shard is done: ./rungs calibrate merge "

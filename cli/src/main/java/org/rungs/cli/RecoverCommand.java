@@ -13,6 +13,7 @@ import org.rungs.validation.recovery.RecoveryConfig;
 import org.rungs.validation.recovery.RecoveryReport;
 import org.rungs.validation.recovery.RecoverySummary;
 import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Option;
 
 /** {@code rungs recover}: a recovery and coverage study of the engine on the demo's fixed truth. */
@@ -47,36 +48,18 @@ final class RecoverCommand implements Callable<Integer> {
             description = "Respondents per region. Default: ${DEFAULT-VALUE}, as in the demo.")
     int respondents;
 
-    @Option(names = "--chains", defaultValue = "2", description = "Chains per fit. Default: ${DEFAULT-VALUE}.")
-    int chains;
-
-    @Option(names = "--warmup", defaultValue = "500", description = "Warm-up iterations per chain. Default: ${DEFAULT-VALUE}.")
-    int warmup;
-
-    @Option(names = "--draws", defaultValue = "1000", description = "Kept iterations per chain. Default: ${DEFAULT-VALUE}.")
-    int draws;
-
-    @Option(names = "--replications", defaultValue = "100", description = "Simulated data sets. Default: ${DEFAULT-VALUE}.")
-    int replications;
-
-    @Option(names = "--seed", defaultValue = "1", description = "Base seed; replication r depends on (seed, r) only. Default: ${DEFAULT-VALUE}.")
-    long seed;
-
-    @Option(names = "--threads", description = "Replications fitted at once, each fit on one thread. Default: the number of cores.")
-    Integer threads;
-
-    @Option(names = "--out", paramLabel = "DIR", description = "Output folder (required); a rerun with the same folder resumes.")
-    Path out;
+    @Mixin
+    StudyOptions study;
 
     @Option(names = "--overwrite", description = "Start afresh in a folder that holds another study or other files.")
     boolean overwrite;
 
     @Override
     public Integer call() {
-        if (out == null) {
-            System.err.println("rungs recover: --out DIR is required");
+        if (!study.hasOut("recover")) {
             return Main.INPUT_ERROR;
         }
+        Path out = study.out;
         RecoveryConfig config;
         try {
             StyleClasses classes = CalibrateCommand.styleClasses(styleClasses, null);
@@ -85,16 +68,17 @@ final class RecoverCommand implements Callable<Integer> {
                     : numbers.on() ? DemoTruth.Variant.DEMO
                     : classes.coarse() ? DemoTruth.Variant.NO_ATTRACTION : DemoTruth.Variant.PLAIN;
             config = RecoveryConfig.of(new DemoTruth(variant, groups, respondents),
-                    ModelSpec.defaults().withStyleClasses(classes).withAttraction(numbers), chains, warmup, draws, seed, replications);
+                    ModelSpec.defaults().withStyleClasses(classes).withAttraction(numbers), study.chains, study.warmup, study.draws,
+                    study.seed, study.replications);
         } catch (IllegalArgumentException e) {
             System.err.println("rungs recover: " + e.getMessage());
             return Main.INPUT_ERROR;
         }
-        RecoveryConfig study = config;
-        return Runs.replications("recover", out, threads,
-                (t, stop) -> Recovery.run(study, out, overwrite, t, System.err, stop),
+        RecoveryConfig recovery = config;
+        return Runs.replications("recover", out, study.threads,
+                (t, stop) -> Recovery.run(recovery, out, overwrite, t, System.err, stop),
                 summary -> {
-                    print(study, summary, out, System.out);
+                    print(recovery, summary, out, System.out);
                     return 0;
                 });
     }

@@ -7,11 +7,8 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
-import java.util.Locale;
 import java.util.Map;
-import java.util.TreeMap;
-import java.util.stream.Stream;
-import org.rungs.posteriors.AtomicFiles;
+import org.rungs.validation.ReplicationRecords;
 
 /**
  * A calibration's folder: {@value CalibrationConfig#FILE} (the configuration), one file per
@@ -20,7 +17,7 @@ import org.rungs.posteriors.AtomicFiles;
  * skips the replications on disk, and shards may share one folder or use their own.
  */
 public final class CalibrationFolder {
-    static final String REPLICATIONS = "replications";
+    static final String REPLICATIONS = ReplicationRecords.FOLDER;
     private static final String HEADER = "parameter,truth,rank,draws,rhat,ess_bulk,ess_tail,flagged";
 
     private final Path dir;
@@ -90,7 +87,7 @@ public final class CalibrationFolder {
     }
 
     static String fileName(int replication) {
-        return String.format(Locale.ROOT, "r%07d.csv", replication);
+        return ReplicationRecords.fileName(replication);
     }
 
     /** Records a finished replication. */
@@ -106,44 +103,14 @@ public final class CalibrationFolder {
 
     /** The finished replications on disk, by index. */
     public Map<Integer, ReplicationResult> finished() {
-        Map<Integer, ReplicationResult> results = new TreeMap<>();
-        Path folder = dir.resolve(REPLICATIONS);
-        if (!Files.isDirectory(folder)) {
-            return results;
-        }
-        try (Stream<Path> files = Files.list(folder)) {
-            for (Path f : files.sorted().toList()) {
-                String name = f.getFileName().toString();
-                if (name.matches("r\\d{7}\\.csv")) {
-                    int index = Integer.parseInt(name.substring(1, 8));
-                    results.put(index, read(f, index));
-                }
-            }
-        } catch (IOException e) {
-            throw new UncheckedIOException("could not read " + folder + ": " + e.getMessage(), e);
-        }
-        return results;
+        return ReplicationRecords.finished(dir, CalibrationFolder::read);
     }
 
     private static ReplicationResult read(Path file, int index) throws IOException {
-        List<String> lines = Files.readAllLines(file, StandardCharsets.UTF_8);
-        if (lines.isEmpty() || !lines.get(0).equals(HEADER)) {
-            throw new IOException(file + " is not a replication record (header " + HEADER + ")");
-        }
         List<ParameterRank> ranks = new ArrayList<>();
-        for (int i = 1; i < lines.size(); i++) {
-            String[] f = lines.get(i).split(",", -1);
-            if (f.length != 8) {
-                throw new IOException(file + ": line " + (i + 1) + " has " + f.length + " fields, not 8");
-            }
-            try {
-                ranks.add(new ParameterRank(f[0], Double.parseDouble(f[1]), Integer.parseInt(f[2]),
-                        Integer.parseInt(f[3]), Double.parseDouble(f[4]), Double.parseDouble(f[5]),
-                        Double.parseDouble(f[6]), Boolean.parseBoolean(f[7])));
-            } catch (NumberFormatException e) {
-                throw new IOException(file + ": line " + (i + 1) + ": " + e.getMessage(), e);
-            }
-        }
+        ReplicationRecords.rows(file, HEADER, 8, f -> ranks.add(new ParameterRank(f[0], Double.parseDouble(f[1]),
+                Integer.parseInt(f[2]), Integer.parseInt(f[3]), Double.parseDouble(f[4]), Double.parseDouble(f[5]),
+                Double.parseDouble(f[6]), Boolean.parseBoolean(f[7]))));
         return new ReplicationResult(index, ranks);
     }
 
@@ -159,12 +126,6 @@ public final class CalibrationFolder {
 
     /** Writes {@code relative} atomically: to a temporary file in the same folder, then renamed. */
     public void write(String relative, String text) {
-        Path target = dir.resolve(relative);
-        try {
-            Files.createDirectories(target.getParent());
-            AtomicFiles.write(target, out -> out.write(text));
-        } catch (IOException e) {
-            throw new UncheckedIOException("could not write " + target + ": " + e.getMessage(), e);
-        }
+        ReplicationRecords.write(dir, relative, text);
     }
 }

@@ -7,11 +7,9 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
-import java.util.Locale;
 import java.util.Map;
-import java.util.TreeMap;
 import java.util.stream.Stream;
-import org.rungs.posteriors.AtomicFiles;
+import org.rungs.validation.ReplicationRecords;
 
 /**
  * A recovery study's folder: {@value RecoveryConfig#FILE} (the configuration), one file per
@@ -20,12 +18,11 @@ import org.rungs.posteriors.AtomicFiles;
  * the same configuration skips the replications on disk.
  */
 public final class RecoveryFolder {
-    static final String REPLICATIONS = "replications";
+    static final String REPLICATIONS = ReplicationRecords.FOLDER;
     /** Files the summary writes. */
     static final List<String> SUMMARY_FILES = List.of(RecoveryReport.RECOVERY, RecoveryReport.REPLICATIONS,
             RecoveryReport.SUMMARY);
     private static final String HEADER = "quantity,truth,estimated,mean,q5,q25,q75,q95,flagged";
-    private static final String RECORD = "r\\d{7}\\.csv";
 
     private final Path dir;
 
@@ -68,7 +65,7 @@ public final class RecoveryFolder {
     }
 
     static String fileName(int replication) {
-        return String.format(Locale.ROOT, "r%07d.csv", replication);
+        return ReplicationRecords.fileName(replication);
     }
 
     /** Records a finished replication. */
@@ -87,61 +84,27 @@ public final class RecoveryFolder {
 
     /** The finished replications on disk, by index. */
     Map<Integer, ReplicationEstimates> finished() {
-        Map<Integer, ReplicationEstimates> results = new TreeMap<>();
-        Path folder = dir.resolve(REPLICATIONS);
-        if (!Files.isDirectory(folder)) {
-            return results;
-        }
-        try (Stream<Path> files = Files.list(folder)) {
-            for (Path f : files.sorted().toList()) {
-                String name = f.getFileName().toString();
-                if (name.matches(RECORD)) {
-                    int index = Integer.parseInt(name.substring(1, 8));
-                    results.put(index, read(f, index));
-                }
-            }
-        } catch (IOException e) {
-            throw new UncheckedIOException("could not read " + folder + ": " + e.getMessage(), e);
-        }
-        return results;
+        return ReplicationRecords.finished(dir, RecoveryFolder::read);
     }
 
     private static ReplicationEstimates read(Path file, int index) throws IOException {
-        List<String> lines = Files.readAllLines(file, StandardCharsets.UTF_8);
-        if (lines.isEmpty() || !lines.get(0).equals(HEADER)) {
-            throw new IOException(file + " is not a replication record (header " + HEADER + ")");
-        }
         List<QuantityEstimate> estimates = new ArrayList<>();
         List<String> unmatched = new ArrayList<>();
-        for (int i = 1; i < lines.size(); i++) {
-            String[] f = lines.get(i).split(",", -1);
-            if (f.length != 9) {
-                throw new IOException(file + ": line " + (i + 1) + " has " + f.length + " fields, not 9");
-            }
+        ReplicationRecords.rows(file, HEADER, 9, f -> {
             if (!Boolean.parseBoolean(f[2])) {
                 unmatched.add(f[0]);
-                continue;
+                return;
             }
-            try {
-                estimates.add(new QuantityEstimate(f[0], Double.parseDouble(f[1]), Double.parseDouble(f[3]),
-                        Double.parseDouble(f[4]), Double.parseDouble(f[5]), Double.parseDouble(f[6]),
-                        Double.parseDouble(f[7]), Boolean.parseBoolean(f[8])));
-            } catch (NumberFormatException e) {
-                throw new IOException(file + ": line " + (i + 1) + ": " + e.getMessage(), e);
-            }
-        }
+            estimates.add(new QuantityEstimate(f[0], Double.parseDouble(f[1]), Double.parseDouble(f[3]),
+                    Double.parseDouble(f[4]), Double.parseDouble(f[5]), Double.parseDouble(f[6]),
+                    Double.parseDouble(f[7]), Boolean.parseBoolean(f[8])));
+        });
         return new ReplicationEstimates(index, estimates, unmatched);
     }
 
     /** Writes {@code relative} atomically: to a temporary file in the same folder, then renamed. */
     void write(String relative, String text) {
-        Path target = dir.resolve(relative);
-        try {
-            Files.createDirectories(target.getParent());
-            AtomicFiles.write(target, out -> out.write(text));
-        } catch (IOException e) {
-            throw new UncheckedIOException("could not write " + target + ": " + e.getMessage(), e);
-        }
+        ReplicationRecords.write(dir, relative, text);
     }
 
     /** Deletes the files of a study (configuration, records, summaries); other files stay. */
@@ -155,7 +118,7 @@ public final class RecoveryFolder {
             if (Files.isDirectory(records)) {
                 try (Stream<Path> files = Files.list(records)) {
                     for (Path f : files.toList()) {
-                        if (f.getFileName().toString().matches(RECORD)) {
+                        if (f.getFileName().toString().matches(ReplicationRecords.RECORD)) {
                             Files.delete(f);
                         }
                     }
