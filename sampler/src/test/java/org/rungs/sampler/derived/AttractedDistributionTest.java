@@ -281,15 +281,9 @@ class AttractedDistributionTest {
                     variance[k] += reported[k] * (1 - reported[k]);
                 }
             }
+            double[] standardError = ReplicatedCounts.assertMeans(d, labels.get(g), mean, variance, iterations);
             for (int k = 0; k < 5; k++) {
-                int column = d.indexOf("replicated." + labels.get(g) + "." + k);
-                double sum = 0;
-                for (int t = 0; t < iterations; t++) {
-                    sum += d.get(column, 0, t);
-                }
-                double standardError = Math.sqrt(variance[k] / iterations);
-                assertEquals(mean[k], sum / iterations, 5 * standardError, labels.get(g) + " rating " + k);
-                if (Math.abs(unattracted[k] - mean[k]) > 20 * standardError) {
+                if (Math.abs(unattracted[k] - mean[k]) > 20 * standardError[k]) {
                     checked.add(labels.get(g) + " " + k);
                 }
             }

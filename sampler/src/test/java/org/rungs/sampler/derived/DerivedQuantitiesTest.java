@@ -436,15 +436,7 @@ class DerivedQuantitiesTest {
                     variance[k] += reported[k] * (1 - reported[k]);
                 }
             }
-            for (int k = 0; k < 5; k++) {
-                int column = d.indexOf("replicated." + labels.get(g) + "." + k);
-                double sum = 0;
-                for (int t = 0; t < draws; t++) {
-                    sum += d.get(column, 0, t);
-                }
-                double standardError = Math.sqrt(variance[k] / draws);
-                assertEquals(mean[k], sum / draws, 5 * standardError, labels.get(g) + " rating " + k);
-            }
+            ReplicatedCounts.assertMeans(d, labels.get(g), mean, variance, draws);
             for (int t = 0; t < draws; t += 97) {
                 double total = 0;
                 for (int k = 0; k < 5; k++) {
