@@ -14,10 +14,10 @@ import java.util.concurrent.atomic.AtomicLongArray;
  * cost the same (the first half of warm-up runs without the joint step, whose sweeps cost
  * several times more), so a part still ahead of a chain is given the mean time the chains that
  * have run it took (scaled to a running chain's own pace), or, where none has, the time of the
- * part finished last (a running chain's own recent pace). The chains still
- * waiting then start, in order, as the running ones finish, on as many threads as ran at once so
- * far; the time left is when the last one ends. A chain that runs on alone after the others have
- * finished is thereby not counted as going faster.
+ * part finished last (a running chain's own recent pace). The chains still waiting then start,
+ * in order, as the running ones finish, on as many threads as ran at once so far; the time left
+ * is when the last one ends. A chain that runs on alone after the others have finished is
+ * thereby not counted as going faster.
  */
 public final class ConsoleProgress implements ProgressListener {
     /** Parts of a chain's run that are timed. */
