@@ -173,9 +173,23 @@ final class Chain implements Checkpointed {
 
     /** Acceptance of the joint Hamiltonian step while sampling; NaN when the sweep has none or it never started. */
     double jointAcceptance() {
+        return joint(JointHamiltonianUpdate::acceptanceRate);
+    }
+
+    /** The joint step's mean leapfrog steps per trajectory while sampling; NaN as above. */
+    double jointLeapfrogSteps() {
+        return joint(JointHamiltonianUpdate::meanLeapfrogSteps);
+    }
+
+    /** The share of the joint step's trajectories that stopped on a wall while sampling; NaN as above. */
+    double jointWallShare() {
+        return joint(JointHamiltonianUpdate::wallShare);
+    }
+
+    private double joint(java.util.function.ToDoubleFunction<JointHamiltonianUpdate> statistic) {
         for (Update u : sweep) {
             if (u instanceof JointHamiltonianUpdate) {
-                return ((JointHamiltonianUpdate) u).acceptanceRate();
+                return statistic.applyAsDouble((JointHamiltonianUpdate) u);
             }
         }
         return Double.NaN;

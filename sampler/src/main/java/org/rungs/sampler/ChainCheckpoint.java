@@ -25,11 +25,11 @@ import org.rungs.posteriors.Draws;
  */
 final class ChainCheckpoint implements Closeable {
     /**
-     * "RUNGSCK4": marks the file and its format (3: the joint Hamiltonian step's state in the
+     * "RUNGSCK5": marks the file and its format (3: the joint Hamiltonian step's state in the
      * sweep; 4: under attraction, the counters of {@link BoundedRedrawSteps} and the attraction
-     * update's block-move scale and warm-up sums).
+     * update's block-move scale and warm-up sums; 5: the joint step's leapfrog and wall counts).
      */
-    private static final long MAGIC = 0x52554E4753434B34L;
+    private static final long MAGIC = 0x52554E4753434B35L;
 
     /** Iterations done (warm-up included) and kept draws at a save. */
     record Position(int iterations, int kept) {

@@ -13,12 +13,15 @@ import org.rungs.posteriors.Draws;
  * @param thresholdAcceptance  per chain, the share of accepted threshold proposals while sampling
  * @param jointAcceptance      per chain, the share of accepted joint Hamiltonian proposals while
  *                             sampling; NaN when the model has no such step (plain ordered probit)
+ * @param jointLeapfrogSteps   per chain, that step's mean leapfrog steps per trajectory while sampling; NaN likewise
+ * @param jointWallShare       per chain, the share of its trajectories that stopped on a wall (some group's
+ *                             thresholds crossing) while sampling; NaN likewise
  * @param latentStepsSkipped   per chain, the share of sampling sweeps in which the attractions spread
  *                             too wide for the latent-level steps ({@link BoundedRedrawSteps}); 0
  *                             without attraction
  * @param interrupted          true when the run was stopped before all iterations were done
  */
 public record FitResult(Draws draws, ParameterLayout layout, SamplerSettings settings, double seconds,
-                        double[] thresholdAcceptance, double[] jointAcceptance, double[] latentStepsSkipped,
-                        boolean interrupted) {
+                        double[] thresholdAcceptance, double[] jointAcceptance, double[] jointLeapfrogSteps,
+                        double[] jointWallShare, double[] latentStepsSkipped, boolean interrupted) {
 }

@@ -78,6 +78,8 @@ public final class Fitter {
         int[] kept = new int[settings.chains()];
         double[] acceptance = new double[settings.chains()];
         double[] joint = new double[settings.chains()];
+        double[] leapfrogSteps = new double[settings.chains()];
+        double[] walls = new double[settings.chains()];
         double[] skipped = new double[settings.chains()];
         long start = System.nanoTime();
         ExecutorService pool = Executors.newFixedThreadPool(Math.min(settings.threads(), settings.chains()), r -> {
@@ -99,6 +101,8 @@ public final class Fitter {
                     }
                     acceptance[chain] = run.thresholdAcceptance();
                     joint[chain] = run.jointAcceptance();
+                    leapfrogSteps[chain] = run.jointLeapfrogSteps();
+                    walls[chain] = run.jointWallShare();
                     skipped[chain] = run.latentStepsSkipped();
                 }));
             }
@@ -125,6 +129,7 @@ public final class Fitter {
         }
         boolean interrupted = common < settings.draws();
         Draws result = interrupted ? draws.withIterations(common) : draws;
-        return new FitResult(result, layout, settings, (System.nanoTime() - start) / 1e9, acceptance, joint, skipped, interrupted);
+        return new FitResult(result, layout, settings, (System.nanoTime() - start) / 1e9, acceptance, joint, leapfrogSteps, walls, skipped,
+                interrupted);
     }
 }

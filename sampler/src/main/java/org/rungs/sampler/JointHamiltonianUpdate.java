@@ -105,6 +105,9 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
     private double logStep = Math.log(0.5);
     private long proposed;
     private long accepted;
+    /** While sampling: leapfrog steps asked for, and trajectories stopped where the log density is minus infinity. */
+    private long leapfrogSteps;
+    private long walls;
 
     private JointHamiltonianUpdate(ChainState state, Priors priors, int warmup, UniformRandomProvider rng) {
         this.posterior = new CollapsedPosterior(state, priors);
@@ -204,6 +207,8 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
         if (!adapt) {
             proposed++;
             accepted += accept ? 1 : 0;
+            leapfrogSteps += leaps;
+            walls += end == Double.NEGATIVE_INFINITY ? 1 : 0;
         }
         if (adapt) {
             logStep += Math.pow(warmupCalls - stepStart + 1.0, -0.6) * (probability - TARGET);
@@ -287,6 +292,23 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
     /** Share of proposals accepted while sampling (NaN before the first, or when the step never started). */
     double acceptanceRate() {
         return proposed == 0 ? Double.NaN : (double) accepted / proposed;
+    }
+
+    /**
+     * Mean leapfrog steps per trajectory while sampling (NaN as above): near {@link #MAX_LEAPS},
+     * the cap on the mean, the step size rather than the trajectory's length sets the cost.
+     */
+    double meanLeapfrogSteps() {
+        return proposed == 0 ? Double.NaN : (double) leapfrogSteps / proposed;
+    }
+
+    /**
+     * Share of trajectories while sampling that stopped on a wall, where the log density is minus
+     * infinity: in practice where some group's thresholds would cross (NaN as above). Each is a
+     * rejected proposal.
+     */
+    double wallShare() {
+        return proposed == 0 ? Double.NaN : (double) walls / proposed;
     }
 
     /** Solves R' y = v in place, so y ~ N(0, H^-1) when v ~ N(0, I). */
@@ -426,6 +448,8 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
         out.writeInt(stepStart);
         out.writeLong(proposed);
         out.writeLong(accepted);
+        out.writeLong(leapfrogSteps);
+        out.writeLong(walls);
         out.writeInt(drawCount);
         Checkpointed.writeDoubles(out, drawSum);
         Checkpointed.writeDoubles(out, drawCross);
@@ -443,6 +467,8 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
         stepStart = in.readInt();
         proposed = in.readLong();
         accepted = in.readLong();
+        leapfrogSteps = in.readLong();
+        walls = in.readLong();
         drawCount = in.readInt();
         Checkpointed.readDoubles(in, drawSum);
         Checkpointed.readDoubles(in, drawCross);

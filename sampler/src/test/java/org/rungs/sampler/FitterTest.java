@@ -67,7 +67,8 @@ class FitterTest {
     /**
      * With the coarse class on, the joint Hamiltonian step (fitted half-way through warm-up, its
      * metric refitted at three quarters) keeps the draws independent of the thread count, and its
-     * acceptance while sampling is recorded per chain; the plain model has no such step.
+     * acceptance, mean leapfrog steps (1 to 2 x 12 - 1 by construction) and share of trajectories
+     * stopped on a wall while sampling are recorded per chain; the plain model has no such step.
      */
     @Test
     void coarseFitIsTheSameWhateverTheThreadsAndRecordsItsJointStep() {
@@ -82,13 +83,19 @@ class FitterTest {
                 assertArrayEquals(one.draws().chainsOf(p)[c], three.draws().chainsOf(p)[c], one.draws().names().get(p));
             }
         }
-        for (double a : one.jointAcceptance()) {
+        for (int c = 0; c < 3; c++) {
+            double a = one.jointAcceptance()[c];
             assertTrue(a > 0 && a <= 1, "joint step acceptance " + a);
+            double leaps = one.jointLeapfrogSteps()[c];
+            assertTrue(leaps >= 1 && leaps <= 23, "mean leapfrog steps " + leaps);
+            double walls = one.jointWallShare()[c];
+            assertTrue(walls >= 0 && walls <= 1 - a, "walls " + walls + " are rejections, acceptance " + a);
         }
         FitResult ordinal = Fitter.fit(plain, new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults()),
                 new SamplerSettings(2, 40, 20, 11L, 2), ProgressListener.NONE, new AtomicBoolean());
-        for (double a : ordinal.jointAcceptance()) {
-            assertTrue(Double.isNaN(a), "no joint step in the plain model");
+        for (int c = 0; c < 2; c++) {
+            assertTrue(Double.isNaN(ordinal.jointAcceptance()[c]), "no joint step in the plain model");
+            assertTrue(Double.isNaN(ordinal.jointLeapfrogSteps()[c]) && Double.isNaN(ordinal.jointWallShare()[c]));
         }
     }
 

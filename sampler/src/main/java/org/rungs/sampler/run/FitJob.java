@@ -310,6 +310,8 @@ public final class FitJob {
         m.put("threshold_acceptance_per_chain", perChain(result.thresholdAcceptance()));
         if (java.util.Arrays.stream(result.jointAcceptance()).anyMatch(Double::isFinite)) {
             m.put("joint_step_acceptance_per_chain", perChain(result.jointAcceptance()));
+            m.put("joint_step_leapfrog_steps_per_chain", perChain(result.jointLeapfrogSteps()));
+            m.put("joint_step_walls_per_chain", perChain(result.jointWallShare()));
         }
         if (result.layout().attractionSet().length > 0) {
             m.put("latent_steps_skipped_per_chain", perChain(result.latentStepsSkipped()));
