@@ -124,10 +124,17 @@ public final class Report {
         Html.row(out, "chains", Html.escape(fit.text("sampler.chains", "")));
         Html.row(out, "warm-up per chain", Html.escape(fit.text("sampler.warmup", "")));
         Html.row(out, "draws per chain", Html.escape(fit.text("sampler.kept_draws", fit.text("sampler.draws", ""))));
+        Html.row(out, "iterations per kept draw", Html.escape(fit.text("sampler.thin", "1")));
         Html.row(out, "seed", Html.escape(fit.text("sampler.seed", "")));
         double seconds = fit.number("sampler.seconds");
         Html.row(out, "time taken", Double.isFinite(seconds) ? duration(seconds) : "&ndash;");
         Html.row(out, "interrupted", fit.flag("sampler.interrupted") ? "<strong>yes</strong>" : "no");
+        String joint = fit.text("sampler.joint_step_acceptance_per_chain", null);
+        if (joint != null) {
+            Html.row(out, "joint step: acceptance per chain", Html.escape(joint));
+            Html.row(out, "joint step: leapfrog steps per chain", Html.escape(fit.text("sampler.joint_step_leapfrog_steps_per_chain", "")));
+            Html.row(out, "joint step: stopped on a wall per chain", Html.escape(fit.text("sampler.joint_step_walls_per_chain", "")));
+        }
         Html.tableEnd(out);
         out.append("</div></div>\n<h3>The model in plain words</h3>\n<ul>\n");
         for (String sentence : ModelWords.describe(fit)) {

@@ -83,8 +83,10 @@ final class FitFolderFixture {
                       "female": {"source_column": "sex", "kind": "indicator"}
                     }
                   },
-                  "sampler": {"chains": 4, "warmup": 1000, "draws": 1000, "kept_draws": 1000, "seed": 1,
-                    "seconds": 61.5, "interrupted": false},
+                  "sampler": {"chains": 4, "warmup": 1000, "draws": 1000, "thin": 2, "kept_draws": 1000, "seed": 1,
+                    "seconds": 61.5, "interrupted": false, "joint_step_acceptance_per_chain": "0.646, 0.719, 0.729, 0.584",
+                    "joint_step_leapfrog_steps_per_chain": "6.053, 8.058, 11.699, 6.003",
+                    "joint_step_walls_per_chain": "0.272, 0.240, 0.239, 0.317"},
                   "finished": "2026-12-02T01:32:16Z",
                   "warnings": ["40 rows excluded: the rating or a covariate is missing."]
                 }

@@ -84,6 +84,8 @@ class ReportTest {
         assertTrue(html.contains("rows excluded</td><td>4"), "rows excluded from run.json");
         assertTrue(html.contains("missing in <code>rating</code></td><td>3"), "excluded by reason");
         assertTrue(html.contains("0.4 s"), "time taken");
+        assertTrue(html.contains("iterations per kept draw</td><td>1"), "no thin in run.json: every iteration");
+        assertFalse(html.contains("joint step:"), "the plain model has no joint step");
     }
 
     @Test
@@ -131,6 +133,9 @@ class ReportTest {
         assertTrue(html.contains("<b>female</b> (column <code>sex</code>)"), "covariate with its source column");
         assertTrue(html.contains("secondary"), "coarse share per level of education");
         assertTrue(html.contains("not causal"), "cautions");
+        assertTrue(html.contains("iterations per kept draw</td><td>2"), "the thinning from run.json");
+        assertTrue(html.contains("joint step: leapfrog steps per chain</td><td>6.053, 8.058, 11.699, 6.003"), "joint step from run.json");
+        assertTrue(html.contains("joint step: stopped on a wall per chain</td><td>0.272, 0.240, 0.239, 0.317"), "walls from run.json");
         assertFalse(html.contains("has not converged"));
     }
 
