@@ -6,6 +6,7 @@ import java.io.IOException;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.concurrent.atomic.AtomicBoolean;
+import java.util.function.ToDoubleFunction;
 import org.apache.commons.rng.RestorableUniformRandomProvider;
 import org.apache.commons.rng.core.RandomProviderDefaultState;
 import org.rungs.models.ModelSpec;
@@ -186,7 +187,7 @@ final class Chain implements Checkpointed {
         return joint(JointHamiltonianUpdate::wallShare);
     }
 
-    private double joint(java.util.function.ToDoubleFunction<JointHamiltonianUpdate> statistic) {
+    private double joint(ToDoubleFunction<JointHamiltonianUpdate> statistic) {
         for (Update u : sweep) {
             if (u instanceof JointHamiltonianUpdate) {
                 return statistic.applyAsDouble((JointHamiltonianUpdate) u);
