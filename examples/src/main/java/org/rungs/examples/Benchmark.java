@@ -159,14 +159,14 @@ public final class Benchmark {
                 Covariates.fromNumeric(data.covariateNames(), columns), Covariates.none(), null);
     }
 
-    /** One timed single-chain, single-thread fit. */
     /**
-     * One timed fit: all its sweeps, and separately its sampling sweeps (after warm-up and the
-     * one-off fitting of the joint step's metric), with the joint step's acceptance while sampling
-     * (NaN when the model has no joint step).
+     * One timed single-chain, single-thread fit: all its sweeps, and separately its sampling sweeps
+     * (after warm-up and the one-off fitting of the joint step's metric), with the joint step's
+     * acceptance, mean leapfrog steps per trajectory and share of trajectories stopped on a wall
+     * while sampling (NaN when the model has no joint step).
      */
     public record Timing(int respondents, int sweeps, double seconds, int samplingSweeps, double samplingSeconds,
-                         double jointAcceptance) {
+                         double jointAcceptance, double jointLeapfrogSteps, double jointWallShare) {
         public double nanosPerRespondentSweep() {
             return seconds * 1e9 / ((double) respondents * sweeps);
         }
@@ -243,20 +243,21 @@ public final class Benchmark {
             FitResult result = Fitter.fit(survey, model, new SamplerSettings(1, sweeps / 2, sweeps - sweeps / 2, settings.seed(), 1),
                     clock, new AtomicBoolean());
             double sampling = (System.nanoTime() - samplingFrom[0]) / 1e9;
-            Timing t = new Timing(n, sweeps, result.seconds(), sweeps - sweeps / 2, sampling, result.jointAcceptance()[0]);
+            Timing t = new Timing(n, sweeps, result.seconds(), sweeps - sweeps / 2, sampling, result.jointAcceptance()[0],
+                    result.jointLeapfrogSteps()[0], result.jointWallShare()[0]);
             timings.add(t);
             log.printf(Locale.ROOT, "benchmark: %s%,d respondents, %d sweeps, %.1f s, %.1f ns per respondent per sweep"
-                    + " (sampling sweeps %.1f), joint step acceptance %.2f%n",
+                    + " (sampling sweeps %.1f), joint step acceptance %.2f, leapfrog steps %.2f, walls %.2f%n",
                     label, n, sweeps, t.seconds(), t.nanosPerRespondentSweep(), t.samplingNanosPerRespondentSweep(),
-                    t.jointAcceptance());
+                    t.jointAcceptance(), t.jointLeapfrogSteps(), t.jointWallShare());
         }
         return timings;
     }
 
     private static void timingTable(StringBuilder sb, List<Timing> timings) {
         sb.append("| respondents | sweeps | seconds | ns per respondent per sweep | the same over the sampling sweeps"
-                + " | joint step acceptance | time per sweep vs previous size |\n");
-        sb.append("|---:|---:|---:|---:|---:|---:|---:|\n");
+                + " | joint step acceptance | its leapfrog steps | its walls | time per sweep vs previous size |\n");
+        sb.append("|---:|---:|---:|---:|---:|---:|---:|---:|---:|\n");
         Timing previous = null;
         for (Timing t : timings) {
             String ratio = "";
@@ -266,11 +267,16 @@ public final class Benchmark {
                 ratio = String.format(Locale.ROOT, "%.2fx for %.0fx respondents", perSweep / previousPerSweep,
                         (double) t.respondents() / previous.respondents());
             }
-            String acceptance = Double.isNaN(t.jointAcceptance()) ? "-" : String.format(Locale.ROOT, "%.2f", t.jointAcceptance());
-            sb.append(String.format(Locale.ROOT, "| %,d | %d | %.1f | %.1f | %.1f | %s | %s |%n", t.respondents(), t.sweeps(),
-                    t.seconds(), t.nanosPerRespondentSweep(), t.samplingNanosPerRespondentSweep(), acceptance, ratio));
+            sb.append(String.format(Locale.ROOT, "| %,d | %d | %.1f | %.1f | %.1f | %s | %s | %s | %s |%n", t.respondents(),
+                    t.sweeps(), t.seconds(), t.nanosPerRespondentSweep(), t.samplingNanosPerRespondentSweep(),
+                    cell(t.jointAcceptance()), cell(t.jointLeapfrogSteps()), cell(t.jointWallShare()), ratio));
             previous = t;
         }
+    }
+
+    /** A table cell with two decimals, or "-" for NaN (no joint step). */
+    private static String cell(double v) {
+        return Double.isNaN(v) ? "-" : String.format(Locale.ROOT, "%.2f", v);
     }
 
     /** Writes {@code text} to {@code file}. */

@@ -23,6 +23,9 @@ class BenchmarkTest {
         assertFalse(report.contains("Speed of the complete model"), report);
         // the coarse model runs half the sweeps: 8 / 2 = 4 at the largest (and only) size
         assertTrue(report.contains("| 500 | 4 |"), report);
+        String row = report.lines().filter(l -> l.startsWith("| 500 | 4 |")).findFirst().orElseThrow();
+        assertTrue(report.contains("| its leapfrog steps | its walls |"), report);
+        assertEquals(10, row.chars().filter(c -> c == '|').count(), "nine cells: " + row);
         String text = log.toString(StandardCharsets.UTF_8);
         assertEquals(1, text.lines().filter(l -> l.contains("respondents,") && l.contains("sweeps")).count(), text);
     }
