@@ -27,17 +27,6 @@ final class Csv implements Closeable {
         return new Csv(Files.newBufferedReader(file), file.toString());
     }
 
-    /** The field as written: quoted, with quotes doubled, when it holds a comma, quote or line break. */
-    static String quote(String value) {
-        for (int i = 0; i < value.length(); i++) {
-            char ch = value.charAt(i);
-            if (ch == ',' || ch == '"' || ch == '\n' || ch == '\r') {
-                return '"' + value.replace("\"", "\"\"") + '"';
-            }
-        }
-        return value;
-    }
-
     /** The fields of the next record (reused between calls), or null at the end of the input. */
     List<String> next() throws IOException {
         int ch = read();

@@ -25,7 +25,7 @@ public final class DrawsCsv {
         AtomicFiles.write(file, out -> {
             StringBuilder line = new StringBuilder(CHAIN).append(',').append(ITERATION);
             for (String name : draws.names()) {
-                line.append(',').append(Csv.quote(name));
+                line.append(',').append(CsvField.quote(name));
             }
             out.append(line).append('\n');
             int parameters = draws.parameterCount();

@@ -21,12 +21,12 @@ public final class SummaryTable {
             StringBuilder line = new StringBuilder();
             for (ParameterSummary s : summaries) {
                 line.setLength(0);
-                line.append(Csv.quote(s.name()));
+                line.append(CsvField.quote(s.name()));
                 for (double v : new double[] {s.mean(), s.sd(), s.q05(), s.q50(), s.q95(), s.rhat(), s.essBulk(),
                         s.essTail(), s.mcseMean()}) {
                     line.append(',').append(v);
                 }
-                line.append(',').append(Csv.quote(s.flag())).append('\n');
+                line.append(',').append(CsvField.quote(s.flag())).append('\n');
                 out.append(line);
             }
         });

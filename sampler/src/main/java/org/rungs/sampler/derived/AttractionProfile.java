@@ -6,6 +6,7 @@ import java.util.ArrayList;
 import java.util.List;
 import org.rungs.models.ParameterLayout;
 import org.rungs.posteriors.AtomicFiles;
+import org.rungs.posteriors.CsvField;
 import org.rungs.posteriors.Draws;
 import org.rungs.posteriors.ParameterSummary;
 import org.rungs.posteriors.Summaries;
@@ -83,7 +84,7 @@ public final class AttractionProfile {
             StringBuilder line = new StringBuilder();
             for (Row r : rows) {
                 line.setLength(0);
-                line.append(DerivedTables.quote(r.group())).append(',').append(r.rating());
+                line.append(CsvField.quote(r.group())).append(',').append(r.rating());
                 for (double v : new double[] {r.aMean(), r.aQ5(), r.aQ95(), r.expMean(), r.expQ5(), r.expQ95(),
                     r.pPositive(), r.sdRatio()}) {
                     line.append(',').append(DerivedTables.number(v));

@@ -6,6 +6,7 @@ import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
 import org.rungs.posteriors.AtomicFiles;
+import org.rungs.posteriors.CsvField;
 import org.rungs.posteriors.Draws;
 import org.rungs.posteriors.ParameterSummary;
 
@@ -45,7 +46,7 @@ final class DerivedTables {
             for (int g = 0; g < labels.size(); g++) {
                 String label = labels.get(g);
                 line.setLength(0);
-                line.append(quote(label)).append(',').append(r.respondents(g)).append(',').append(number(r.reportedMeans()[g]));
+                line.append(CsvField.quote(label)).append(',').append(r.respondents(g)).append(',').append(number(r.reportedMeans()[g]));
                 for (String quantity : GROUP_QUANTITIES) {
                     if (present(r, quantity)) {
                         interval(line, summary(byName, DerivedColumns.groupName(quantity, label)));
@@ -89,7 +90,7 @@ final class DerivedTables {
                     int rating = r.scale().rating(k);
                     int observed = r.observedCounts()[g][k];
                     line.setLength(0);
-                    line.append(quote(label)).append(',').append(rating).append(',').append(observed).append(',')
+                    line.append(CsvField.quote(label)).append(',').append(rating).append(',').append(observed).append(',')
                             .append(number(r.reportedShares()[g][k]));
                     interval(line, summary(byName, DerivedColumns.ratingName("intended_share", label, rating)));
                     interval(line, summary(byName, DerivedColumns.ratingName("harmonised_share", label, rating)));
@@ -113,7 +114,7 @@ final class DerivedTables {
             StringBuilder line = new StringBuilder();
             for (DerivedResult.StyleLevel level : r.coarseLevels()) {
                 line.setLength(0);
-                line.append(quote(level.column())).append(',').append(quote(level.level()));
+                line.append(CsvField.quote(level.column())).append(',').append(CsvField.quote(level.level()));
                 interval(line, summary(byName, DerivedColumns.coarseShareByName(level)));
                 out.append(line.append('\n'));
             }
@@ -160,16 +161,5 @@ final class DerivedTables {
     /** Shortest text that reads back to the same double; Double.toString ignores the locale. */
     static String number(double v) {
         return Double.toString(v);
-    }
-
-    /** RFC 4180: quoted, quotes doubled, when the field holds a comma, quote or line break. */
-    static String quote(String value) {
-        for (int i = 0; i < value.length(); i++) {
-            char ch = value.charAt(i);
-            if (ch == ',' || ch == '"' || ch == '\n' || ch == '\r') {
-                return '"' + value.replace("\"", "\"\"") + '"';
-            }
-        }
-        return value;
     }
 }

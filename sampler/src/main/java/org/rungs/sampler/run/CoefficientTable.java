@@ -10,6 +10,7 @@ import java.util.List;
 import java.util.Locale;
 import java.util.Map;
 import org.rungs.models.survey.Covariates;
+import org.rungs.posteriors.CsvField;
 import org.rungs.posteriors.ParameterSummary;
 
 /**
@@ -39,7 +40,7 @@ final class CoefficientTable {
                 ParameterSummary ame = main.get("ame." + name);
                 ParameterSummary perUnit = indicator ? ame : main.get("ame." + name + ".per_unit");
                 ParameterSummary plainPerUnit = plainIndex.get(indicator ? "ame." + name : "ame." + name + ".per_unit");
-                w.write(quote(name) + "," + (indicator ? "indicator" : "numeric") + ","
+                w.write(CsvField.quote(name) + "," + (indicator ? "indicator" : "numeric") + ","
                         + triple(ame) + "," + triple(perUnit) + "," + number(naive[j]) + "," + triple(plainPerUnit) + ","
                         + number(naive[j] - perUnit.mean()) + "\n");
             }
@@ -60,9 +61,5 @@ final class CoefficientTable {
 
     private static String number(double v) {
         return String.format(Locale.ROOT, "%.6g", v);
-    }
-
-    private static String quote(String s) {
-        return s.indexOf(',') >= 0 || s.indexOf('"') >= 0 ? '"' + s.replace("\"", "\"\"") + '"' : s;
     }
 }
