@@ -33,7 +33,7 @@ import org.rungs.examples.DemoScenario;
  */
 final class CommandLineTest {
     private static final String[] TINY = {"--chains", "2", "--warmup", "20", "--draws", "20"};
-    private static final String SUMMARY_HEADER = "name,mean,sd,q5,q50,q95,rhat,ess_bulk,ess_tail,mcse_mean,flag";
+    private static final String SUMMARY_HEADER = "name,mean,sd,q5,q50,q95,rhat,ess_bulk,ess_tail,mcse_mean,flag,rhat_chance";
 
     @TempDir
     static Path shared;

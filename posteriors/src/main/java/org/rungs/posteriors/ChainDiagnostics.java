@@ -2,6 +2,7 @@ package org.rungs.posteriors;
 
 import java.util.Arrays;
 import org.apache.commons.math3.distribution.BetaDistribution;
+import org.apache.commons.math3.distribution.ChiSquaredDistribution;
 
 /**
  * The diagnostics of Vehtari et al. (2021) for one draw shape (chains x iterations), with the
@@ -29,6 +30,8 @@ final class ChainDiagnostics {
     private final double[] work;
     private final RankNormalization ranks = new RankNormalization();
     private final EffectiveSampleSize ess;
+    /** Between-chain spread of stationary split chains' means over its expectation, times (chains - 1). */
+    private final ChiSquaredDistribution spread;
 
     ChainDiagnostics(int chains, int iterations) {
         if (chains < 1 || iterations < 1) {
@@ -46,6 +49,7 @@ final class ChainDiagnostics {
         this.scores = new double[splitDraws];
         this.work = new double[draws];
         this.ess = new EffectiveSampleSize(2 * chains, half);
+        this.spread = new ChiSquaredDistribution(null, Math.max(1, 2 * chains - 1));
     }
 
     /** Rank-normalised split R-hat, eq. 14 with eqs. 1-4. */
@@ -65,6 +69,23 @@ final class ChainDiagnostics {
         sortDraws(x);
         splitNormalScores(x);
         return rhatTailOfSplitScores();
+    }
+
+    /**
+     * The chance of an R-hat at least this high if every chain drew from the posterior itself:
+     * the smaller of the bulk and tail chances, made a chance for the pair (1 - (1 - p)^2).
+     * See {@link #chance(double, double)}.
+     */
+    double rhatChance(double[] x) {
+        if (containsNaN(x, draws)) {
+            return Double.NaN;
+        }
+        splitNormalScores(x);
+        double bulk = chance(SplitRhat.of(scores, 2 * chains, half), ess.withinChains(scores));
+        sortDraws(x);
+        double rhatTail = rhatTailOfSplitScores();
+        double tail = Double.isNaN(rhatTail) ? Double.NaN : chance(rhatTail, ess.withinChains(scores));
+        return eitherChance(bulk, tail);
     }
 
     /** Bulk ESS: ESS of the rank-normalised split chains. */
@@ -134,10 +155,12 @@ final class ChainDiagnostics {
         boolean hasNaN = containsNaN(x, draws);
         double rhatBulk = Double.NaN;
         double essBulk = Double.NaN;
+        double chanceBulk = Double.NaN;
         if (!hasNaN) {
             splitNormalScores(x);
             rhatBulk = SplitRhat.of(scores, 2 * chains, half);
             essBulk = ess.of(scores);
+            chanceBulk = chance(rhatBulk, ess.withinChains(scores));
         }
         if (!hasNaN && splitDraws == draws) {
             // an even chain length splits without dropping a draw: the ranking already sorted them
@@ -158,10 +181,46 @@ final class ChainDiagnostics {
         double q50 = hasNaN ? Double.NaN : DrawStatistics.quantileType7(sorted, draws, 0.5);
         double q95 = hasNaN ? Double.NaN : DrawStatistics.quantileType7(sorted, draws, TAIL_UPPER);
         double rhatTail = hasNaN ? Double.NaN : rhatTailOfSplitScores();
+        double chanceTail = Double.isNaN(rhatTail) ? Double.NaN : chance(rhatTail, ess.withinChains(scores));
         double essTail = essTailOfSorted(x);
         double mcseMean = sd / Math.sqrt(essMean(x));
         return ParameterSummary.of(name, mean, sd, q05, q50, q95, Math.max(rhatBulk, rhatTail),
-                essBulk, essTail, mcseMean, chains);
+                essBulk, essTail, mcseMean, eitherChance(chanceBulk, chanceTail), chains);
+    }
+
+    /**
+     * P(R-hat >= rhat) for split chains that all draw from one stationary distribution, after
+     * Gelman & Rubin (1992, section 3), who judged R-hat against the sampling distribution of its
+     * between- and within-chain variances: the split chains' means then vary with variance
+     * W tau / n, tau the integrated autocorrelation time, so (chains - 1) (B / W) / tau, with
+     * B / W = n rhat^2 - (n - 1) from eq. 3 of Vehtari et al. (2021), is about chi-square with
+     * chains - 1 degrees of freedom. tau comes from the within-chain autocorrelations alone
+     * ({@link EffectiveSampleSize#withinChains}), so disagreeing chains cannot lower the statistic.
+     * Checked on simulated stationary chains in {@code ConvergenceTest}: calibrated while the
+     * chains' ESS is in the hundreds, smaller than nominal (so stricter) for chains that mix
+     * very slowly, whose ESS is flagged anyway.
+     */
+    private double chance(double rhat, double essWithin) {
+        int m = 2 * chains;
+        if (m < 2 || Double.isNaN(rhat) || !(essWithin > 0)) {
+            return Double.NaN;
+        }
+        int n = half;
+        double ratio = n * rhat * rhat - (n - 1);
+        double tau = (double) m * n / essWithin;
+        return 1 - spread.cumulativeProbability(Math.max(0, (m - 1) * ratio / tau));
+    }
+
+    /** The chance that at least one of two tests gives a p-value this small: 1 - (1 - min)^2; NaN only if both are. */
+    private static double eitherChance(double a, double b) {
+        if (Double.isNaN(a)) {
+            return b;
+        }
+        if (Double.isNaN(b)) {
+            return a;
+        }
+        double min = Math.min(a, b);
+        return 1 - (1 - min) * (1 - min);
     }
 
     /**

@@ -29,6 +29,16 @@ public final class Convergence {
         return diagnosticsFor(draws).rhatTail(flatten(draws));
     }
 
+    /**
+     * The chance that chains drawing from the posterior itself give an R-hat at least as high as
+     * {@link #rhat}, at these chains' autocorrelations (after Gelman & Rubin 1992; see
+     * {@code ChainDiagnostics}): a small chance says the chains disagree, a large one that an
+     * R-hat a little above 1.01 is what this many effective draws give.
+     */
+    public static double rhatChance(double[][] draws) {
+        return diagnosticsFor(draws).rhatChance(flatten(draws));
+    }
+
     /** ESS of the rank-normalised split chains (section 4.1). */
     public static double essBulk(double[][] draws) {
         return diagnosticsFor(draws).essBulk(flatten(draws));

@@ -53,15 +53,31 @@ final class EffectiveSampleSize {
 
     /** ESS of {@code x}, chain after chain; NaN as posterior's NA (short, non-finite or constant). */
     double of(double[] x) {
+        return of(x, true);
+    }
+
+    /**
+     * The ESS that the chains' autocorrelations alone imply, as if each chain were run by
+     * itself: the autocorrelations relative to the mean within-chain variance, not to var+, so
+     * that chains that disagree do not lower it (NaN as above).
+     */
+    double withinChains(double[] x) {
+        return of(x, false);
+    }
+
+    private double of(double[] x, boolean between) {
         int n = length;
         if (n < 3 || DrawStatistics.shouldReturnNaN(x, chains * n)) {
             return Double.NaN;
         }
         centre(x);
         double meanVar = autocovariance(0) * n / (n - 1);
-        double varPlus = meanVar * (n - 1) / n;
-        if (chains > 1) {
-            varPlus += DrawStatistics.sampleVariance(chainMean, chains);
+        double varPlus = meanVar;
+        if (between) {
+            varPlus = meanVar * (n - 1) / n;
+            if (chains > 1) {
+                varPlus += DrawStatistics.sampleVariance(chainMean, chains);
+            }
         }
         // Geyer's initial positive sequence over pairs of lags (eq. 11 and posterior's loop)
         int t = 0;

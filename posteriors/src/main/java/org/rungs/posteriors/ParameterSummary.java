@@ -9,9 +9,13 @@ import java.util.Objects;
  * chains. {@code flagged} follows MODEL.md section 7 when built by {@link #of}: R-hat above
  * {@value #RHAT_LIMIT}, or bulk or tail ESS below {@value #MIN_ESS_PER_CHAIN} per chain. Undefined
  * (NaN) diagnostics of a constant parameter do not flag it; non-finite draws always do.
+ * {@code rhatChance} is the chance that chains drawing from the posterior itself give an R-hat
+ * at least {@code rhat} ({@link Convergence#rhatChance}; NaN where undefined); it flags nothing,
+ * and {@link ConvergenceVerdict} reads it.
  */
 public record ParameterSummary(String name, double mean, double sd, double q05, double q50, double q95,
-        double rhat, double essBulk, double essTail, double mcseMean, boolean flagged, int chains) {
+        double rhat, double essBulk, double essTail, double mcseMean, double rhatChance, boolean flagged,
+        int chains) {
     public static final double RHAT_LIMIT = 1.01;
     public static final double MIN_ESS_PER_CHAIN = 100;
 
@@ -24,11 +28,12 @@ public record ParameterSummary(String name, double mean, double sd, double q05, 
 
     /** A summary whose {@code flagged} is set by the rule above. */
     public static ParameterSummary of(String name, double mean, double sd, double q05, double q50, double q95,
-            double rhat, double essBulk, double essTail, double mcseMean, int chains) {
+            double rhat, double essBulk, double essTail, double mcseMean, double rhatChance, int chains) {
         ParameterSummary unflagged = new ParameterSummary(name, mean, sd, q05, q50, q95, rhat, essBulk, essTail,
-                mcseMean, false, chains);
+                mcseMean, rhatChance, false, chains);
         return unflagged.flagReasons().isEmpty() ? unflagged
-                : new ParameterSummary(name, mean, sd, q05, q50, q95, rhat, essBulk, essTail, mcseMean, true, chains);
+                : new ParameterSummary(name, mean, sd, q05, q50, q95, rhat, essBulk, essTail, mcseMean, rhatChance,
+                        true, chains);
     }
 
     /**

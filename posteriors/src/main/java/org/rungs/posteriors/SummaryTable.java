@@ -2,14 +2,12 @@ package org.rungs.posteriors;
 
 import java.io.IOException;
 import java.nio.file.Path;
-import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
 
 /** Parameter summaries as a CSV file, a console table and a one-line verdict. */
 public final class SummaryTable {
-    static final String CSV_HEADER = "name,mean,sd,q5,q50,q95,rhat,ess_bulk,ess_tail,mcse_mean,flag";
-    private static final int LISTED_NAMES = 10;
+    static final String CSV_HEADER = "name,mean,sd,q5,q50,q95,rhat,ess_bulk,ess_tail,mcse_mean,flag,rhat_chance";
 
     private SummaryTable() {
     }
@@ -26,7 +24,7 @@ public final class SummaryTable {
                         s.essTail(), s.mcseMean()}) {
                     line.append(',').append(v);
                 }
-                line.append(',').append(CsvField.quote(s.flag())).append('\n');
+                line.append(',').append(CsvField.quote(s.flag())).append(',').append(s.rhatChance()).append('\n');
                 out.append(line);
             }
         });
@@ -49,25 +47,12 @@ public final class SummaryTable {
         return table.toString();
     }
 
-    /** One line saying whether every parameter passed the rule of MODEL.md section 7, and which did not. */
+    /**
+     * One line saying whether every parameter passed the rule of MODEL.md section 7, which did
+     * not, and whether flags from R-hat alone are within chance ({@link ConvergenceVerdict}).
+     */
     public static String verdict(List<ParameterSummary> summaries) {
-        int total = summaries.size();
-        List<String> flagged = new ArrayList<>();
-        for (ParameterSummary s : summaries) {
-            if (s.flagged()) {
-                flagged.add(s.name());
-            }
-        }
-        if (flagged.isEmpty()) {
-            return "All " + total + " parameters converged (R-hat <= 1.01, bulk and tail ESS >= 100 per chain).";
-        }
-        StringBuilder line = new StringBuilder("Not converged: ").append(flagged.size()).append(" of ").append(total)
-                .append(" parameters flagged: ")
-                .append(String.join(", ", flagged.subList(0, Math.min(LISTED_NAMES, flagged.size()))));
-        if (flagged.size() > LISTED_NAMES) {
-            line.append(" (and ").append(flagged.size() - LISTED_NAMES).append(" more)");
-        }
-        return line.append('.').toString();
+        return ConvergenceVerdict.of(summaries).line("parameters");
     }
 
     private static String significant(double v) {

@@ -16,7 +16,7 @@ class SummaryTableTest {
     Path folder;
 
     private static ParameterSummary summary(String name, double rhat, double essBulk, double essTail) {
-        return ParameterSummary.of(name, 0.5, 1.25, -1.5, 0.5, 2.5, rhat, essBulk, essTail, 0.02, 4);
+        return ParameterSummary.of(name, 0.5, 1.25, -1.5, 0.5, 2.5, rhat, essBulk, essTail, 0.02, 0.5, 4);
     }
 
     /** MODEL.md section 7: R-hat > 1.01 or bulk/tail ESS < 100 per chain (here 4 chains: 400). */
@@ -32,10 +32,10 @@ class SummaryTableTest {
     @Test
     void undefinedDiagnosticsFlagOnlyVaryingOrNonFiniteDraws() {
         double nan = Double.NaN;
-        assertEquals("ok", ParameterSummary.of("constant", 0.25, 0, 0.25, 0.25, 0.25, nan, nan, nan, nan, 4).flag());
+        assertEquals("ok", ParameterSummary.of("constant", 0.25, 0, 0.25, 0.25, 0.25, nan, nan, nan, nan, nan, 4).flag());
         assertEquals("too few draws", summary("short", nan, nan, nan).flag());
         assertEquals("non-finite draws",
-                ParameterSummary.of("inf", Double.POSITIVE_INFINITY, nan, 0, 1, 2, nan, nan, nan, nan, 4).flag());
+                ParameterSummary.of("inf", Double.POSITIVE_INFINITY, nan, 0, 1, 2, nan, nan, nan, nan, nan, 4).flag());
     }
 
     @Test
@@ -43,9 +43,9 @@ class SummaryTableTest {
         Path file = folder.resolve("summary.csv");
         SummaryTable.writeCsv(List.of(summary("beta[1,2]", 1.0, 500, 450), summary("sigma", 1.05, 80, 90)), file);
         List<String> lines = Files.readAllLines(file);
-        assertEquals("name,mean,sd,q5,q50,q95,rhat,ess_bulk,ess_tail,mcse_mean,flag", lines.get(0));
-        assertEquals("\"beta[1,2]\",0.5,1.25,-1.5,0.5,2.5,1.0,500.0,450.0,0.02,ok", lines.get(1));
-        assertEquals("sigma,0.5,1.25,-1.5,0.5,2.5,1.05,80.0,90.0,0.02,rhat>1.01;low ess_bulk;low ess_tail", lines.get(2));
+        assertEquals("name,mean,sd,q5,q50,q95,rhat,ess_bulk,ess_tail,mcse_mean,flag,rhat_chance", lines.get(0));
+        assertEquals("\"beta[1,2]\",0.5,1.25,-1.5,0.5,2.5,1.0,500.0,450.0,0.02,ok,0.5", lines.get(1));
+        assertEquals("sigma,0.5,1.25,-1.5,0.5,2.5,1.05,80.0,90.0,0.02,rhat>1.01;low ess_bulk;low ess_tail,0.5", lines.get(2));
         assertEquals(3, lines.size());
     }
 

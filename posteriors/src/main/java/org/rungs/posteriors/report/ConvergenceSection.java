@@ -6,6 +6,7 @@ import java.util.Arrays;
 import java.util.Comparator;
 import java.util.LinkedHashSet;
 import java.util.List;
+import java.util.Locale;
 import java.util.Set;
 import org.jfree.chart.JFreeChart;
 import org.jfree.chart.axis.NumberAxis;
@@ -17,6 +18,7 @@ import org.jfree.chart.title.LegendTitle;
 import org.jfree.chart.ui.RectangleEdge;
 import org.jfree.data.xy.XYSeries;
 import org.jfree.data.xy.XYSeriesCollection;
+import org.rungs.posteriors.ConvergenceVerdict;
 import org.rungs.posteriors.Draws;
 
 /**
@@ -35,35 +37,46 @@ final class ConvergenceSection {
     private static final int TRACE_POINTS = 400;
     private static final int RANK_BINS = 20;
 
-    record Verdict(boolean converged, int flagged, int parameters, boolean interrupted) {
+    /** converged: no flag, or flags within chance ({@link ConvergenceVerdict}), and the run finished. */
+    record Verdict(boolean converged, ConvergenceVerdict family, boolean interrupted) {
     }
 
     private ConvergenceSection() {
     }
 
+    /** The verdict of summary.csv's rows; a file without the rhat_chance column never puts a flag down to chance. */
     static Verdict verdict(FitFolder fit) {
         CsvTable summary = fit.summary();
-        int flagged = 0;
+        List<ConvergenceVerdict.Quantity> quantities = new ArrayList<>(summary.size());
         for (int r = 0; r < summary.size(); r++) {
             String flag = summary.has("flag") ? summary.text(r, "flag").trim() : "ok";
-            if (!flag.isEmpty() && !flag.equals("ok")) {
-                flagged++;
-            }
+            List<String> reasons = flag.isEmpty() || flag.equals("ok") ? List.of() : List.of(flag.split(";"));
+            quantities.add(new ConvergenceVerdict.Quantity(summary.text(r, "name"), reasons, summary.number(r, "rhat"),
+                    summary.number(r, "rhat_chance")));
         }
+        ConvergenceVerdict family = ConvergenceVerdict.ofQuantities(quantities);
         boolean interrupted = fit.flag("sampler.interrupted");
-        return new Verdict(flagged == 0 && !interrupted, flagged, summary.size(), interrupted);
+        return new Verdict(family.readable() && !interrupted, family, interrupted);
     }
 
     /** The plain-words verdict shown at the top of the page and in this section. */
     static String verdictText(FitFolder fit, Verdict verdict) {
         StringBuilder sb = new StringBuilder();
-        if (verdict.flagged() > 0) {
-            sb.append("This fit has not converged: ").append(verdict.flagged()).append(" of ").append(verdict.parameters())
+        ConvergenceVerdict family = verdict.family();
+        int parameters = family.quantities();
+        switch (family.kind()) {
+            case NOT_CONVERGED -> sb.append("This fit has not converged: ").append(family.flagged().size()).append(" of ")
+                    .append(parameters)
                     .append(" parameters fail the checks (R-hat above 1.01 or an effective sample size below 100 per chain). ")
                     .append("The chains disagree or have too few independent draws, so the estimates below are not reliable; ")
                     .append("run longer chains (more warm-up and draws) and check again before using them. ");
-        } else {
-            sb.append("All ").append(verdict.parameters())
+            case WITHIN_CHANCE -> sb.append(String.format(Locale.ROOT, "This fit has converged within chance: %d of %d "
+                    + "parameters have an R-hat a little above 1.01 (at most %.4f) and every effective sample size is "
+                    + "sufficient; chains drawing from the posterior itself give an R-hat this far from 1 among %d "
+                    + "parameters with probability %.2f, so the estimates below can be read. Longer chains would clear "
+                    + "the flags. ", family.flagged().size(), parameters, family.largestRhat(), parameters,
+                    family.familyChance()));
+            case CONVERGED -> sb.append("All ").append(parameters)
                     .append(" parameters pass the checks (R-hat at most 1.01, bulk and tail effective sample size at least 100 per chain). ");
         }
         if (verdict.interrupted()) {

@@ -149,6 +149,39 @@ class ReportTest {
         assertTrue(html.contains("R-hat, bulk ESS, tail ESS"), "failed checks in the table of worst parameters");
     }
 
+    /**
+     * One parameter flagged for R-hat alone: within chance when summary.csv gives R-hat's chance
+     * (0.3, so 1 - 0.7^n for the family), not converged when the file predates that column.
+     */
+    @Test
+    void anRhatFlagWithinChanceLeavesTheFitReadable() throws Exception {
+        Path dir = FitFolderFixture.write(tmp.resolve("fit"), FitFolderFixture.demoRegions(), true, 12);
+        Path summary = dir.resolve("summary.csv");
+        List<String> lines = Files.readAllLines(summary);
+        List<String> withChance = new ArrayList<>();
+        withChance.add(lines.get(0) + ",rhat_chance");
+        for (int i = 1; i < lines.size(); i++) {
+            String[] f = lines.get(i).split(",");
+            if (i == 3) {
+                f[6] = "1.012";
+                f[10] = "rhat>1.01";
+            }
+            withChance.add(String.join(",", f) + (i == 3 ? ",0.3" : ",0.6"));
+        }
+        Files.write(summary, withChance);
+        String html = Files.readString(Report.write(dir));
+        assertTrue(html.contains("This fit has converged within chance: 1 of " + (lines.size() - 1)), "verdict");
+        assertFalse(html.contains("has not converged"));
+        assertFalse(html.contains("should be relied on yet"), "no caution about convergence");
+
+        List<String> without = new ArrayList<>();
+        for (String line : withChance) {
+            without.add(line.substring(0, line.lastIndexOf(',')));
+        }
+        Files.write(summary, without);
+        assertTrue(Files.readString(Report.write(dir)).contains("This fit has not converged: 1 of"), "an older summary.csv");
+    }
+
     @Test
     void anInterruptedRunSaysHowManyDrawsWereKept() throws Exception {
         Path dir = copyOfOneGroup(tmp.resolve("fit"));

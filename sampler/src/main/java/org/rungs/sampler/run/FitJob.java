@@ -21,6 +21,7 @@ import org.rungs.models.survey.Exclusions;
 import org.rungs.models.survey.Survey;
 import org.rungs.models.survey.SurveyInputException;
 import org.rungs.models.survey.SurveyReader;
+import org.rungs.posteriors.ConvergenceVerdict;
 import org.rungs.posteriors.DrawsCsv;
 import org.rungs.posteriors.ParameterSummary;
 import org.rungs.posteriors.SummaryTable;
@@ -167,8 +168,9 @@ public final class FitJob {
 
         out.print(SummaryTable.format(summaries));
         out.println(verdict);
-        boolean converged = summaries.stream().noneMatch(ParameterSummary::flagged)
-                && (derived == null || derivedSummaries.stream().noneMatch(ParameterSummary::flagged));
+        // flags within chance (ConvergenceVerdict) leave the estimates readable: no advice to run longer
+        boolean converged = ConvergenceVerdict.of(summaries).readable()
+                && (derived == null || ConvergenceVerdict.of(derivedSummaries).readable());
         if (derived != null) {
             out.println("Derived quantities: " + SummaryTable.verdict(derivedSummaries));
             out.println();

@@ -8,7 +8,7 @@ import org.rungs.posteriors.ParameterSummary;
 
 class LongerChainsTest {
     private static ParameterSummary summary(String name, double rhat, double bulk, double tail) {
-        return ParameterSummary.of(name, 0, 1, -1.6, 0, 1.6, rhat, bulk, tail, 0.01, 4);
+        return ParameterSummary.of(name, 0, 1, -1.6, 0, 1.6, rhat, bulk, tail, 0.01, 0.5, 4);
     }
 
     @Test
