@@ -70,12 +70,15 @@ final class ConvergenceSection {
                     .append(" parameters fail the checks (R-hat above 1.01 or an effective sample size below 100 per chain). ")
                     .append("The chains disagree or have too few independent draws, so the estimates below are not reliable; ")
                     .append("run longer chains (more warm-up and draws) and check again before using them. ");
-            case WITHIN_CHANCE -> sb.append(String.format(Locale.ROOT, "This fit has converged within chance: %d of %d "
-                    + "parameters have an R-hat a little above 1.01 (at most %.4f) and every effective sample size is "
-                    + "sufficient; chains drawing from the posterior itself give an R-hat this far from 1 among %d "
-                    + "parameters with probability %.2f, so the estimates below can be read. Longer chains would clear "
-                    + "the flags. ", family.flagged().size(), parameters, family.largestRhat(), parameters,
-                    family.familyChance()));
+            case WITHIN_CHANCE -> {
+                boolean one = family.flagged().size() == 1;
+                sb.append(String.format(Locale.ROOT, "This fit has converged within chance: %d of %d parameters %s an "
+                        + "R-hat a little above 1.01 (at most %.4f) and every effective sample size is sufficient; chains "
+                        + "drawing from the posterior itself give an R-hat this far from 1 among %d parameters with "
+                        + "probability %.2f, so the estimates below can be read. Longer chains would clear the %s. ",
+                        family.flagged().size(), parameters, one ? "has" : "have", family.largestRhat(), parameters,
+                        family.familyChance(), one ? "flag" : "flags"));
+            }
             case CONVERGED -> sb.append("All ").append(parameters)
                     .append(" parameters pass the checks (R-hat at most 1.01, bulk and tail effective sample size at least 100 per chain). ");
         }

@@ -170,7 +170,7 @@ class ReportTest {
         }
         Files.write(summary, withChance);
         String html = Files.readString(Report.write(dir));
-        assertTrue(html.contains("This fit has converged within chance: 1 of " + (lines.size() - 1)), "verdict");
+        assertTrue(html.contains("This fit has converged within chance: 1 of " + (lines.size() - 1) + " parameters has an R-hat"), "verdict");
         assertFalse(html.contains("has not converged"));
         assertFalse(html.contains("should be relied on yet"), "no caution about convergence");
 
