@@ -6,6 +6,8 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.SplittableRandom;
 import java.util.concurrent.atomic.AtomicBoolean;
+import java.util.function.BiConsumer;
+import java.util.function.Function;
 import java.util.function.ToDoubleFunction;
 import org.apache.commons.math3.special.Erf;
 import org.junit.jupiter.api.Test;
@@ -36,7 +38,10 @@ import org.rungs.sampler.SamplerSettings;
  * written: 2.0. With this test's density misread on purpose it failed each time: the thresholds'
  * prior sd 2 instead of 3 (|z| 9.9), a point equally near two coarse points sent to the lower one
  * (8.4), the coarse-class intercept's prior centred at 0 instead of -1 (9.9), the attractions'
- * prior sd 1 instead of 0.5 (54).
+ * prior sd 1 instead of 0.5 (54). The two-group case (by-group thresholds, 8,000 engine draws
+ * per chain and 40,000 of the test's own, about 45 s): largest |z| 1.6 as written; 6.6 with the
+ * common row's order restriction of MODEL.md 5 left out (written that way at first, the test
+ * failed until the restriction was read again), 9.4 with the common thresholds' prior sd 2.
  */
 class IndependentPosteriorTest {
     private static final int CATEGORIES = 5;
@@ -57,13 +62,65 @@ class IndependentPosteriorTest {
     }
 
     /**
+     * Two groups on the scale 0..3 (coarse points 0, 1, 3; 2 is equally near 1 and 3), by-group
+     * thresholds: the hierarchy of MODEL.md 2-5 in full. The independent side samples it in
+     * non-centred coordinates, alpha[g] = mu_alpha + tau_alpha u[g], gamma[g] and d[g,k] likewise,
+     * with the spreads as logs (Jacobian tau); the deviations' density after centring the s[g,.]
+     * is tau_d^-(M-2) exp(-sum_k d[g,k]^2 / (2 tau_d^2)) on their plane (integrating the mean
+     * out), and the joint density is cut to increasing thresholds in both groups, not renormalised.
+     */
+    @Test
+    void groupHierarchyMatchesAnIndependentSampler() {
+        int[][] counts = {{8, 12, 10, 10}, {5, 15, 8, 12}};
+        double[] start = new double[TWO_GROUP_DIMENSION];
+        start[4] = -1;
+        start[8] = -0.8;
+        start[9] = 0;
+        start[11] = 0.5;
+        start[14] = -0.5;
+        double[][][] independent = independentDraws(theta -> twoGroupLogPosterior(theta, counts), start, 20261205L,
+                IndependentPosteriorTest::twoGroupQuantities, IndependentPosteriorTest::spreadOfDeviations, 40_000, 50);
+
+        byte[] category = new byte[total(counts)];
+        int[] group = new int[category.length];
+        int i = 0;
+        for (int g = 0; g < counts.length; g++) {
+            for (int k = 0; k < counts[g].length; k++) {
+                for (int c = 0; c < counts[g][k]; c++) {
+                    group[i] = g;
+                    category[i++] = (byte) k;
+                }
+            }
+        }
+        Survey survey = Survey.of(new Scale(0, 3), category, group, List.of("A", "B"), Covariates.none(),
+                Covariates.none(), null);
+        Draws engine = Fitter.fit(survey, ModelSpec.defaults().withStyleClasses(StyleClasses.coarse(null)),
+                new SamplerSettings(4, 1000, 8000, 20261205L, 2, 2), ProgressListener.NONE, new AtomicBoolean()).draws();
+        for (int p = 0; p < TWO_GROUP_NAMES.size(); p++) {
+            check(TWO_GROUP_NAMES.get(p), engine.chainsOf(engine.indexOf(TWO_GROUP_NAMES.get(p))), independent[p]);
+        }
+    }
+
+    /**
      * Parameters of the independent side: mu_alpha, mu_gamma, c1, c2, c3 (c4 = -(c1 + c2 + c3),
      * MODEL.md 3: the common thresholds sum to zero), then abar[1] and abar[3] under attraction.
      */
     private static void compare(int[] counts, boolean attraction, long seed) {
         int d = attraction ? 7 : 5;
         ToDoubleFunction<double[]> logPosterior = theta -> logPosterior(theta, counts, attraction);
-        double[][][] independent = independentDraws(logPosterior, d, seed);
+        double[] start = new double[d];
+        start[1] = -1;
+        start[2] = -1.5;
+        start[3] = -0.5;
+        start[4] = 0.5;
+        // reported in the engine's order: c4 = -(c1 + c2 + c3) after c3, then the attractions
+        double[][][] independent = independentDraws(logPosterior, start, seed, x -> {
+            double[] q = new double[x.length + 1];
+            System.arraycopy(x, 0, q, 0, 5);
+            q[5] = -(x[2] + x[3] + x[4]);
+            System.arraycopy(x, 5, q, 6, x.length - 5);
+            return q;
+        }, null, 10_000, 20);
 
         Survey survey = survey(counts);
         ModelSpec spec = ModelSpec.defaults().withStyleClasses(StyleClasses.coarse(null))
@@ -111,6 +168,145 @@ class IndependentPosteriorTest {
         return 0.5 * Erf.erfc(-x / Math.sqrt(2));
     }
 
+    /**
+     * mu_alpha, log tau_alpha, u1, u2, mu_gamma, log tau_gamma, v1, v2, c1, c2, log tau_d, e[A,1..2],
+     * e[B,1..2] with d[g,k] = tau_d e[g,k]: non-centred, so that the random walk is not held out
+     * of the narrow region of small spreads (in centred deviations it was, and overstated the mean
+     * of tau_d by a tenth).
+     */
+    private static final int TWO_GROUP_DIMENSION = 15;
+    private static final List<String> TWO_GROUP_NAMES = List.of("group_mean", "group_sd", "group.A", "group.B",
+            "style_mean", "style_sd", "style_group.A", "style_group.B", "threshold.1", "threshold.2", "threshold.3",
+            "threshold_sd", "threshold.A.1", "threshold.A.3", "threshold.B.1", "threshold.B.3");
+    /** R(j | k) for the points {0, 1, 3} on 0..3. */
+    private static final double[][] ROUNDING_0_3 = {{1, 0, 0, 0}, {0, 1, 0.5, 0}, {0, 0, 0, 0}, {0, 0, 0.5, 1}};
+
+    private static int total(int[][] counts) {
+        int n = 0;
+        for (int[] row : counts) {
+            for (int c : row) {
+                n += c;
+            }
+        }
+        return n;
+    }
+
+    /** Thresholds of group g (0 or 1) with sentinels, from the common row and the group's deviations. */
+    private static double[] groupThresholds(double[] x, int g) {
+        double c1 = x[8];
+        double c2 = x[9];
+        double tauD = Math.exp(x[10]);
+        double d1 = tauD * x[11 + 2 * g];
+        double d2 = tauD * x[12 + 2 * g];
+        return new double[] {Double.NEGATIVE_INFINITY, c1 + d1, c2 + d2, -(c1 + c2) - (d1 + d2), Double.POSITIVE_INFINITY};
+    }
+
+    private static double[] twoGroupQuantities(double[] x) {
+        double tauAlpha = Math.exp(x[1]);
+        double tauGamma = Math.exp(x[5]);
+        double[] a = groupThresholds(x, 0);
+        double[] b = groupThresholds(x, 1);
+        return new double[] {x[0], tauAlpha, x[0] + tauAlpha * x[2], x[0] + tauAlpha * x[3], x[4], tauGamma,
+            x[4] + tauGamma * x[6], x[4] + tauGamma * x[7], x[8], x[9], -(x[8] + x[9]), Math.exp(x[10]), a[1], a[3],
+            b[1], b[3]};
+    }
+
+    /**
+     * A Gibbs step for tau_d with the deviations d = tau_d e held fixed (so e changes with it): a
+     * slice step (Neal 2003, stepping out and shrinkage) on log tau_d of its full conditional
+     * HalfNormal(tau_d; 0.5) tau_d^-(G (M-2)) exp(-sum d^2 / (2 tau_d^2)) tau_d, G (M-2) = 4. The
+     * random walk moves e at a fixed tau_d and this step tau_d at fixed d, which together cross
+     * the region of small spreads (Yu & Meng 2011 interweave the two forms the same way).
+     */
+    private static void spreadOfDeviations(double[] x, SplittableRandom random) {
+        // every deviation zero has probability zero, and there the conditional is improper
+        double old = Math.exp(x[10]);
+        double squares = 0;
+        for (int g = 0; g < 2; g++) {
+            double d1 = old * x[11 + 2 * g];
+            double d2 = old * x[12 + 2 * g];
+            squares += d1 * d1 + d2 * d2 + (d1 + d2) * (d1 + d2);
+        }
+        double sum = squares;
+        java.util.function.DoubleUnaryOperator log = v -> {
+            double tau = Math.exp(v);
+            return -tau * tau / (2 * 0.25) - 4 * v - sum / (2 * tau * tau) + v;
+        };
+        double v0 = x[10];
+        double level = log.applyAsDouble(v0) + Math.log(random.nextDouble());
+        double left = v0 - random.nextDouble();
+        double right = left + 1;
+        while (log.applyAsDouble(left) > level) {
+            left -= 1;
+        }
+        while (log.applyAsDouble(right) > level) {
+            right += 1;
+        }
+        double v;
+        while (true) {
+            v = left + random.nextDouble() * (right - left);
+            if (log.applyAsDouble(v) > level) {
+                break;
+            }
+            if (v < v0) {
+                left = v;
+            } else {
+                right = v;
+            }
+        }
+        double scale = old / Math.exp(v);
+        x[10] = v;
+        for (int j = 11; j < 15; j++) {
+            x[j] *= scale;
+        }
+    }
+
+    private static double twoGroupLogPosterior(double[] x, int[][] counts) {
+        double muAlpha = x[0];
+        double tauAlpha = Math.exp(x[1]);
+        double muGamma = x[4];
+        double tauGamma = Math.exp(x[5]);
+        double tauD = Math.exp(x[10]);
+        double c3 = -(x[8] + x[9]);
+        // MODEL.md 5: the common row is increasing too, besides every group's
+        if (!(x[8] < x[9] && x[9] < c3)) {
+            return Double.NEGATIVE_INFINITY;
+        }
+        // priors (MODEL.md 5), with log tau + the half-normal for each spread
+        double log = -muAlpha * muAlpha / 8 + x[1] - tauAlpha * tauAlpha / 2 - (x[2] * x[2] + x[3] * x[3]) / 2
+                - (muGamma + 1) * (muGamma + 1) / 2 + x[5] - tauGamma * tauGamma / 2 - (x[6] * x[6] + x[7] * x[7]) / 2
+                - (x[8] * x[8] + x[9] * x[9] + c3 * c3) / 18 + x[10] - tauD * tauD / (2 * 0.25);
+        for (int g = 0; g < 2; g++) {
+            double[] c = groupThresholds(x, g);
+            double e1 = x[11 + 2 * g];
+            double e2 = x[12 + 2 * g];
+            double e3 = -(e1 + e2);
+            // three deviations d = tau_d e on a plane of dimension two: their density after centring,
+            // tau_d^-(M-2) exp(-sum d^2 / (2 tau_d^2)) with M - 1 = 3 thresholds, times the Jacobian
+            // tau_d^2 of d -> e leaves exp(-sum e^2 / 2)
+            log += -(e1 * e1 + e2 * e2 + e3 * e3) / 2;
+            for (int k = 1; k < 4; k++) {
+                if (!(c[k] > c[k - 1])) {
+                    return Double.NEGATIVE_INFINITY;
+                }
+            }
+            double eta = muAlpha + tauAlpha * x[2 + g];
+            double q = phi(muGamma + tauGamma * x[6 + g]);
+            double[] pi = new double[4];
+            for (int k = 0; k < 4; k++) {
+                pi[k] = phi(c[k + 1] - eta) - phi(c[k] - eta);
+            }
+            for (int j = 0; j < 4; j++) {
+                double coarse = 0;
+                for (int k = 0; k < 4; k++) {
+                    coarse += pi[k] * ROUNDING_0_3[j][k];
+                }
+                log += counts[g][j] * Math.log((1 - q) * pi[j] + q * coarse);
+            }
+        }
+        return log;
+    }
+
     /** MODEL.md 3-5 with one group: no deviations, alpha = mu_alpha, gamma = mu_gamma, a[j] = abar[j]. */
     private static double logPosterior(double[] theta, int[] counts, boolean attraction) {
         double muAlpha = theta[0];
@@ -153,43 +349,44 @@ class IndependentPosteriorTest {
     }
 
     /**
-     * Four random-walk Metropolis chains of 200,000 iterations (every 20th kept) after a pilot of
-     * 100,000 whose draws give the proposal covariance; returns draws[parameter][chain][iteration]
-     * in the engine's order: mu_alpha, mu_gamma, c1 to c4 (c4 = -(c1 + c2 + c3)), then the attractions.
+     * Four random-walk Metropolis chains of kept x thin iterations (every thin-th kept) after a
+     * pilot of 100,000 whose draws give the proposal covariance; returns
+     * draws[quantity][chain][iteration] of the quantities {@code report} makes of each kept state.
      */
-    private static double[][][] independentDraws(ToDoubleFunction<double[]> logPosterior, int d, long seed) {
+    private static double[][][] independentDraws(ToDoubleFunction<double[]> logPosterior, double[] start, long seed,
+            Function<double[], double[]> report, BiConsumer<double[], SplittableRandom> extra, int kept, int thin) {
         SplittableRandom random = new SplittableRandom(seed);
-        double[] start = new double[d];
-        start[1] = -1;
-        start[2] = -1.5;
-        start[3] = -0.5;
-        start[4] = 0.5;
+        int d = start.length;
         double[][] pilot = new double[d][d];
         for (int i = 0; i < d; i++) {
             pilot[i][i] = 0.01;
         }
-        double[][] covariance = covarianceOf(run(logPosterior, start, cholesky(pilot), 100_000, 1, random), d);
+        double[][] covariance = covarianceOf(run(logPosterior, start, cholesky(pilot), 100_000, 1, random, extra), d);
         double[][] factor = cholesky(scaled(covariance, 2.38 * 2.38 / d));
         int chains = 4;
-        int kept = 10_000;
-        int thin = 20;
-        double[][][] out = new double[d + 1][chains][kept];
+        double[][][] out = null;
         for (int chain = 0; chain < chains; chain++) {
-            double[][] draws = run(logPosterior, start, factor, kept * thin + 20_000, thin, random);
+            double[][] draws = run(logPosterior, start, factor, kept * thin + 20_000, thin, random, extra);
             for (int t = 0; t < kept; t++) {
-                double[] x = draws[draws.length - kept + t];
-                for (int p = 0; p < d; p++) {
-                    out[p < 5 ? p : p + 1][chain][t] = x[p];
+                double[] q = report.apply(draws[draws.length - kept + t]);
+                if (out == null) {
+                    out = new double[q.length][chains][kept];
                 }
-                out[5][chain][t] = -(x[2] + x[3] + x[4]);
+                for (int p = 0; p < q.length; p++) {
+                    out[p][chain][t] = q[p];
+                }
             }
         }
         return out;
     }
 
-    /** Every thin-th state of a random-walk Metropolis chain with proposal factor L (steps L z, z standard normal). */
+    /**
+     * Every thin-th state of a random-walk Metropolis chain with proposal factor L (steps L z, z
+     * standard normal), each step followed by {@code extra} (when not null), another step that
+     * leaves the posterior unchanged.
+     */
     private static double[][] run(ToDoubleFunction<double[]> logPosterior, double[] start, double[][] factor,
-            int iterations, int thin, SplittableRandom random) {
+            int iterations, int thin, SplittableRandom random, BiConsumer<double[], SplittableRandom> extra) {
         int d = start.length;
         double[] x = start.clone();
         double current = logPosterior.applyAsDouble(x);
@@ -211,6 +408,10 @@ class IndependentPosteriorTest {
             if (Math.log(random.nextDouble()) < proposed - current) {
                 System.arraycopy(y, 0, x, 0, d);
                 current = proposed;
+            }
+            if (extra != null) {
+                extra.accept(x, random);
+                current = logPosterior.applyAsDouble(x);
             }
             if ((it + 1) % thin == 0) {
                 kept[(it + 1) / thin - 1] = x.clone();
