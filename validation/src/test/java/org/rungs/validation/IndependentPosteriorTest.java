@@ -62,6 +62,97 @@ class IndependentPosteriorTest {
     }
 
     /**
+     * One group on 0..4 with a numeric level covariate and a numeric style covariate, 24
+     * respondents (drawn once here, seeded): MODEL.md 1's internal scale (centred, divided by the
+     * sample sd with denominator n - 1) computed in the test from the raw columns, beta and delta
+     * Normal(0, 1) on it (MODEL.md 5). Largest |z| 1.2 as written; 65 with the style covariate's
+     * sign flipped in the test's density. (The sd with denominator n instead, 2% on beta here, is
+     * below this test's resolution: |z| 2.9.)
+     */
+    @Test
+    void covariatesMatchAnIndependentSampler() {
+        SplittableRandom data = new SplittableRandom(42L);
+        int n = 24;
+        double[] income = new double[n];
+        double[] schooling = new double[n];
+        byte[] category = new byte[n];
+        for (int i = 0; i < n; i++) {
+            income[i] = 20 + 30 * data.nextDouble();
+            schooling[i] = 8 + data.nextInt(9);
+            double latent = 0.04 * (income[i] - 35) + data.nextGaussian();
+            int k = latent < -1.2 ? 0 : latent < -0.4 ? 1 : latent < 0.4 ? 2 : latent < 1.2 ? 3 : 4;
+            boolean coarse = data.nextDouble() < 0.5 - 0.04 * (schooling[i] - 8);
+            category[i] = (byte) (coarse ? (k <= 1 ? 0 : k >= 3 ? 4 : 2) : k);
+        }
+        double[] x = standardised(income);
+        double[] w = standardised(schooling);
+        double[] start = {0, -1, -1.5, -0.5, 0.5, 0, 0};
+        double[][][] independent = independentDraws(theta -> covariateLogPosterior(theta, category, x, w), start,
+                20261206L, theta -> new double[] {theta[0], theta[1], theta[2], theta[3], theta[4],
+                    -(theta[2] + theta[3] + theta[4]), theta[5], theta[6]}, null, 10_000, 10);
+
+        Survey survey = Survey.of(new Scale(0, 4), category, new int[n], List.of("all"),
+                Covariates.fromNumeric(List.of("income"), List.of(income)),
+                Covariates.fromNumeric(List.of("schooling"), List.of(schooling)), null);
+        Draws engine = Fitter.fit(survey, ModelSpec.defaults().withStyleClasses(StyleClasses.coarse(null)),
+                new SamplerSettings(4, 1000, 2000, 20261206L, 2, 2), ProgressListener.NONE, new AtomicBoolean()).draws();
+        List<String> names = List.of("group_mean", "style_mean", "threshold.1", "threshold.2", "threshold.3",
+                "threshold.4", "level.income", "style.schooling");
+        for (int p = 0; p < names.size(); p++) {
+            check(names.get(p), engine.chainsOf(engine.indexOf(names.get(p))), independent[p]);
+        }
+    }
+
+    /** Centred and divided by the sample sd (denominator n - 1), MODEL.md 1. */
+    private static double[] standardised(double[] column) {
+        double mean = 0;
+        for (double v : column) {
+            mean += v / column.length;
+        }
+        double squares = 0;
+        for (double v : column) {
+            squares += (v - mean) * (v - mean);
+        }
+        double sd = Math.sqrt(squares / (column.length - 1));
+        double[] out = new double[column.length];
+        for (int i = 0; i < column.length; i++) {
+            out[i] = (column[i] - mean) / sd;
+        }
+        return out;
+    }
+
+    /** mu_alpha, mu_gamma, c1, c2, c3, beta, delta; one group, the rounding of {0, 2, 4}. */
+    private static double covariateLogPosterior(double[] theta, byte[] category, double[] x, double[] w) {
+        double[] c = {Double.NEGATIVE_INFINITY, theta[2], theta[3], theta[4], -(theta[2] + theta[3] + theta[4]),
+            Double.POSITIVE_INFINITY};
+        for (int k = 1; k < CATEGORIES; k++) {
+            if (!(c[k] > c[k - 1])) {
+                return Double.NEGATIVE_INFINITY;
+            }
+        }
+        double log = -theta[0] * theta[0] / 8 - (theta[1] + 1) * (theta[1] + 1) / 2 - theta[5] * theta[5] / 2
+                - theta[6] * theta[6] / 2;
+        for (int k = 1; k < CATEGORIES; k++) {
+            log -= c[k] * c[k] / 18;
+        }
+        double[] pi = new double[CATEGORIES];
+        for (int i = 0; i < category.length; i++) {
+            double eta = theta[0] + theta[5] * x[i];
+            for (int k = 0; k < CATEGORIES; k++) {
+                pi[k] = phi(c[k + 1] - eta) - phi(c[k] - eta);
+            }
+            double q = phi(theta[1] + theta[6] * w[i]);
+            int j = category[i];
+            double coarse = 0;
+            for (int k = 0; k < CATEGORIES; k++) {
+                coarse += pi[k] * ROUNDING[j][k];
+            }
+            log += Math.log((1 - q) * pi[j] + q * coarse);
+        }
+        return log;
+    }
+
+    /**
      * Two groups on the scale 0..3 (coarse points 0, 1, 3; 2 is equally near 1 and 3), by-group
      * thresholds: the hierarchy of MODEL.md 2-5 in full. The independent side samples it in
      * non-centred coordinates, alpha[g] = mu_alpha + tau_alpha u[g], gamma[g] and d[g,k] likewise,
