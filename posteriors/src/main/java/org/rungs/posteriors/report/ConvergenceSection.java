@@ -101,6 +101,8 @@ final class ConvergenceSection {
         worstTable(summary, byEss(summary), out);
         out.append("</div></div>\n");
         out.append("<p class=\"note\">R-hat compares the chains with each other (1 is perfect agreement); ")
+                .append("its chance is how often chains drawing from the posterior itself give an R-hat at least this high ")
+                .append("(small: the chains disagree); ")
                 .append("ESS is the number of independent draws the correlated draws are worth (bulk: centre, tail: 5% and 95% quantiles).</p>\n");
         Draws draws = fit.draws();
         if (draws == null) {
@@ -169,12 +171,13 @@ final class ConvergenceSection {
     }
 
     private static void worstTable(CsvTable summary, Integer[] order, StringBuilder out) {
-        Html.tableHead(out, "num", List.of("parameter", "mean", "R-hat", "bulk ESS", "tail ESS", "flag"));
+        Html.tableHead(out, "num", List.of("parameter", "mean", "R-hat", "its chance", "bulk ESS", "tail ESS", "flag"));
         for (int i = 0; i < Math.min(WORST_ROWS, order.length); i++) {
             int r = order[i];
             String flag = summary.has("flag") ? summary.text(r, "flag") : "";
             Html.row(out, "<code>" + Html.escape(summary.text(r, "name")) + "</code>", Html.number(summary.number(r, "mean"), 3),
-                    Html.number(summary.number(r, "rhat"), 3), Html.number(summary.number(r, "ess_bulk"), 0),
+                    Html.number(summary.number(r, "rhat"), 3), Html.number(summary.number(r, "rhat_chance"), 3),
+                    Html.number(summary.number(r, "ess_bulk"), 0),
                     Html.number(summary.number(r, "ess_tail"), 0),
                     flag.equals("ok") ? "ok" : "<strong>" + Html.escape(failedChecks(flag)) + "</strong>");
         }

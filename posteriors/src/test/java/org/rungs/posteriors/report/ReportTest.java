@@ -171,6 +171,7 @@ class ReportTest {
         Files.write(summary, withChance);
         String html = Files.readString(Report.write(dir));
         assertTrue(html.contains("This fit has converged within chance: 1 of " + (lines.size() - 1) + " parameters has an R-hat"), "verdict");
+        assertTrue(html.contains("<td>1.012</td><td>0.300</td>"), "R-hat and its chance in the table of the worst");
         assertFalse(html.contains("has not converged"));
         assertFalse(html.contains("should be relied on yet"), "no caution about convergence");
 
