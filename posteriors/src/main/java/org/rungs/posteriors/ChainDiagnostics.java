@@ -196,7 +196,7 @@ final class ChainDiagnostics {
      * B / W = n rhat^2 - (n - 1) from eq. 3 of Vehtari et al. (2021), is about chi-square with
      * chains - 1 degrees of freedom. tau comes from the within-chain autocorrelations alone
      * ({@link EffectiveSampleSize#withinChains}), so disagreeing chains cannot lower the statistic.
-     * Checked on simulated stationary chains in {@code ConvergenceTest}: calibrated while the
+     * Checked on simulated stationary chains in {@code RhatChanceTest}: calibrated while the
      * chains' ESS is in the hundreds, smaller than nominal (so stricter) for chains that mix
      * very slowly, whose ESS is flagged anyway.
      */

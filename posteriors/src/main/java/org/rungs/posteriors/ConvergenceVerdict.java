@@ -9,7 +9,7 @@ import java.util.Locale;
  * by the flags of MODEL.md section 7, and, where R-hat alone raised them, whether they are
  * within what chains drawing from the posterior itself show among this many quantities. At
  * 100 to 200 effective draws per chain such chains put R-hat above 1.01 for a few in a hundred
- * quantities (ConvergenceTest), so a fit of hundreds is rarely free of flags by chance alone.
+ * quantities (RhatChanceTest), so a fit of hundreds is rarely free of flags by chance alone.
  *
  * <p>Flags within chance: every flag is R-hat alone (every ESS sufficient), no R-hat above
  * {@value #RHAT_CEILING}, and the chance that at least one of the family's quantities gives an
