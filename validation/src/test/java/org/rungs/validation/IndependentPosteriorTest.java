@@ -41,7 +41,9 @@ import org.rungs.sampler.SamplerSettings;
  * prior sd 1 instead of 0.5 (54). The two-group case (by-group thresholds, 8,000 engine draws
  * per chain and 40,000 of the test's own, about 45 s): largest |z| 1.6 as written; 6.6 with the
  * common row's order restriction of MODEL.md 5 left out (written that way at first, the test
- * failed until the restriction was read again), 9.4 with the common thresholds' prior sd 2.
+ * failed until the restriction was read again), 9.4 with the common thresholds' prior sd 2. With
+ * number attraction on 2 as well (about 55 s): largest |z| 2.9; 48 with tau_a's prior sd 1
+ * instead of 0.3.
  */
 class IndependentPosteriorTest {
     private static final int CATEGORIES = 5;
@@ -162,14 +164,30 @@ class IndependentPosteriorTest {
      */
     @Test
     void groupHierarchyMatchesAnIndependentSampler() {
-        int[][] counts = {{8, 12, 10, 10}, {5, 15, 8, 12}};
-        double[] start = new double[TWO_GROUP_DIMENSION];
+        compareTwoGroups(new int[][] {{8, 12, 10, 10}, {5, 15, 8, 12}}, false, 20261205L);
+    }
+
+    /**
+     * The same two groups with number attraction on 2 (the default set on 0..3: every number but
+     * the coarse points), a[g,2] = abar[2] + tau_a z[g] with z[g] ~ Normal(0, 1) (MODEL.md 4b and
+     * 5), non-centred on the independent side too, tau_a as its log.
+     */
+    @Test
+    void attractionHierarchyMatchesAnIndependentSampler() {
+        compareTwoGroups(new int[][] {{8, 10, 14, 8}, {5, 15, 8, 12}}, true, 20261207L);
+    }
+
+    private static void compareTwoGroups(int[][] counts, boolean attraction, long seed) {
+        double[] start = new double[attraction ? TWO_GROUP_DIMENSION + 4 : TWO_GROUP_DIMENSION];
         start[4] = -1;
         start[8] = -0.8;
         start[9] = 0;
         start[11] = 0.5;
         start[14] = -0.5;
-        double[][][] independent = independentDraws(theta -> twoGroupLogPosterior(theta, counts), start, 20261205L,
+        if (attraction) {
+            start[16] = Math.log(0.2);
+        }
+        double[][][] independent = independentDraws(theta -> twoGroupLogPosterior(theta, counts), start, seed,
                 IndependentPosteriorTest::twoGroupQuantities, IndependentPosteriorTest::spreadOfDeviations, 40_000, 50);
 
         byte[] category = new byte[total(counts)];
@@ -185,10 +203,16 @@ class IndependentPosteriorTest {
         }
         Survey survey = Survey.of(new Scale(0, 3), category, group, List.of("A", "B"), Covariates.none(),
                 Covariates.none(), null);
-        Draws engine = Fitter.fit(survey, ModelSpec.defaults().withStyleClasses(StyleClasses.coarse(null)),
-                new SamplerSettings(4, 1000, 8000, 20261205L, 2, 2), ProgressListener.NONE, new AtomicBoolean()).draws();
-        for (int p = 0; p < TWO_GROUP_NAMES.size(); p++) {
-            check(TWO_GROUP_NAMES.get(p), engine.chainsOf(engine.indexOf(TWO_GROUP_NAMES.get(p))), independent[p]);
+        ModelSpec spec = ModelSpec.defaults().withStyleClasses(StyleClasses.coarse(null))
+                .withAttraction(attraction ? NumberAttraction.besidesCoarsePoints() : NumberAttraction.none());
+        Draws engine = Fitter.fit(survey, spec, new SamplerSettings(4, 1000, 8000, seed, 2, 2), ProgressListener.NONE,
+                new AtomicBoolean()).draws();
+        List<String> names = new ArrayList<>(TWO_GROUP_NAMES);
+        if (attraction) {
+            names.addAll(List.of("attraction.2", "attraction_sd", "attraction.A.2", "attraction.B.2"));
+        }
+        for (int p = 0; p < names.size(); p++) {
+            check(names.get(p), engine.chainsOf(engine.indexOf(names.get(p))), independent[p]);
         }
     }
 
@@ -297,9 +321,19 @@ class IndependentPosteriorTest {
         double tauGamma = Math.exp(x[5]);
         double[] a = groupThresholds(x, 0);
         double[] b = groupThresholds(x, 1);
-        return new double[] {x[0], tauAlpha, x[0] + tauAlpha * x[2], x[0] + tauAlpha * x[3], x[4], tauGamma,
+        double[] q = {x[0], tauAlpha, x[0] + tauAlpha * x[2], x[0] + tauAlpha * x[3], x[4], tauGamma,
             x[4] + tauGamma * x[6], x[4] + tauGamma * x[7], x[8], x[9], -(x[8] + x[9]), Math.exp(x[10]), a[1], a[3],
             b[1], b[3]};
+        if (x.length == TWO_GROUP_DIMENSION) {
+            return q;
+        }
+        double tauA = Math.exp(x[16]);
+        double[] more = java.util.Arrays.copyOf(q, q.length + 4);
+        more[q.length] = x[15];
+        more[q.length + 1] = tauA;
+        more[q.length + 2] = x[15] + tauA * x[17];
+        more[q.length + 3] = x[15] + tauA * x[18];
+        return more;
     }
 
     /**
@@ -367,6 +401,12 @@ class IndependentPosteriorTest {
         double log = -muAlpha * muAlpha / 8 + x[1] - tauAlpha * tauAlpha / 2 - (x[2] * x[2] + x[3] * x[3]) / 2
                 - (muGamma + 1) * (muGamma + 1) / 2 + x[5] - tauGamma * tauGamma / 2 - (x[6] * x[6] + x[7] * x[7]) / 2
                 - (x[8] * x[8] + x[9] * x[9] + c3 * c3) / 18 + x[10] - tauD * tauD / (2 * 0.25);
+        boolean attraction = x.length > TWO_GROUP_DIMENSION;
+        if (attraction) {
+            // abar[2] ~ Normal(0, 0.5), tau_a ~ Half-Normal(0, 0.3) as its log, z[g] ~ Normal(0, 1)
+            double tauA = Math.exp(x[16]);
+            log += -x[15] * x[15] / (2 * 0.25) + x[16] - tauA * tauA / (2 * 0.09) - (x[17] * x[17] + x[18] * x[18]) / 2;
+        }
         for (int g = 0; g < 2; g++) {
             double[] c = groupThresholds(x, g);
             double e1 = x[11 + 2 * g];
@@ -387,12 +427,16 @@ class IndependentPosteriorTest {
             for (int k = 0; k < 4; k++) {
                 pi[k] = phi(c[k + 1] - eta) - phi(c[k] - eta);
             }
+            // MODEL.md 4b: the full-scale answer tilted by exp(a[g,2]) and renormalised
+            double tilt = attraction ? Math.exp(x[15] + Math.exp(x[16]) * x[17 + g]) : 1;
+            double normaliser = 1 + pi[2] * (tilt - 1);
             for (int j = 0; j < 4; j++) {
                 double coarse = 0;
                 for (int k = 0; k < 4; k++) {
                     coarse += pi[k] * ROUNDING_0_3[j][k];
                 }
-                log += counts[g][j] * Math.log((1 - q) * pi[j] + q * coarse);
+                double full = (j == 2 ? pi[j] * tilt : pi[j]) / normaliser;
+                log += counts[g][j] * Math.log((1 - q) * full + q * coarse);
             }
         }
         return log;
