@@ -9,6 +9,7 @@ import java.util.concurrent.atomic.AtomicBoolean;
 import java.util.function.BiConsumer;
 import java.util.function.Function;
 import java.util.function.ToDoubleFunction;
+import java.util.stream.IntStream;
 import org.apache.commons.math3.special.Erf;
 import org.junit.jupiter.api.Test;
 import org.rungs.models.ModelSpec;
@@ -499,15 +500,20 @@ class IndependentPosteriorTest {
         double[][] covariance = covarianceOf(run(logPosterior, start, cholesky(pilot), 100_000, 1, random, extra), d);
         double[][] factor = cholesky(scaled(covariance, 2.38 * 2.38 / d));
         int chains = 4;
-        double[][][] out = null;
+        // one stream per chain, split off in order, so the chains can run on threads and stay the same
+        SplittableRandom[] streams = new SplittableRandom[chains];
         for (int chain = 0; chain < chains; chain++) {
-            double[][] draws = run(logPosterior, start, factor, kept * thin + 20_000, thin, random, extra);
+            streams[chain] = random.split();
+        }
+        double[][][] draws = new double[chains][][];
+        IntStream.range(0, chains).parallel().forEach(chain ->
+                draws[chain] = run(logPosterior, start, factor, kept * thin + 20_000, thin, streams[chain], extra));
+        int quantities = report.apply(start).length;
+        double[][][] out = new double[quantities][chains][kept];
+        for (int chain = 0; chain < chains; chain++) {
             for (int t = 0; t < kept; t++) {
-                double[] q = report.apply(draws[draws.length - kept + t]);
-                if (out == null) {
-                    out = new double[q.length][chains][kept];
-                }
-                for (int p = 0; p < q.length; p++) {
+                double[] q = report.apply(draws[chain][draws[chain].length - kept + t]);
+                for (int p = 0; p < quantities; p++) {
                     out[p][chain][t] = q[p];
                 }
             }
