@@ -69,8 +69,7 @@ class IndependentPosteriorTest {
      * One group on 0..4 with a numeric level covariate and a numeric style covariate, 24
      * respondents (drawn once here, seeded): MODEL.md 1's internal scale (centred, divided by the
      * sample sd with denominator n - 1) computed in the test from the raw columns, beta and delta
-     * Normal(0, 1) on it (MODEL.md 5). Largest |z| 1.2 as written; 65 with the style covariate's
-     * sign flipped in the test's density. (The sd with denominator n instead, 2% on beta here, is
+     * Normal(0, 1) on it (MODEL.md 5). (The sd with denominator n instead, 2% on beta here, is
      * below this test's resolution: |z| 2.9.)
      */
     @Test
