@@ -181,7 +181,8 @@ public final class FitJob {
             out.print(AttractionWords.format(profile, survey.groupLabels()));
         }
         if (!converged && !result.interrupted()) {
-            out.println(LongerChains.advice(summaries, request.settings().chains(), request.settings().thin()));
+            out.println(LongerChains.advice(summaries, derivedSummaries, request.settings().chains(),
+                    request.settings().thin()));
         }
         out.println("Files written to " + folder.dir().toAbsolutePath() + ": draws.csv, summary.csv"
                 + (attraction ? ", attraction.csv" : "") + ", derived_draws.csv, "

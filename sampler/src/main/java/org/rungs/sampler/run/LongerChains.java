@@ -1,23 +1,31 @@
 package org.rungs.sampler.run;
 
+import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
 import org.rungs.posteriors.ParameterSummary;
 
 /**
  * The advice a fit that has not converged ends with: how many more iterations the slowest
- * parameter needs. For a parameter that mixes slowly the effective sample size grows at most in
- * proportion to the iterations after warm-up (common practice, no source), so the ESS needed
- * (MODEL.md 7: 100 per chain) over the smallest one reached is a lower bound on the factor: a
- * short slow chain also overstates its ESS (on the demo, 10 times the iterations raised the
- * smallest ESS from 30 to 134). --thin keeps the files and summaries the size of --draws while
- * the iterations grow.
+ * parameter or derived quantity needs. For one that mixes slowly the effective sample size grows
+ * at most in proportion to the iterations after warm-up (common practice, no source), so the ESS
+ * needed (MODEL.md 7: 100 per chain) over the smallest one reached is a lower bound on the factor:
+ * a short slow chain also overstates its ESS (on the demo, 10 times the iterations raised the
+ * smallest ESS from 30 to 134). --thin keeps the files and summaries the size of --draws while the
+ * iterations grow.
  */
 final class LongerChains {
     private LongerChains() {
     }
 
-    /** The advice for a fit with these parameter summaries, chains and thinning. */
+    /** The advice for a fit with these summaries of parameters and derived quantities, chains and thinning. */
+    static String advice(List<ParameterSummary> parameters, List<ParameterSummary> derived, int chains, int thin) {
+        List<ParameterSummary> all = new ArrayList<>(parameters);
+        all.addAll(derived);
+        return advice(all, chains, thin);
+    }
+
+    /** The advice for a fit with these summaries, chains and thinning. */
     static String advice(List<ParameterSummary> summaries, int chains, int thin) {
         double smallest = Double.POSITIVE_INFINITY;
         String slowest = null;

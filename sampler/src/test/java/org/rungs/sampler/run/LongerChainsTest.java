@@ -23,6 +23,17 @@ class LongerChainsTest {
         assertTrue(LongerChains.advice(s, 4, 3).contains("--thin 15 "), LongerChains.advice(s, 4, 3));
     }
 
+    /** The demo on seed 5: every parameter fine, a derived share at bulk ESS 357. */
+    @Test
+    void aSlowDerivedQuantityCountsToo() {
+        List<ParameterSummary> parameters = List.of(summary("threshold.1", 1.004, 640, 700));
+        List<ParameterSummary> derived = List.of(summary("coarse_share.Vellanmoor", 1.009, 357, 508),
+                summary("intended_share.Tarnwhistle.4", 1.011, 858, 953));
+        String text = LongerChains.advice(parameters, derived, 4, 2);
+        // 400 / 357 = 1.12 times 2: --thin 3
+        assertTrue(text.contains("is 357 (coarse_share.Vellanmoor) where 400 are needed") && text.contains("--thin 3 "), text);
+    }
+
     @Test
     void rhatAloneAsksForTwiceTheIterations() {
         String text = LongerChains.advice(List.of(summary("a", 1.03, 900, 800)), 4, 2);
