@@ -24,6 +24,15 @@ final class CoefficientSection {
                 .append("and group indicators. Corrected: the average marginal effect on the intended rating, with its 90% interval. ")
                 .append("Plain ordered probit: the same effect from a model without the response styles. ")
                 .append("Bias: naive minus corrected.</p>\n");
+        String plainVerdict = fit.text("comparison_fit.verdict", "");
+        if (!plainVerdict.isEmpty()) {
+            // run.json records the plain fit's own verdict; its column means little if it has not converged
+            out.append("<p class=\"note\">The plain ordered probit's chains (")
+                    .append(Html.number(fit.number("comparison_fit.chains"), 0)).append(" of ")
+                    .append(Html.number(fit.number("comparison_fit.warmup"), 0)).append(" warm-up and ")
+                    .append(Html.number(fit.number("comparison_fit.draws"), 0)).append(" kept iterations): ")
+                    .append(Html.escape(plainVerdict)).append("</p>\n");
+        }
         Html.tableHead(out, "num", List.of("covariate", "kind", "naive least squares", "corrected effect [90%]",
                 "plain ordered probit [90%]", "bias of naive"));
         for (int r = 0; r < table.size(); r++) {

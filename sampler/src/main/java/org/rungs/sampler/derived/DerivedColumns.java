@@ -40,24 +40,39 @@ final class DerivedColumns {
     final int[] amePerUnit;
     final List<String> names;
 
+    /** True when only the average marginal effects are columns (every other position is -1). */
+    final boolean effectsOnly;
+
     DerivedColumns(List<String> groupLabels, Scale scale, Covariates level, boolean coarse, boolean attraction,
             List<DerivedResult.StyleLevel> levels) {
+        this(groupLabels, scale, level, coarse, attraction, levels, false);
+    }
+
+    /** The average marginal effects alone: what the comparison with a plain ordered probit reads. */
+    static DerivedColumns effects(List<String> groupLabels, Scale scale, Covariates level) {
+        return new DerivedColumns(groupLabels, scale, level, false, false, List.of(), true);
+    }
+
+    private DerivedColumns(List<String> groupLabels, Scale scale, Covariates level, boolean coarse, boolean attraction,
+            List<DerivedResult.StyleLevel> levels, boolean effectsOnly) {
+        this.effectsOnly = effectsOnly;
         groups = groupLabels.size();
         categories = scale.categories();
         List<String> n = new ArrayList<>();
-        intendedMean = perGroup(n, "intended_mean", groupLabels);
-        harmonisedMean = perGroup(n, "harmonised_mean", groupLabels);
-        meanBias = perGroup(n, "mean_bias", groupLabels);
-        attractedMean = attraction ? perGroup(n, "attracted_mean", groupLabels) : -1;
-        meanBiasAttraction = attraction ? perGroup(n, "mean_bias_attraction", groupLabels) : -1;
-        meanBiasRounding = attraction ? perGroup(n, "mean_bias_rounding", groupLabels) : -1;
-        coarseShare = coarse ? perGroup(n, "coarse_share", groupLabels) : -1;
-        rankIntended = perGroup(n, "rank_intended", groupLabels);
-        rankHarmonised = perGroup(n, "rank_harmonised", groupLabels);
-        intendedShare = perRating(n, "intended_share", groupLabels, scale);
-        harmonisedShare = perRating(n, "harmonised_share", groupLabels, scale);
-        attractedShare = attraction ? perRating(n, "attracted_share", groupLabels, scale) : -1;
-        replicated = perRating(n, "replicated", groupLabels, scale);
+        boolean all = !effectsOnly;
+        intendedMean = all ? perGroup(n, "intended_mean", groupLabels) : -1;
+        harmonisedMean = all ? perGroup(n, "harmonised_mean", groupLabels) : -1;
+        meanBias = all ? perGroup(n, "mean_bias", groupLabels) : -1;
+        attractedMean = all && attraction ? perGroup(n, "attracted_mean", groupLabels) : -1;
+        meanBiasAttraction = all && attraction ? perGroup(n, "mean_bias_attraction", groupLabels) : -1;
+        meanBiasRounding = all && attraction ? perGroup(n, "mean_bias_rounding", groupLabels) : -1;
+        coarseShare = all && coarse ? perGroup(n, "coarse_share", groupLabels) : -1;
+        rankIntended = all ? perGroup(n, "rank_intended", groupLabels) : -1;
+        rankHarmonised = all ? perGroup(n, "rank_harmonised", groupLabels) : -1;
+        intendedShare = all ? perRating(n, "intended_share", groupLabels, scale) : -1;
+        harmonisedShare = all ? perRating(n, "harmonised_share", groupLabels, scale) : -1;
+        attractedShare = all && attraction ? perRating(n, "attracted_share", groupLabels, scale) : -1;
+        replicated = all ? perRating(n, "replicated", groupLabels, scale) : -1;
         coarseShareBy = n.size();
         for (DerivedResult.StyleLevel l : levels) {
             n.add(coarseShareByName(l));

@@ -60,16 +60,7 @@ public final class DerivedQuantities {
      */
     public static DerivedResult compute(Survey survey, Draws draws, ParameterLayout layout, ModelSpec spec,
             int maxDraws, long seed, int threads) {
-        if (maxDraws < 1 || threads < 1) {
-            throw new IllegalArgumentException("maxDraws and threads must be at least 1, got " + maxDraws + " and " + threads);
-        }
-        if (draws.iterations() == 0) {
-            throw new IllegalArgumentException("no draws: every chain has 0 iterations");
-        }
-        if (!draws.names().subList(0, Math.min(layout.size(), draws.parameterCount())).equals(layout.names())) {
-            throw new IllegalArgumentException("the draws' columns do not follow the parameter layout of this survey and model");
-        }
-        int[] used = usedIterations(draws.chains(), draws.iterations(), maxDraws);
+        int[] used = usedIterations(draws, layout, maxDraws, threads);
         int groups = survey.groupCount();
         int m = survey.scale().categories();
         int lowest = survey.scale().lowest();
@@ -78,12 +69,11 @@ public final class DerivedQuantities {
         double[] weight = survey.weight();
         int[][] counts = new int[groups][m];
         double[][] shares = new double[groups][m];
-        double[] groupWeight = new double[groups];
+        double[] groupWeight = groupWeights(survey);
         for (int i = 0; i < survey.size(); i++) {
             double w = weight == null ? 1 : weight[i];
             counts[group[i]][category[i]]++;
             shares[group[i]][category[i]] += w;
-            groupWeight[group[i]] += w;
         }
         double[] reportedMeans = new double[groups];
         for (int g = 0; g < groups; g++) {
@@ -103,15 +93,57 @@ public final class DerivedQuantities {
         boolean attraction = layout.attractionSet().length > 0;
         DerivedColumns columns = new DerivedColumns(survey.groupLabels(), survey.scale(), survey.level(), coarse,
                 attraction, partition.levels);
-        Draws derived = new Draws(columns.names, draws.chains(), used.length);
+        Draws derived = evaluate(survey, draws, layout, columns, channel, partition, groupWeight, reportedMeans, used,
+                seed, threads);
+        return new DerivedResult(derived, survey.groupLabels(), survey.scale(), used, counts, shares, reportedMeans,
+                coarse, attraction, partition.levels);
+    }
 
+    /**
+     * The average marginal effects alone ({@code ame.<covariate>} and {@code .per_unit}, as in
+     * {@link #compute}) of the same draws {@code compute} would use: what the comparison of effects
+     * reads from the plain ordered probit, at a fraction of the cost of every derived quantity.
+     */
+    public static Draws effects(Survey survey, Draws draws, ParameterLayout layout, int maxDraws, int threads) {
+        int[] used = usedIterations(draws, layout, maxDraws, threads);
+        DerivedColumns columns = DerivedColumns.effects(survey.groupLabels(), survey.scale(), survey.level());
+        // no random numbers are drawn for the effects, so the seed is immaterial
+        return evaluate(survey, draws, layout, columns, null, StylePartition.empty(), groupWeights(survey),
+                new double[survey.groupCount()], used, 0, threads);
+    }
+
+    private static int[] usedIterations(Draws draws, ParameterLayout layout, int maxDraws, int threads) {
+        if (maxDraws < 1 || threads < 1) {
+            throw new IllegalArgumentException("maxDraws and threads must be at least 1, got " + maxDraws + " and " + threads);
+        }
+        if (draws.iterations() == 0) {
+            throw new IllegalArgumentException("no draws: every chain has 0 iterations");
+        }
+        if (!draws.names().subList(0, Math.min(layout.size(), draws.parameterCount())).equals(layout.names())) {
+            throw new IllegalArgumentException("the draws' columns do not follow the parameter layout of this survey and model");
+        }
+        return usedIterations(draws.chains(), draws.iterations(), maxDraws);
+    }
+
+    private static double[] groupWeights(Survey survey) {
+        double[] groupWeight = new double[survey.groupCount()];
+        double[] weight = survey.weight();
+        int[] group = survey.group();
+        for (int i = 0; i < survey.size(); i++) {
+            groupWeight[group[i]] += weight == null ? 1 : weight[i];
+        }
+        return groupWeight;
+    }
+
+    /** Every used draw of every chain evaluated into {@code columns}, shared out over {@code threads} workers. */
+    private static Draws evaluate(Survey survey, Draws draws, ParameterLayout layout, DerivedColumns columns,
+            RoundingChannel channel, StylePartition partition, double[] groupWeight, double[] reportedMeans, int[] used,
+            long seed, int threads) {
+        Draws derived = new Draws(columns.names, draws.chains(), used.length);
         int total = draws.chains() * used.length;
-        int workers = Math.min(threads, total);
         AtomicInteger next = new AtomicInteger();
-        RoundingChannel rounding = channel;
-        StylePartition levels = partition;
         Runnable worker = () -> {
-            DrawEvaluator evaluator = new DrawEvaluator(survey, layout, columns, rounding, levels, groupWeight,
+            DrawEvaluator evaluator = new DrawEvaluator(survey, layout, columns, channel, partition, groupWeight,
                     reportedMeans);
             double[] row = new double[columns.names.size()];
             for (int d = next.getAndIncrement(); d < total; d = next.getAndIncrement()) {
@@ -122,9 +154,8 @@ public final class DerivedQuantities {
                 derived.putRow(chain, u, row);
             }
         };
-        run(worker, workers);
-        return new DerivedResult(derived, survey.groupLabels(), survey.scale(), used, counts, shares, reportedMeans,
-                coarse, attraction, partition.levels);
+        run(worker, Math.min(threads, total));
+        return derived;
     }
 
     /** groups.csv: one row per group with the means, bias, coarse share and ranks; see {@link DerivedTables}. */

@@ -72,6 +72,8 @@ final class DrawEvaluator {
     private final double[] coarseSum;
     private final double[] slotSum;
     private final double[] changeSum;
+    /** Sum over respondents of w_i dE[k]/deta_i, for the numeric covariates' effects. */
+    private double slopeSum;
     private final double[] intendedMeans;
     private final double[] harmonisedMeans;
 
@@ -182,27 +184,31 @@ final class DrawEvaluator {
     void evaluate(Draws draws, int chain, int iteration, UniformRandomProvider rng, double[] row) {
         read(draws, chain, iteration);
         linearPredictors();
+        Arrays.fill(changeSum, 0);
+        slopeSum = 0;
+        int m = categories;
+        if (columns.effectsOnly) {
+            for (int i = 0; i < size; i++) {
+                int base = group[i] * (m + 1);
+                ownDistribution(base, eta[i]);
+                addEffects(i, base, weight == null ? 1 : weight[i]);
+            }
+            writeEffects(row);
+            return;
+        }
         Arrays.fill(intendedSum, 0);
         Arrays.fill(harmonisedSum, 0);
         Arrays.fill(attractedSum, 0);
         Arrays.fill(replicated, 0);
         Arrays.fill(coarseSum, 0);
         Arrays.fill(slotSum, 0);
-        Arrays.fill(changeSum, 0);
-        double slopeSum = 0;
-        int m = categories;
         for (int i = 0; i < size; i++) {
             int g = group[i];
             double w = weight == null ? 1 : weight[i];
             double e = eta[i];
             int base = g * (m + 1);
             int cell = g * m;
-            // MODEL.md 3: pi[g,k](eta) = Phi(c[g,k] - eta) - Phi(c[g,k-1] - eta); differences of
-            // Phi are exact to a few eps in absolute terms, which is what a share needs
-            for (int t = 1; t < m; t++) {
-                own[t] = anyNumeric ? StandardNormal.cdf(thresholds[base + t] - e, ownDensity, t)
-                        : StandardNormal.cdf(thresholds[base + t] - e);
-            }
+            ownDistribution(base, e);
             for (int k = 0; k < m; k++) {
                 intendedSum[cell + k] += w * (own[k + 1] - own[k]);
             }
@@ -227,37 +233,7 @@ final class DrawEvaluator {
                     attractedSum[cell + k] += w * tilted[k] / normaliser;
                 }
             }
-            if (anyNumeric) {
-                // dE[k]/deta = sum_k phi(c[g,k] - eta) (MODEL.md 6)
-                double slope = 0;
-                for (int t = 1; t < m; t++) {
-                    slope += ownDensity[t];
-                }
-                slopeSum += w * slope;
-            }
-            if (levelFactors.length > 0) {
-                // E[k | eta_i] at the respondent's own levels, from the Phi values above
-                double expectedOwn = lowest + m - 1;
-                for (int t = 1; t < m; t++) {
-                    expectedOwn -= own[t];
-                }
-                for (int[] factor : levelFactors) {
-                    // the factor's contrast: each level against the reference, other covariates as observed
-                    double atReference = e;
-                    int ownLevel = -1;
-                    for (int j : factor) {
-                        if (levelColumns[j][i] == 1) {
-                            atReference -= beta[j];
-                            ownLevel = j;
-                        }
-                    }
-                    double expectedAtReference = ownLevel < 0 ? expectedOwn : expectedRating(base, atReference);
-                    for (int j : factor) {
-                        double expectedAtLevel = j == ownLevel ? expectedOwn : expectedRating(base, atReference + beta[j]);
-                        changeSum[j] += w * (expectedAtLevel - expectedAtReference);
-                    }
-                }
-            }
+            addEffects(i, base, w);
             double q = 0;
             if (coarse) {
                 q = StandardNormal.cdf(gamma[g] + styleIndex[i]);
@@ -290,7 +266,56 @@ final class DrawEvaluator {
             }
             replicated[cell + k]++;
         }
-        write(row, slopeSum);
+        write(row);
+    }
+
+    /**
+     * own[t] = Phi(c[g,t] - eta) for the group whose thresholds start at {@code base}, with the
+     * densities beside them when a numeric covariate needs the slope. MODEL.md 3: pi[g,k](eta) =
+     * Phi(c[g,k] - eta) - Phi(c[g,k-1] - eta); differences of Phi are exact to a few eps in
+     * absolute terms, which is what a share needs.
+     */
+    private void ownDistribution(int base, double e) {
+        for (int t = 1; t < categories; t++) {
+            own[t] = anyNumeric ? StandardNormal.cdf(thresholds[base + t] - e, ownDensity, t)
+                    : StandardNormal.cdf(thresholds[base + t] - e);
+        }
+    }
+
+    /** Respondent i's terms of the average marginal effects, from {@link #ownDistribution}'s values. */
+    private void addEffects(int i, int base, double w) {
+        int m = categories;
+        if (anyNumeric) {
+            // dE[k]/deta = sum_k phi(c[g,k] - eta) (MODEL.md 6)
+            double slope = 0;
+            for (int t = 1; t < m; t++) {
+                slope += ownDensity[t];
+            }
+            slopeSum += w * slope;
+        }
+        if (levelFactors.length > 0) {
+            // E[k | eta_i] at the respondent's own levels, from the Phi values above
+            double expectedOwn = lowest + m - 1;
+            for (int t = 1; t < m; t++) {
+                expectedOwn -= own[t];
+            }
+            for (int[] factor : levelFactors) {
+                // the factor's contrast: each level against the reference, other covariates as observed
+                double atReference = eta[i];
+                int ownLevel = -1;
+                for (int j : factor) {
+                    if (levelColumns[j][i] == 1) {
+                        atReference -= beta[j];
+                        ownLevel = j;
+                    }
+                }
+                double expectedAtReference = ownLevel < 0 ? expectedOwn : expectedRating(base, atReference);
+                for (int j : factor) {
+                    double expectedAtLevel = j == ownLevel ? expectedOwn : expectedRating(base, atReference + beta[j]);
+                    changeSum[j] += w * (expectedAtLevel - expectedAtReference);
+                }
+            }
+        }
     }
 
     /** E[k | eta] = L + sum_{t=1}^{M-1} P(y* > c[g,t]) for the group whose thresholds start at {@code base}. */
@@ -364,7 +389,7 @@ final class DrawEvaluator {
         }
     }
 
-    private void write(double[] row, double slopeSum) {
+    private void write(double[] row) {
         int m = categories;
         double[] harmonisedSource = byGroup ? harmonisedSum : intendedSum;
         for (int g = 0; g < groups; g++) {
@@ -407,6 +432,10 @@ final class DrawEvaluator {
         for (int s = 0; s < slotSum.length; s++) {
             row[columns.coarseShareBy + s] = slotSum[s] / partition.slotWeight[s];
         }
+        writeEffects(row);
+    }
+
+    private void writeEffects(double[] row) {
         for (int j = 0; j < beta.length; j++) {
             if (numeric[j]) {
                 double effect = beta[j] * slopeSum / totalWeight;

@@ -25,7 +25,8 @@ final class CoefficientTable {
 
     /**
      * @param plain summaries of the plain ordered probit's derived quantities, or null when the
-     *              fitted model is itself the plain one
+     *              fitted model is itself the plain one; an effect missing from them (a comparison
+     *              fit interrupted before it kept a draw) leaves its three cells empty
      */
     static void write(Covariates level, List<ParameterSummary> derived, double[] naive, List<ParameterSummary> plain,
                       Path file) throws IOException {
@@ -56,6 +57,9 @@ final class CoefficientTable {
     }
 
     private static String triple(ParameterSummary s) {
+        if (s == null) {
+            return ",,";
+        }
         return number(s.mean()) + "," + number(s.q05()) + "," + number(s.q95());
     }
 

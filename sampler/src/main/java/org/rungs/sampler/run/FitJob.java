@@ -3,6 +3,7 @@ package org.rungs.sampler.run;
 import java.io.PrintStream;
 import java.nio.file.Path;
 import java.time.Instant;
+import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.LinkedHashMap;
 import java.util.List;
@@ -22,6 +23,7 @@ import org.rungs.models.survey.Survey;
 import org.rungs.models.survey.SurveyInputException;
 import org.rungs.models.survey.SurveyReader;
 import org.rungs.posteriors.ConvergenceVerdict;
+import org.rungs.posteriors.Draws;
 import org.rungs.posteriors.DrawsCsv;
 import org.rungs.posteriors.ParameterSummary;
 import org.rungs.posteriors.SummaryTable;
@@ -30,6 +32,7 @@ import org.rungs.sampler.Checkpoints;
 import org.rungs.sampler.ConsoleProgress;
 import org.rungs.sampler.FitResult;
 import org.rungs.sampler.Fitter;
+import org.rungs.sampler.SamplerSettings;
 
 /**
  * A fit from a survey file to an output folder: read, fit, summarise, write {@code draws.csv},
@@ -145,17 +148,32 @@ public final class FitJob {
 
         List<ParameterSummary> derivedSummaries = List.of();
         DerivedResult derived = null;
+        Comparison comparison = null;
         if (result.draws().iterations() >= MIN_DERIVED_ITERATIONS) {
             derived = DerivedQuantities.compute(survey, result.draws(), result.layout(), request.model(),
                     DERIVED_DRAWS, request.settings().seed(), request.settings().threads());
             derivedSummaries = Summaries.of(derived.draws());
-            writeDerived(request, survey, folder, derived, derivedSummaries, err, stop);
+            comparison = writeDerived(request, survey, folder, derived, derivedSummaries, err, stop);
         }
         record.put("input", input(request, survey, exclusions, sha256, readSeconds));
         record.put("options", request.options());
         record.put("model", model(request, survey, result.layout()));
         record.put("sampler", sampler(result));
         record.put("derived_draws", derived == null ? 0 : derived.draws().iterations() * derived.draws().chains());
+        if (comparison != null) {
+            String line = comparison.verdict().line("quantities");
+            Map<String, Object> c = new LinkedHashMap<>();
+            c.put("chains", comparison.settings().chains());
+            c.put("warmup", comparison.settings().warmup());
+            c.put("draws", comparison.settings().draws());
+            c.put("verdict", line);
+            record.put("comparison_fit", c);
+            if (!comparison.verdict().readable()) {
+                String warning = "the plain ordered probit of coefficients.csv's comparison: " + line;
+                record.warn(warning);
+                err.println("warning: " + warning);
+            }
+        }
         if (derivedSummaries.stream().anyMatch(ParameterSummary::flagged)) {
             record.warn("derived quantities: " + SummaryTable.verdict(derivedSummaries));
         }
@@ -195,9 +213,17 @@ public final class FitJob {
         return new FitOutcome(survey, result, summaries, verdict, record.warnings(), derivedSummaries);
     }
 
-    /** Writes the corrected quantities, and the comparison of effects (which may fit the plain model). */
-    private static void writeDerived(FitRequest request, Survey survey, OutputFolder folder, DerivedResult derived,
-                                     List<ParameterSummary> derivedSummaries, PrintStream err, AtomicBoolean stop) {
+    /** The plain ordered probit fitted for the comparison of effects: its settings and verdict. */
+    private record Comparison(SamplerSettings settings, ConvergenceVerdict verdict) {
+    }
+
+    /**
+     * Writes the corrected quantities, and the comparison of effects (which may fit the plain model).
+     *
+     * @return the plain fit's settings and verdict, or null when none was made or it kept too few draws
+     */
+    private static Comparison writeDerived(FitRequest request, Survey survey, OutputFolder folder, DerivedResult derived,
+                                           List<ParameterSummary> derivedSummaries, PrintStream err, AtomicBoolean stop) {
         folder.write("derived_draws.csv", tmp -> DrawsCsv.write(derived.draws(), tmp));
         folder.write("derived_summary.csv", tmp -> SummaryTable.writeCsv(derivedSummaries, tmp));
         folder.write("groups.csv", tmp -> DerivedQuantities.writeGroups(derived, derivedSummaries, tmp));
@@ -206,24 +232,34 @@ public final class FitJob {
             folder.write("coarse_shares.csv", tmp -> DerivedQuantities.writeCoarseShares(derived, derivedSummaries, tmp));
         }
         List<ParameterSummary> plain = null;
+        Comparison comparison = null;
         boolean attraction = request.model().attraction().on();
         if ((request.model().styleClasses().coarse() || attraction) && survey.level().count() > 0 && !stop.get()) {
             err.println("rungs: fitting the plain ordered probit (style classes " + (attraction ? "and attraction " : "")
                     + "off) for the comparison of effects...");
             ModelSpec plainSpec = request.model().withStyleClasses(StyleClasses.none()).withAttraction(NumberAttraction.none());
             // the plain model mixes many times faster than the one it is compared with (bulk ESS of
-            // its coefficients near the number of draws on the demo), so it runs without thinning
-            FitResult plainFit = Fitter.fit(survey, plainSpec, request.settings().everyIteration(),
-                    new ConsoleProgress(err, request.settings().chains(), 2.0), stop);
-            DerivedResult plainDerived = DerivedQuantities.compute(survey, plainFit.draws(), plainFit.layout(), plainSpec,
-                    DERIVED_DRAWS, request.settings().seed(), request.settings().threads());
-            plain = Summaries.of(plainDerived.draws());
+            // its effects near the number of draws on the demo), so it runs without thinning
+            SamplerSettings settings = request.settings().everyIteration();
+            FitResult plainFit = Fitter.fit(survey, plainSpec, settings,
+                    new ConsoleProgress(err, settings.chains(), 2.0), stop);
+            if (plainFit.draws().iterations() >= MIN_DERIVED_ITERATIONS) {
+                Draws effects = DerivedQuantities.effects(survey, plainFit.draws(), plainFit.layout(), DERIVED_DRAWS,
+                        settings.threads());
+                plain = Summaries.of(effects);
+                List<ParameterSummary> checked = new ArrayList<>(Summaries.of(plainFit.draws()));
+                checked.addAll(plain);
+                comparison = new Comparison(settings, ConvergenceVerdict.of(checked));
+            } else {
+                plain = List.of();
+            }
         }
         if (survey.level().count() > 0) {
             double[] naive = NaiveRegression.coefficients(survey);
             List<ParameterSummary> plainSummaries = plain;
             folder.write("coefficients.csv", tmp -> CoefficientTable.write(survey.level(), derivedSummaries, naive, plainSummaries, tmp));
         }
+        return comparison;
     }
 
     private static Map<String, Object> input(FitRequest request, Survey survey, Exclusions exclusions, String sha256,

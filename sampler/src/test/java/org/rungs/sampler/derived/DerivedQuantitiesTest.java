@@ -483,6 +483,30 @@ class DerivedQuantitiesTest {
         assertEquals(alone.draws().get(mean, 0, 0), one.draws().get(mean, 1, 3), 0);
     }
 
+    @Test
+    void effectsAloneAreTheSameNumbersAsAmongEveryDerivedQuantity() {
+        for (double[] weight : Arrays.asList(null, WEIGHT)) {
+            Survey survey = survey(weight);
+            ModelSpec spec = coarseModel();
+            ParameterLayout layout = ParameterLayout.of(survey, spec);
+            Draws fit = varied(layout, 2, 40);
+            Draws all = DerivedQuantities.compute(survey, fit, layout, spec, 30, 5, 1).draws();
+            for (int threads : new int[] {1, 2}) {
+                Draws effects = DerivedQuantities.effects(survey, fit, layout, 30, threads);
+                // age is numeric (per internal unit and per year), education a factor of two indicators
+                assertEquals(List.of("ame.age", "ame.age.per_unit", "ame.education=primary", "ame.education=tertiary"),
+                        effects.names());
+                assertEquals(all.iterations(), effects.iterations());
+                for (String name : effects.names()) {
+                    for (int c = 0; c < 2; c++) {
+                        assertArrayEquals(all.chainsOf(all.indexOf(name))[c], effects.chainsOf(effects.indexOf(name))[c], 0,
+                                name + ", chain " + c + ", weights " + (weight != null));
+                    }
+                }
+            }
+        }
+    }
+
     /** Chains of draws moving around FIRST: alpha, beta, gamma and delta shifted, thresholds shifted in order. */
     private static Draws varied(ParameterLayout layout, int chains, int iterations) {
         Random random = new Random(3);

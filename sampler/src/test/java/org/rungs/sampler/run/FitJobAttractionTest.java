@@ -82,6 +82,13 @@ class FitJobAttractionTest {
         }
         assertTrue(printed.contains("summary.csv, attraction.csv, derived_draws.csv"), printed);
         assertTrue(printed.contains("plain ordered probit (style classes and attraction off)"), printed);
+        // the comparison fit's own chains are judged too: 2 x 10 draws cannot reach an ESS of 100 per chain
+        String compact = run.replaceAll("\\s", "");
+        assertTrue(compact.contains("\"comparison_fit\":{\"chains\":2,\"warmup\":10,\"draws\":10,\"verdict\":\"Notconverged:"),
+                run);
+        assertTrue(printed.contains("warning: the plain ordered probit of coefficients.csv's comparison: Not converged: "),
+                printed);
+        assertTrue(compact.contains("\"theplainorderedprobitofcoefficients.csv'scomparison:Notconverged:"), run);
     }
 
     /** The warning names the largest share of any chain, and there is none when no chain skipped. */
@@ -102,7 +109,8 @@ class FitJobAttractionTest {
         assertFalse(Files.readString(out.resolve("distributions.csv")).contains("attract"));
         String run = Files.readString(out.resolve("run.json"));
         assertTrue(run.contains("\"attraction\": \"none\""), run);
-        assertFalse(run.contains("attraction_set") || run.contains("attraction_mean") || run.contains("latent_steps_skipped"), run);
+        assertFalse(run.contains("attraction_set") || run.contains("attraction_mean") || run.contains("latent_steps_skipped")
+                || run.contains("comparison_fit"), run);
         assertFalse(printed.contains("liked or avoided") || printed.contains("attraction.csv")
                 || printed.contains("plain ordered probit"), printed);
     }
