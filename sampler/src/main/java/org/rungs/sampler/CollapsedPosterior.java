@@ -118,6 +118,13 @@ final class CollapsedPosterior {
     private int sampled = 1;
     /** False while {@link #gradientOnly} runs: the probability paths then skip each respondent's logarithm. */
     private boolean densityWanted = true;
+    /** True while {@link #force} runs: under attraction the normaliser's part then comes from {@link #grid}. */
+    private boolean onGrid;
+    /** Under attraction, the tabulated normaliser of one group at a time; null otherwise. */
+    private final NormaliserGrid grid;
+    /** Per group and level covariate, the smallest and largest value among the group's respondents (for the grid's range). */
+    private final double[] levelLow;
+    private final double[] levelHigh;
 
     CollapsedPosterior(ChainState state, Priors priors) {
         this.state = state;
@@ -228,6 +235,19 @@ final class CollapsedPosterior {
         offset[0] = Double.NEGATIVE_INFINITY;
         offset[m] = Double.POSITIVE_INFINITY;
         probability = new double[m];
+        grid = attracted.length > 0 ? new NormaliserGrid(m, attracted) : null;
+        levelLow = new double[groups * levelCount];
+        levelHigh = new double[groups * levelCount];
+        java.util.Arrays.fill(levelLow, Double.POSITIVE_INFINITY);
+        java.util.Arrays.fill(levelHigh, Double.NEGATIVE_INFINITY);
+        for (int p = 0; p < levelCount; p++) {
+            double[] x = state.level.columns[p];
+            for (int i = 0; i < state.size; i++) {
+                int cell = state.group[i] * levelCount + p;
+                levelLow[cell] = Math.min(levelLow[cell], x[i]);
+                levelHigh[cell] = Math.max(levelHigh[cell], x[i]);
+            }
+        }
     }
 
     int dimension() {
@@ -447,6 +467,30 @@ final class CollapsedPosterior {
         }
     }
 
+    /** True when {@link #force} approximates the gradient (under attraction); else it is {@link #gradientOnly}. */
+    boolean approximatesForce() {
+        return grid != null;
+    }
+
+    /**
+     * The leapfrog force at theta: under attraction, the gradient with the normaliser's part
+     * (MODEL.md 4b) read from a grid of latent levels ({@link NormaliserGrid}), a fixed function
+     * of theta within about 1e-7 of the gradient; otherwise {@link #gradientOnly}. The value
+     * returned is minus infinity or NaN where the log density is, and otherwise not the log
+     * density. The caller must judge its trajectories with {@link #logDensity}.
+     */
+    double force(double[] theta, double[] gradient) {
+        if (grid == null) {
+            return gradientOnly(theta, gradient);
+        }
+        onGrid = true;
+        try {
+            return gradientOnly(theta, gradient);
+        } finally {
+            onGrid = false;
+        }
+    }
+
     /** Fills the model-coordinate arrays from theta; false if some group's thresholds are not increasing. */
     private boolean unpack(double[] theta) {
         int stride = m + 1;
@@ -585,12 +629,21 @@ final class CollapsedPosterior {
         double[][] x = s.level.columns;
         double[][] w = s.style == null ? null : s.style.columns;
         boolean attractionOn = attracted.length > 0;
+        boolean gridPass = onGrid && grad && sampled == 1;
+        int gridGroup = -1;
         double total = 0;
         lastZeta = Double.NaN;
         for (int i = 0; i < s.size; i += sampled) {
             int g = group[i];
             int r = category[i];
             int base = g * stride;
+            if (gridPass && g != gridGroup) {
+                if (gridGroup >= 0) {
+                    grid.flush(gradRows, gridGroup * stride, gradAttraction, gridGroup * m);
+                }
+                buildGrid(g);
+                gridGroup = g;
+            }
             double eta = alpha[g];
             for (int p = 0; p < levelCount; p++) {
                 eta += x[p][i] * beta[p];
@@ -602,7 +655,8 @@ final class CollapsedPosterior {
                     zeta += w[q][i] * delta[q];
                 }
             }
-            double fast = attractionOn ? attracted(i, g, r, base, eta, zeta, grad) : plain(i, g, r, base, eta, zeta, grad);
+            double fast = gridPass ? attractedOnGrid(i, g, r, base, eta, zeta)
+                    : attractionOn ? attracted(i, g, r, base, eta, zeta, grad) : plain(i, g, r, base, eta, zeta, grad);
             if (!Double.isNaN(fast)) {
                 total += fast;
                 continue;
@@ -682,6 +736,9 @@ final class CollapsedPosterior {
                         : -Math.exp(logPhi - logNotQ);
             }
             chainRule(i, g, gradEta, gradZeta);
+        }
+        if (gridGroup >= 0) {
+            grid.flush(gradRows, gridGroup * stride, gradAttraction, gridGroup * m);
         }
         if (grad && respondentGradEta != null) {
             columnSums(x, levelCount, respondentGradEta, s.size, sampled, gradBeta);
@@ -830,6 +887,72 @@ final class CollapsedPosterior {
         }
         chainRule(i, g, gradEta, gradZeta);
         return densityWanted ? Math.log(likelihood) : 0;
+    }
+
+    /** Tabulates group g's normaliser over every eta its respondents can have at the current alpha and beta. */
+    private void buildGrid(int g) {
+        double low = alpha[g];
+        double high = alpha[g];
+        for (int p = 0; p < levelCount; p++) {
+            double a = beta[p] * levelLow[g * levelCount + p];
+            double b = beta[p] * levelHigh[g * levelCount + p];
+            low += Math.min(a, b);
+            high += Math.max(a, b);
+        }
+        // a node's width of margin: eta summed in another order may differ in its last bits
+        grid.build(rows, g * (m + 1), odds, g * m, low - NormaliserGrid.SPACING, high + NormaliserGrid.SPACING);
+    }
+
+    /**
+     * {@link #attracted} with the gradient only, the normaliser and its gradient from the grid:
+     * respondent i reads the tails of its own answer (and of its coarse point's range) alone.
+     * NaN, with nothing accumulated, where {@link #attracted} would give NaN for the answer.
+     */
+    private double attractedOnGrid(int i, int g, int r, int base, double eta, double zeta) {
+        if (channel != null && Math.abs(zeta) > PLAIN_PROBIT) {
+            return Double.NaN;
+        }
+        double pi = StandardNormal.intervalProbability(rows[base + r] - eta, rows[base + r + 1] - eta, density, 0);
+        if (!(pi > PLAIN_FLOOR)) {
+            return Double.NaN;
+        }
+        boolean point = channel != null && channel.isPoint(r);
+        double coarse = 0;
+        if (point) {
+            coarse = ResponseLikelihood.coarse(channel, rows, base, r, eta, thresholdDensity);
+            if (!(coarse > PLAIN_FLOOR)) {
+                return Double.NaN;
+            }
+        }
+        int row = g * m;
+        grid.locate(eta);
+        double full = pi * odds[row + r] / grid.normaliser();
+        double q = classProbit(zeta);
+        double likelihood = (1 - q) * full + q * coarse;
+        double weightFull = (1 - q) * full / likelihood;
+        // log P = log(pi_r) + a_r - log N for the full-scale part; N's share through the grid
+        double gradEta = -weightFull * grid.logSlope();
+        grid.add(weightFull);
+        gradAttraction[row + r] += weightFull;
+        if (r > 0) {
+            double v = -weightFull * density[0] / pi;
+            gradRows[base + r] += v;
+            gradEta -= v;
+        }
+        if (r < m - 1) {
+            double v = weightFull * density[1] / pi;
+            gradRows[base + r + 1] += v;
+            gradEta -= v;
+        }
+        double gradZeta = 0;
+        if (channel != null) {
+            gradZeta = point ? lastPhi * (coarse - full) / likelihood : -lastPhi / (1 - q);
+        }
+        if (point) {
+            gradEta = addCoarse(r, q / likelihood, gradRows, base, gradEta);
+        }
+        chainRule(i, g, gradEta, gradZeta);
+        return 0;
     }
 
     /**

@@ -185,8 +185,12 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
             for (int j = 0; j < dimension; j++) {
                 proposal[j] += work[j];
             }
-            // Only the last position's density enters the acceptance.
-            end = l == leaps - 1 ? posterior.gradient(proposal, gradient) : posterior.gradientOnly(proposal, gradient);
+            // Only the last position's density enters the acceptance. Between the ends the force
+            // may be any fixed function of the position (under attraction an interpolated gradient,
+            // CollapsedPosterior.force): both half-kicks at an inner position use it, whichever way
+            // the trajectory runs, and the exact gradient at both ends, so the map stays reversible
+            // and volume-preserving and the Metropolis ratio exact (Neal 2011, section 5.5.1).
+            end = l == leaps - 1 ? posterior.gradient(proposal, gradient) : posterior.force(proposal, gradient);
             whiten(gradient);
             for (int j = 0; j < dimension; j++) {
                 momentum[j] += 0.5 * step * gradient[j];
