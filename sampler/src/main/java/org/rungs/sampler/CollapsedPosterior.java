@@ -631,6 +631,7 @@ final class CollapsedPosterior {
         boolean attractionOn = attracted.length > 0;
         boolean gridPass = onGrid && grad && sampled == 1;
         int gridGroup = -1;
+        boolean gridBuilt = false;
         double total = 0;
         lastZeta = Double.NaN;
         for (int i = 0; i < s.size; i += sampled) {
@@ -638,10 +639,10 @@ final class CollapsedPosterior {
             int r = category[i];
             int base = g * stride;
             if (gridPass && g != gridGroup) {
-                if (gridGroup >= 0) {
+                if (gridGroup >= 0 && gridBuilt) {
                     grid.flush(gradRows, gridGroup * stride, gradAttraction, gridGroup * m);
                 }
-                buildGrid(g);
+                gridBuilt = buildGrid(g);
                 gridGroup = g;
             }
             double eta = alpha[g];
@@ -655,7 +656,7 @@ final class CollapsedPosterior {
                     zeta += w[q][i] * delta[q];
                 }
             }
-            double fast = gridPass ? attractedOnGrid(i, g, r, base, eta, zeta)
+            double fast = gridPass && gridBuilt ? attractedOnGrid(i, g, r, base, eta, zeta)
                     : attractionOn ? attracted(i, g, r, base, eta, zeta, grad) : plain(i, g, r, base, eta, zeta, grad);
             if (!Double.isNaN(fast)) {
                 total += fast;
@@ -737,7 +738,7 @@ final class CollapsedPosterior {
             }
             chainRule(i, g, gradEta, gradZeta);
         }
-        if (gridGroup >= 0) {
+        if (gridGroup >= 0 && gridBuilt) {
             grid.flush(gradRows, gridGroup * stride, gradAttraction, gridGroup * m);
         }
         if (grad && respondentGradEta != null) {
@@ -889,8 +890,11 @@ final class CollapsedPosterior {
         return densityWanted ? Math.log(likelihood) : 0;
     }
 
-    /** Tabulates group g's normaliser over every eta its respondents can have at the current alpha and beta. */
-    private void buildGrid(int g) {
+    /**
+     * Tabulates group g's normaliser over every eta its respondents can have at the current alpha
+     * and beta; false when that range is too wide for the grid (the group is then computed exactly).
+     */
+    private boolean buildGrid(int g) {
         double low = alpha[g];
         double high = alpha[g];
         for (int p = 0; p < levelCount; p++) {
@@ -900,7 +904,7 @@ final class CollapsedPosterior {
             high += Math.max(a, b);
         }
         // a node's width of margin: eta summed in another order may differ in its last bits
-        grid.build(rows, g * (m + 1), odds, g * m, low - NormaliserGrid.SPACING, high + NormaliserGrid.SPACING);
+        return grid.build(rows, g * (m + 1), odds, g * m, low - NormaliserGrid.SPACING, high + NormaliserGrid.SPACING);
     }
 
     /**

@@ -25,6 +25,8 @@ final class NormaliserGrid {
     /** Node spacing in latent units unless the range needs more than {@link #CAPACITY} nodes: cubic Hermite error about h^4/384 times the fourth derivative. */
     static final double SPACING = 0.125;
     static final int CAPACITY = 1024;
+    /** The widest spacing used (a range of about 500 latent units); beyond it no grid is built. */
+    static final double WIDEST = 0.5;
 
     private final int m;
     private final int[] attracted;
@@ -66,15 +68,23 @@ final class NormaliserGrid {
 
     /**
      * Tabulates the group whose thresholds are rows[base..base+M] and odds odds[row..row+M-1] on
-     * [low, high] (every eta of its respondents must lie inside), and clears the node weights.
+     * [low, high] (every eta of its respondents must lie inside). False, with nothing tabulated,
+     * when the range would need nodes wider than {@link #WIDEST} (or is not finite): the caller
+     * then computes that group exactly, which is as much a fixed function of the position.
      */
-    void build(double[] rows, int base, double[] odds, int row, double low, double high) {
-        spacing = Math.max(SPACING, (high - low) / (CAPACITY - 2));
+    boolean build(double[] rows, int base, double[] odds, int row, double low, double high) {
+        double needed = (high - low) / (CAPACITY - 2);
+        if (!(needed <= WIDEST)) {
+            return false;
+        }
+        spacing = Math.max(SPACING, needed);
         lowest = low;
-        nodes = (int) Math.ceil((high - low) / spacing) + 2;
+        // the last node lies at or above high; the cap only guards against rounding in the ceiling
+        nodes = Math.min(CAPACITY, (int) Math.ceil((high - low) / spacing) + 2);
         for (int j = 0; j < nodes; j++) {
             node(rows, base, odds, row, low + j * spacing, j);
         }
+        return true;
     }
 
     private void node(double[] rows, int base, double[] odds, int row, double x, int j) {

@@ -273,6 +273,30 @@ class CollapsedPosteriorTest {
     }
 
     /**
+     * Wide ranges of latent levels: from about 128 units on the grid's nodes widen (the calibration
+     * of the complete model once asked for one node more than the grid holds, an index out of
+     * bounds, for a range that rounding put just past a whole number of nodes); from about 511
+     * units none is built and the force is the exact gradient, bit for bit.
+     */
+    @Test
+    void forceCopesWithWideRangesOfLatentLevels() {
+        ChainState s = state(true, true, true, 6);
+        CollapsedPosterior posterior = new CollapsedPosterior(s, PRIORS);
+        double[] theta = new double[posterior.dimension()];
+        posterior.read(theta);
+        double[] force = new double[theta.length];
+        double[] exact = new double[theta.length];
+        for (int step = 0; step < 3000; step++) {
+            theta[posterior.betaAt] = 20 + step * 0.03; // ranges of about 120 to 560 latent units
+            assertTrue(Double.isFinite(posterior.force(theta, force)), "coefficient " + theta[posterior.betaAt]);
+        }
+        theta[posterior.betaAt] = 1000;
+        posterior.force(theta, force);
+        posterior.gradient(theta, exact);
+        assertArrayEquals(exact, force, 0.0, "no grid beyond the widest spacing");
+    }
+
+    /**
      * The structured Hessian (one gradient per survey-wide coordinate and per coordinate of a
      * group) equals a dense one from central differences of the gradient in every coordinate,
      * including the zeros between two groups' own coordinates. Tolerance: the forward differences'
