@@ -96,6 +96,25 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
     /** Per group, the likelihood's gradient (answers included) and curvature at abar: every fit's first Newton step. */
     private final double[] meanGradient;
     private final double[] meanCurvature;
+    /**
+     * The block moves' likelihood terms read per group from a grid of latent levels instead of per
+     * respondent (see {@link #tabulate}): at most this many nodes per group, spaced as
+     * {@link NormaliserGrid#SPACING} unless the group's range needs wider.
+     */
+    static final int BLOCK_NODES = 256;
+    /** Per group: the first node's level, the spacing, the number of nodes. */
+    private final double[] nodeLow;
+    private final double[] nodeSpacing;
+    private final int[] nodeCount;
+    /** Per group and node: the full-scale respondents' Hermite weights (value, and spacing x slope). */
+    private final double[] nodeWeight;
+    private final double[] nodeSlopeWeight;
+    /** Per group, node and attracted number k: pi_k at the node's level and its derivative there. */
+    private final double[] nodeShare;
+    private final double[] nodeShareSlope;
+    private final double[] nodeCdf;
+    private final double[] nodeDensity;
+    private final double[] blockShareSlope;
     private double sumOfSquares;
     private int warmupStep;
 
@@ -130,6 +149,16 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
         this.blockShare = new double[count];
         this.meanGradient = new double[state.groups * count];
         this.meanCurvature = new double[state.groups * count * count];
+        this.nodeLow = new double[state.groups];
+        this.nodeSpacing = new double[state.groups];
+        this.nodeCount = new int[state.groups];
+        this.nodeWeight = new double[state.groups * BLOCK_NODES];
+        this.nodeSlopeWeight = new double[state.groups * BLOCK_NODES];
+        this.nodeShare = new double[state.groups * BLOCK_NODES * count];
+        this.nodeShareSlope = new double[state.groups * BLOCK_NODES * count];
+        this.nodeCdf = new double[m + 1];
+        this.nodeDensity = new double[m + 1];
+        this.blockShareSlope = new double[count];
         for (int j = 0; j < attracted.length; j++) {
             jointLogScale[j] = Math.log(0.1);
             for (int g = 0; g < state.groups; g++) {
@@ -463,9 +492,12 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
                 fullAnswers[g * count + j] = answers(g, attracted[j]);
             }
         }
-        // The approximations depend on tau_a, abar, the cached cdfs and the classes, which none of
+        // The approximations depend on tau_a, abar, the levels, thresholds and classes, which none of
         // these steps changes: the current spread's is fitted once, then kept from step to step.
         // Every fit starts at abar, where the likelihood's terms do not depend on tau_a.
+        for (int g = 0; g < s.groups; g++) {
+            tabulate(g);
+        }
         for (int g = 0; g < s.groups; g++) {
             for (int j = 0; j < count; j++) {
                 blockPoint[j] = s.attractionMean[attracted[j]];
@@ -531,6 +563,26 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
             spreadSum += logSd;
             spreadSquares += logSd * logSd;
         }
+    }
+
+    /**
+     * For tests: group g's likelihood gradient, then the lower triangle of minus its Hessian (row
+     * by row, count x count), at a[g,.] = {@code point}, as the block moves read them.
+     */
+    double[] blockTerms(int g, double[] point) {
+        int m = state.categories;
+        int count = attracted.length;
+        cache();
+        for (int j = 0; j < count; j++) {
+            fullAnswers[g * count + j] = answers(g, attracted[j]);
+        }
+        tabulate(g);
+        System.arraycopy(point, 0, blockPoint, 0, count);
+        logDensityTerms(g, 0);
+        double[] out = new double[count + count * count];
+        System.arraycopy(blockGradient, 0, out, 0, count);
+        System.arraycopy(blockCurvature, 0, out, count, count * count);
+        return out;
     }
 
     /** log of the Student t density with {@link #FREEDOM} degrees of freedom at x, up to a constant. */
@@ -655,15 +707,83 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
     }
 
     /**
+     * Group g's full-scale respondents on a grid of latent levels, for {@link #logDensityTerms}:
+     * each adds its cubic Hermite basis at its eta to the weights of the two nodes around it, and
+     * each node keeps pi_k and its derivative in eta for the attracted numbers. A sum over the
+     * respondents of a smooth function of eta is then a sum over the nodes of the weights times
+     * the function and its slope there: the sum of the function's Hermite interpolants at the
+     * respondents' levels, within about 1e-7 of the exact sum (nodes 1/8 apart), at a cost per
+     * Newton step that does not grow with the survey. The approximation only shapes the block
+     * moves' proposal, a fixed function of the levels, thresholds, classes, abar and the proposed
+     * tau_a, so the moves stay exact.
+     */
+    private void tabulate(int g) {
+        ChainState s = state;
+        int m = s.categories;
+        int count = attracted.length;
+        int from = s.start[g * m];
+        int to = s.start[(g + 1) * m];
+        double low = Double.POSITIVE_INFINITY;
+        double high = Double.NEGATIVE_INFINITY;
+        for (int i = from; i < to; i++) {
+            if (!coarse(i)) {
+                low = Math.min(low, eta[i]);
+                high = Math.max(high, eta[i]);
+            }
+        }
+        if (low > high) {
+            nodeCount[g] = 0;
+            return;
+        }
+        double h = Math.max(NormaliserGrid.SPACING, (high - low) / (BLOCK_NODES - 2));
+        int nodes = Math.min(BLOCK_NODES, (int) Math.ceil((high - low) / h) + 2);
+        int first = g * BLOCK_NODES;
+        nodeLow[g] = low;
+        nodeSpacing[g] = h;
+        nodeCount[g] = nodes;
+        java.util.Arrays.fill(nodeWeight, first, first + nodes, 0);
+        java.util.Arrays.fill(nodeSlopeWeight, first, first + nodes, 0);
+        for (int i = from; i < to; i++) {
+            if (coarse(i)) {
+                continue;
+            }
+            double t = (eta[i] - low) / h;
+            int j = Math.min(nodes - 2, (int) t);
+            double u = t - j;
+            double r = 1 - u;
+            nodeWeight[first + j] += (1 + 2 * u) * r * r;
+            nodeSlopeWeight[first + j] += h * u * r * r;
+            nodeWeight[first + j + 1] += u * u * (3 - 2 * u);
+            nodeSlopeWeight[first + j + 1] += h * u * u * (u - 1);
+        }
+        int base = g * (m + 1);
+        nodeCdf[m] = 1;
+        for (int j = 0; j < nodes; j++) {
+            double x = low + j * h;
+            for (int k = 1; k < m; k++) {
+                nodeCdf[k] = StandardNormal.cdf(s.thresholds[base + k] - x, nodeDensity, k);
+            }
+            int at = (first + j) * count;
+            for (int a = 0; a < count; a++) {
+                int k = attracted[a];
+                nodeShare[at + a] = nodeCdf[k + 1] - nodeCdf[k];
+                // d/d eta [Phi(c_{k+1} - eta) - Phi(c_k - eta)] = phi(c_k - eta) - phi(c_{k+1} - eta)
+                nodeShareSlope[at + a] = nodeDensity[k] - nodeDensity[k + 1];
+            }
+        }
+    }
+
+    /**
      * At a[g,.] = {@link #blockPoint}: the gradient of group g's full-scale likelihood, sum over its
      * respondents of (a[r] - log N_i), plus that of the normal prior with mean abar and the given
      * precision, to {@link #blockGradient}; minus the likelihood's Hessian (lower triangle) to
      * {@link #blockCurvature}. With precision 0 (the prior's term is then exactly 0 at abar) the
-     * likelihood's alone.
+     * likelihood's alone. The sum over respondents is read from the grid of {@link #tabulate}: with
+     * w_k = pi_k exp(a_k) / N, each respondent adds -w to the gradient and diag(w) - w w' to the
+     * curvature, and each node the same, and their slopes in eta, times its weights.
      */
     private void logDensityTerms(int g, double precision) {
         ChainState s = state;
-        int m = s.categories;
         int count = attracted.length;
         int at = g * count;
         for (int j = 0; j < count; j++) {
@@ -671,26 +791,34 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
             blockGradient[j] = fullAnswers[at + j] - precision * (blockPoint[j] - s.attractionMean[attracted[j]]);
         }
         java.util.Arrays.fill(blockCurvature, 0);
-        int to = s.start[(g + 1) * m];
-        for (int i = s.start[g * m]; i < to; i++) {
-            if (coarse(i)) {
+        int first = g * BLOCK_NODES;
+        for (int node = first; node < first + nodeCount[g]; node++) {
+            double value = nodeWeight[node];
+            double slope = nodeSlopeWeight[node];
+            if (value == 0 && slope == 0) {
                 continue;
             }
-            int c = i * (m + 1);
+            int c = node * count;
             double n = 1;
+            double nSlope = 0;
             for (int j = 0; j < count; j++) {
-                int k = attracted[j];
-                double pi = s.cdf[c + k + 1] - s.cdf[c + k];
-                blockShare[j] = pi;
-                n += pi * blockExcess[j];
+                n += nodeShare[c + j] * blockExcess[j];
+                nSlope += nodeShareSlope[c + j] * blockExcess[j];
             }
             for (int j = 0; j < count; j++) {
-                double w = blockShare[j] * (blockExcess[j] + 1) / n;
+                double odds = (blockExcess[j] + 1) / n;
+                double w = nodeShare[c + j] * odds;
                 blockShare[j] = w;
-                blockGradient[j] -= w;
-                blockCurvature[j * count + j] += w;
+                blockShareSlope[j] = nodeShareSlope[c + j] * odds - w * nSlope / n;
+            }
+            for (int j = 0; j < count; j++) {
+                double w = blockShare[j];
+                double ws = blockShareSlope[j];
+                double both = value * w + slope * ws;
+                blockGradient[j] -= both;
+                blockCurvature[j * count + j] += both;
                 for (int l = 0; l <= j; l++) {
-                    blockCurvature[j * count + l] -= w * blockShare[l];
+                    blockCurvature[j * count + l] -= value * w * blockShare[l] + slope * (ws * blockShare[l] + w * blockShareSlope[l]);
                 }
             }
         }

@@ -1,7 +1,9 @@
 package org.rungs.sampler;
 
+import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import org.apache.commons.math3.distribution.NormalDistribution;
 import org.apache.commons.rng.UniformRandomProvider;
 import org.apache.commons.rng.simple.RandomSource;
 import org.junit.jupiter.api.Test;
@@ -47,6 +49,82 @@ class AttractionUpdateTest {
         double with = lagOne(run(AttractionUpdate.BLOCK_STEPS, 23L)[0]);
         double without = lagOne(run(0, 24L)[0]);
         assertTrue(with < without - 0.1, "lag-1 autocorrelation of log tau_a " + with + " with, " + without + " without");
+    }
+
+    /**
+     * The block moves' normal approximations read the likelihood's gradient and curvature from a
+     * grid of latent levels: both within 1e-6 (relative to the largest entry) of central
+     * differences of the full-scale respondents' log-likelihood sum of a[r] - log sum_k pi_k
+     * exp(a_k) (MODEL.md 4b, the levels integrated out, the classes given) written here with
+     * Commons Math's normal cdf. Tolerance: the differences' truncation and rounding error (steps
+     * 1e-4, about 1e-8 relative) plus the grid's interpolation error (about 1e-7).
+     */
+    @Test
+    void blockMovesReadTheLikelihoodFromTheGridToInterpolationError() {
+        ChainState s = CollapsedPosteriorTest.state(true, true, true, 0.5);
+        UniformRandomProvider rng = RandomSource.XO_RO_SHI_RO_128_PP.create(3L);
+        Priors priors = Priors.defaults();
+        ThresholdUpdate.of(s, s.start, priors, rng).refresh();
+        AttractionUpdate update = AttractionUpdate.of(s, priors, rng);
+        double[] point = {0.4, -0.7};
+        for (int g = 0; g < s.groups; g++) {
+            double[] terms = update.blockTerms(g, point);
+            double largest = 0;
+            for (double v : terms) {
+                largest = Math.max(largest, Math.abs(v));
+            }
+            double h = 1e-4;
+            for (int j = 0; j < 2; j++) {
+                double[] up = point.clone();
+                double[] down = point.clone();
+                up[j] += h;
+                down[j] -= h;
+                double gradient = (fullScaleLogLikelihood(s, g, up) - fullScaleLogLikelihood(s, g, down)) / (2 * h);
+                assertEquals(gradient, terms[j], 1e-6 * largest, "gradient " + j + ", group " + g);
+                for (int l = 0; l <= j; l++) {
+                    double curvature = -mixedDifference(s, g, point, j, l, h);
+                    assertEquals(curvature, terms[2 + j * 2 + l], 1e-6 * largest, "curvature " + j + "," + l + ", group " + g);
+                }
+            }
+        }
+    }
+
+    /** d^2 f / da_j da_l by central differences. */
+    private static double mixedDifference(ChainState s, int g, double[] point, int j, int l, double h) {
+        double sum = 0;
+        for (int sj = -1; sj <= 1; sj += 2) {
+            for (int sl = -1; sl <= 1; sl += 2) {
+                double[] p = point.clone();
+                p[j] += sj * h;
+                p[l] += sl * h;
+                sum += sj * sl * fullScaleLogLikelihood(s, g, p);
+            }
+        }
+        return sum / (4 * h * h);
+    }
+
+    /** Sum over group g's full-scale respondents of a[r] - log sum_k pi_k(eta_i) exp(a_k), a = 0 outside {2, 4}. */
+    private static double fullScaleLogLikelihood(ChainState s, int g, double[] a) {
+        NormalDistribution normal = new NormalDistribution(0, 1);
+        int m = s.categories;
+        double[] attraction = new double[m];
+        attraction[2] = a[0];
+        attraction[4] = a[1];
+        double total = 0;
+        for (int i = 0; i < s.size; i++) {
+            if (s.group[i] != g || s.coarse[i] == 1) {
+                continue;
+            }
+            double eta = s.eta(i);
+            double n = 0;
+            for (int k = 0; k < m; k++) {
+                double upper = k == m - 1 ? 1 : normal.cumulativeProbability(s.thresholds[g * (m + 1) + k + 1] - eta);
+                double lower = k == 0 ? 0 : normal.cumulativeProbability(s.thresholds[g * (m + 1) + k] - eta);
+                n += (upper - lower) * Math.exp(attraction[k]);
+            }
+            total += attraction[s.category[i]] - Math.log(n);
+        }
+        return total;
     }
 
     private static double[][] run(int blockSteps, long seed) {
