@@ -73,6 +73,18 @@ class CollapsedPosteriorTest {
         return s;
     }
 
+    /**
+     * The 16 states the tests run through: bit 0 shared thresholds, bit 1 no coarse class, bit 2 no
+     * attraction, bit 3 group 2 at 40 instead of 6 (its respondents then take the log-space path).
+     */
+    private static ChainState variant(int variant) {
+        return state(byGroup(variant), (variant / 2) % 2 == 0, (variant / 4) % 2 == 0, variant < 8 ? 6 : 40);
+    }
+
+    private static boolean byGroup(int variant) {
+        return variant % 2 == 0;
+    }
+
     /** MODEL.md 4c summed over respondents, through ResponseLikelihood, plus MODEL.md 3 and 5 priors, from the state. */
     private static double directLogPosterior(ChainState s) {
         return directLogPosterior(s, 1);
@@ -140,7 +152,7 @@ class CollapsedPosteriorTest {
     @Test
     void densityMatchesRespondentByRespondentSum() {
         for (int variant = 0; variant < 16; variant++) {
-            ChainState s = state(variant % 2 == 0, (variant / 2) % 2 == 0, (variant / 4) % 2 == 0, variant < 8 ? 6 : 40);
+            ChainState s = variant(variant);
             CollapsedPosterior posterior = new CollapsedPosterior(s, PRIORS);
             double[] theta = new double[posterior.dimension()];
             posterior.read(theta);
@@ -186,7 +198,7 @@ class CollapsedPosteriorTest {
     @Test
     void gradientMatchesFiniteDifferences() {
         for (int variant = 0; variant < 16; variant++) {
-            ChainState s = state(variant % 2 == 0, (variant / 2) % 2 == 0, (variant / 4) % 2 == 0, variant < 8 ? 6 : 40);
+            ChainState s = variant(variant);
             CollapsedPosterior posterior = new CollapsedPosterior(s, PRIORS);
             double[] theta = new double[posterior.dimension()];
             posterior.read(theta);
@@ -213,8 +225,8 @@ class CollapsedPosteriorTest {
     @Test
     void gradientOnlyGivesTheSameGradientAndWalls() {
         for (int variant = 0; variant < 16; variant++) {
-            boolean byGroup = variant % 2 == 0;
-            ChainState s = state(byGroup, (variant / 2) % 2 == 0, (variant / 4) % 2 == 0, variant < 8 ? 6 : 40);
+            boolean byGroup = byGroup(variant);
+            ChainState s = variant(variant);
             CollapsedPosterior posterior = new CollapsedPosterior(s, PRIORS);
             double[] theta = new double[posterior.dimension()];
             posterior.read(theta);
@@ -243,9 +255,9 @@ class CollapsedPosteriorTest {
     @Test
     void forceUnderAttractionIsTheGradientToInterpolationError() {
         for (int variant = 0; variant < 16; variant++) {
-            boolean byGroup = variant % 2 == 0;
+            boolean byGroup = byGroup(variant);
             boolean attraction = (variant / 4) % 2 == 0;
-            ChainState s = state(byGroup, (variant / 2) % 2 == 0, attraction, variant < 8 ? 6 : 40);
+            ChainState s = variant(variant);
             CollapsedPosterior posterior = new CollapsedPosterior(s, PRIORS);
             assertEquals(attraction, posterior.approximatesForce());
             double[] theta = new double[posterior.dimension()];
@@ -306,7 +318,7 @@ class CollapsedPosteriorTest {
     @Test
     void structuredHessianMatchesDenseDifferences() {
         for (int variant = 0; variant < 8; variant++) {
-            ChainState s = state(variant % 2 == 0, (variant / 2) % 2 == 0, (variant / 4) % 2 == 0, 6);
+            ChainState s = variant(variant);
             CollapsedPosterior posterior = new CollapsedPosterior(s, PRIORS);
             int d = posterior.dimension();
             double[] theta = new double[d];
