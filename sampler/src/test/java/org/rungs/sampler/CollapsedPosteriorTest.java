@@ -218,42 +218,18 @@ class CollapsedPosteriorTest {
     }
 
     /**
-     * The leapfrog's gradient without the density: the same doubles as the full evaluation (on
-     * the probability paths and, with respondents 40 sd out, the log-space one), minus infinity
-     * where a group's thresholds cross, and the density path back afterwards.
+     * The leapfrog's gradient without the density, {@code gradientOnly}: the same doubles as the
+     * full evaluation (on the probability paths and, with respondents 40 sd out, the log-space
+     * one), minus infinity where a group's thresholds cross, and the density path back afterwards.
+     * The leapfrog's inner force, {@code force}: without attraction that gradient itself; under
+     * attraction it reads the normaliser from a grid (NormaliserGrid), within 1e-7 of the gradient
+     * in every coordinate relative to the largest entry (cubic Hermite on nodes 1/8 apart: error
+     * near h^4/384 = 6e-7 times a fourth derivative; measured 3e-8 at most here, and 16 times
+     * less with nodes 1/16 apart, as h^4 predicts), the same doubles when asked twice (a fixed
+     * function of the position), minus infinity on a wall.
      */
     @Test
-    void gradientOnlyGivesTheSameGradientAndWalls() {
-        for (int variant = 0; variant < 16; variant++) {
-            boolean byGroup = byGroup(variant);
-            ChainState s = variant(variant);
-            CollapsedPosterior posterior = new CollapsedPosterior(s, PRIORS);
-            double[] theta = new double[posterior.dimension()];
-            posterior.read(theta);
-            double[] full = new double[theta.length];
-            double[] only = new double[theta.length];
-            double value = posterior.gradient(theta, full);
-            assertTrue(Double.isFinite(posterior.gradientOnly(theta, only)), "variant " + variant);
-            assertArrayEquals(full, only, 0.0, "variant " + variant);
-            assertEquals(value, posterior.gradient(theta, full), 0.0, "the density again after, variant " + variant);
-            if (byGroup) {
-                theta[posterior.deviationAt] += 50; // group 0's first threshold above its second
-                assertEquals(Double.NEGATIVE_INFINITY, posterior.gradientOnly(theta, only), "variant " + variant);
-            }
-        }
-    }
-
-    /**
-     * Under attraction the leapfrog force reads the normaliser from a grid (NormaliserGrid): within
-     * 1e-7 of the gradient in every coordinate, relative to the largest entry (cubic Hermite on
-     * nodes 1/8 apart: error near h^4/384 = 6e-7 times a fourth derivative; measured 3e-8 at most
-     * here, and 16 times less with nodes 1/16 apart, as h^4 predicts), the
-     * same doubles when asked twice (a fixed function of the position), minus infinity on a wall,
-     * and without attraction the gradient itself. Every variant's respondents far out (40 sd) take
-     * the exact log-space path.
-     */
-    @Test
-    void forceUnderAttractionIsTheGradientToInterpolationError() {
+    void gradientOnlyAndForceGiveTheGradientAndWalls() {
         for (int variant = 0; variant < 16; variant++) {
             boolean byGroup = byGroup(variant);
             boolean attraction = (variant / 4) % 2 == 0;
@@ -262,23 +238,28 @@ class CollapsedPosteriorTest {
             assertEquals(attraction, posterior.approximatesForce());
             double[] theta = new double[posterior.dimension()];
             posterior.read(theta);
-            double[] exact = new double[theta.length];
+            double[] full = new double[theta.length];
+            double[] only = new double[theta.length];
             double[] force = new double[theta.length];
-            double value = posterior.gradient(theta, exact);
+            double value = posterior.gradient(theta, full);
+            assertTrue(Double.isFinite(posterior.gradientOnly(theta, only)), "variant " + variant);
+            assertArrayEquals(full, only, 0.0, "variant " + variant);
+            assertEquals(value, posterior.gradient(theta, full), 0.0, "the density again after, variant " + variant);
             assertTrue(Double.isFinite(posterior.force(theta, force)), "variant " + variant);
             double largest = 0;
-            for (double v : exact) {
+            for (double v : full) {
                 largest = Math.max(largest, Math.abs(v));
             }
             for (int j = 0; j < theta.length; j++) {
-                assertEquals(exact[j], force[j], attraction ? 1e-7 * largest : 0.0, "coordinate " + j + " of variant " + variant);
+                assertEquals(full[j], force[j], attraction ? 1e-7 * largest : 0.0, "coordinate " + j + " of variant " + variant);
             }
             double[] again = new double[theta.length];
             posterior.force(theta, again);
             assertArrayEquals(force, again, 0.0, "variant " + variant);
-            assertEquals(value, posterior.gradient(theta, exact), 0.0, "the exact path back after, variant " + variant);
+            assertEquals(value, posterior.gradient(theta, full), 0.0, "the exact path back after, variant " + variant);
             if (byGroup) {
-                theta[posterior.deviationAt] += 50;
+                theta[posterior.deviationAt] += 50; // group 0's first threshold above its second
+                assertEquals(Double.NEGATIVE_INFINITY, posterior.gradientOnly(theta, only), "variant " + variant);
                 assertEquals(Double.NEGATIVE_INFINITY, posterior.force(theta, force), "variant " + variant);
             }
         }
