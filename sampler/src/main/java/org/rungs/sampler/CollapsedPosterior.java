@@ -122,6 +122,15 @@ final class CollapsedPosterior {
     private boolean onGrid;
     /** Under attraction, the tabulated normaliser of one group at a time; null otherwise. */
     private final NormaliserGrid grid;
+    /** Without style covariates, one group's gradient per answer tabulated in eta; null otherwise. */
+    private final AnswerGrid answers;
+    /** Respondents per (group, answer), at g * M + r. */
+    private final int[] cellCount;
+    /** Scratch of {@link #answer}: d log P / d a[g,k] by position in the attraction set, and d log P / d zeta. */
+    private final double[] answerAttraction;
+    /** Scratch of {@link #etaRange}. */
+    private final double[] range = new double[2];
+    private double answerGradZeta;
     /** Per group and level covariate, the smallest and largest value among the group's respondents (for the grid's range). */
     private final double[] levelLow;
     private final double[] levelHigh;
@@ -236,6 +245,12 @@ final class CollapsedPosterior {
         offset[m] = Double.POSITIVE_INFINITY;
         probability = new double[m];
         grid = attracted.length > 0 ? new NormaliserGrid(m, attracted) : null;
+        answers = styleCount == 0 ? new AnswerGrid(m, attracted.length) : null;
+        answerAttraction = new double[attracted.length];
+        cellCount = new int[groups * m];
+        for (int i = 0; i < state.size; i++) {
+            cellCount[state.group[i] * m + state.category[i]]++;
+        }
         levelLow = new double[groups * levelCount];
         levelHigh = new double[groups * levelCount];
         java.util.Arrays.fill(levelLow, Double.POSITIVE_INFINITY);
@@ -467,9 +482,12 @@ final class CollapsedPosterior {
         }
     }
 
-    /** True when {@link #force} approximates the gradient (under attraction); else it is {@link #gradientOnly}. */
+    /**
+     * True when {@link #force} may approximate the gradient (under attraction, or without style
+     * covariates on cells large enough for {@link AnswerGrid}); else it is {@link #gradientOnly}.
+     */
     boolean approximatesForce() {
-        return grid != null;
+        return grid != null || answers != null;
     }
 
     /**
@@ -480,7 +498,7 @@ final class CollapsedPosterior {
      * density. The caller must judge its trajectories with {@link #logDensity}.
      */
     double force(double[] theta, double[] gradient) {
-        if (grid == null) {
+        if (!approximatesForce()) {
             return gradientOnly(theta, gradient);
         }
         onGrid = true;
@@ -623,124 +641,28 @@ final class CollapsedPosterior {
     /** Sum over respondents of log P(r_i) (MODEL.md 4c) and, if asked, its gradient in model coordinates. */
     private double likelihood(boolean grad) {
         ChainState s = state;
-        int stride = m + 1;
+        boolean gridPass = onGrid && grad && sampled == 1;
+        if (gridPass && answers != null) {
+            return forcePass();
+        }
         byte[] category = s.category;
         int[] group = s.group;
         double[][] x = s.level.columns;
         double[][] w = s.style == null ? null : s.style.columns;
-        boolean attractionOn = attracted.length > 0;
-        boolean gridPass = onGrid && grad && sampled == 1;
         int gridGroup = -1;
         boolean gridBuilt = false;
         double total = 0;
         lastZeta = Double.NaN;
         for (int i = 0; i < s.size; i += sampled) {
             int g = group[i];
-            int r = category[i];
-            int base = g * stride;
             if (gridPass && g != gridGroup) {
-                if (gridGroup >= 0 && gridBuilt) {
-                    grid.flush(gradRows, gridGroup * stride, gradAttraction, gridGroup * m);
-                }
+                flushGrids(gridGroup, gridBuilt, false);
                 gridBuilt = buildGrid(g);
                 gridGroup = g;
             }
-            double eta = alpha[g];
-            for (int p = 0; p < levelCount; p++) {
-                eta += x[p][i] * beta[p];
-            }
-            double zeta = 0;
-            if (channel != null) {
-                zeta = gamma[g];
-                for (int q = 0; q < styleCount; q++) {
-                    zeta += w[q][i] * delta[q];
-                }
-            }
-            double fast = gridPass && gridBuilt ? attractedOnGrid(i, g, r, base, eta, zeta)
-                    : attractionOn ? attracted(i, g, r, base, eta, zeta, grad) : plain(i, g, r, base, eta, zeta, grad);
-            if (!Double.isNaN(fast)) {
-                total += fast;
-                continue;
-            }
-            double lower = rows[base + r] - eta;
-            double upper = rows[base + r + 1] - eta;
-            double logPi = logInterval(lower, upper);
-            double logFull = logPi;
-            double normaliser = 1;
-            if (attractionOn) {
-                cdf[0] = 0;
-                cdf[m] = 1;
-                for (int k = 1; k < m; k++) {
-                    cdf[k] = StandardNormal.cdf(rows[base + k] - eta);
-                }
-                for (int k : attracted) {
-                    normaliser += (cdf[k + 1] - cdf[k]) * (odds[g * m + k] - 1);
-                }
-                logFull += attraction[g * m + r] - Math.log(normaliser);
-            }
-            double logQ = 0;
-            double logNotQ = 0;
-            double logCoarse = Double.NEGATIVE_INFINITY;
-            double log;
-            boolean point = channel != null && channel.isPoint(r);
-            if (channel == null) {
-                log = logFull;
-            } else {
-                logNotQ = StandardNormal.logUpperTail(zeta);
-                if (point) {
-                    logQ = StandardNormal.logCdf(zeta);
-                    logCoarse = logCoarse(base, r, eta);
-                    log = logSum(logNotQ + logFull, logQ + logCoarse);
-                } else {
-                    log = logNotQ + logFull;
-                }
-            }
-            total += log;
-            if (!grad) {
-                continue;
-            }
-            // d log P / d(threshold - eta) for each threshold of the row, then the chain rule.
-            java.util.Arrays.fill(gradT, 0);
-            double weightFull = channel == null ? 1 : Math.exp(logNotQ + logFull - log);
-            if (r > 0) {
-                gradT[r] -= weightFull * Math.exp(logDensity(lower) - logPi);
-            }
-            if (r < m - 1) {
-                gradT[r + 1] += weightFull * Math.exp(logDensity(upper) - logPi);
-            }
-            if (attractionOn) {
-                for (int k = 1; k < m; k++) {
-                    double change = odds[g * m + k - 1] - odds[g * m + k];
-                    if (change != 0) {
-                        gradT[k] -= weightFull * StandardNormal.density(rows[base + k] - eta) * change / normaliser;
-                    }
-                }
-                gradAttraction[g * m + r] += weightFull;
-                for (int k : attracted) {
-                    gradAttraction[g * m + k] -= weightFull * (cdf[k + 1] - cdf[k]) * odds[g * m + k] / normaliser;
-                }
-            }
-            if (point) {
-                int[] bound = coarseBound[r];
-                double[] weight = coarseWeight[r];
-                for (int b = 0; b < bound.length; b++) {
-                    int k = bound[b];
-                    gradT[k] += weight[b] * Math.exp(logDensity(rows[base + k] - eta) + logQ - log);
-                }
-            }
-            double gradEta = rowGradient(base);
-            double gradZeta = 0;
-            if (channel != null) {
-                double logPhi = logDensity(zeta);
-                gradZeta = point
-                        ? Math.exp(logPhi + logCoarse - log) - Math.exp(logPhi + logFull - log)
-                        : -Math.exp(logPhi - logNotQ);
-            }
-            chainRule(i, g, gradEta, gradZeta);
+            total += respondent(i, g, category[i], grad, gridPass && gridBuilt);
         }
-        if (gridGroup >= 0 && gridBuilt) {
-            grid.flush(gradRows, gridGroup * stride, gradAttraction, gridGroup * m);
-        }
+        flushGrids(gridGroup, gridBuilt, false);
         if (grad && respondentGradEta != null) {
             columnSums(x, levelCount, respondentGradEta, s.size, sampled, gradBeta);
         }
@@ -748,6 +670,159 @@ final class CollapsedPosterior {
             columnSums(w, styleCount, respondentGradZeta, s.size, sampled, gradDelta);
         }
         return total;
+    }
+
+    /**
+     * The force's pass without style covariates, (group, answer) cell by cell: a cell with enough
+     * respondents reads {@link #answers} (its coefficients' gradient summed as it goes), any other
+     * respondent takes {@link #respondent}'s path, the coefficients' gradient summed over its cell
+     * after it. Not the log density: the sum of the respondent paths' values (0 on the probability
+     * paths, which skip the logarithm here).
+     */
+    private double forcePass() {
+        double[][] x = state.level.columns;
+        int[] start = state.start;
+        double total = 0;
+        lastZeta = Double.NaN;
+        for (int g = 0; g < groups; g++) {
+            boolean answersBuilt = buildAnswers(g);
+            boolean gridBuilt = grid != null && (!answersBuilt || !allOn(g)) && buildGrid(g);
+            for (int r = 0; r < m; r++) {
+                int from = start[g * m + r];
+                int to = start[g * m + r + 1];
+                if (from == to) {
+                    continue;
+                }
+                if (answersBuilt && answers.on(r)) {
+                    gradAlpha[g] += answers.read(r, x, beta, levelCount, alpha[g], from, to, gradBeta);
+                    continue;
+                }
+                for (int i = from; i < to; i++) {
+                    total += respondent(i, g, r, true, gridBuilt);
+                }
+                if (respondentGradEta != null) {
+                    rangeSums(x, levelCount, respondentGradEta, from, to, gradBeta);
+                }
+            }
+            flushGrids(g, gridBuilt, answersBuilt);
+        }
+        return total;
+    }
+
+    /** sums[p] += sum of columns[p][i] * weight[i] over i = from..to-1. */
+    private static void rangeSums(double[][] columns, int count, double[] weight, int from, int to, double[] sums) {
+        for (int p = 0; p < count; p++) {
+            double[] column = columns[p];
+            double sum = 0;
+            for (int i = from; i < to; i++) {
+                sum += column[i] * weight[i];
+            }
+            sums[p] += sum;
+        }
+    }
+
+    /**
+     * Respondent i's log-likelihood (MODEL.md 4c) and, if asked, its gradient added in model
+     * coordinates: on a probability path where it holds, else in log space; under attraction,
+     * with {@code onNormaliserGrid}, the normaliser from {@link #grid} (the force only).
+     */
+    private double respondent(int i, int g, int r, boolean grad, boolean onNormaliserGrid) {
+        ChainState s = state;
+        double[][] x = s.level.columns;
+        double[][] w = s.style == null ? null : s.style.columns;
+        boolean attractionOn = attracted.length > 0;
+        int base = g * (m + 1);
+        double eta = alpha[g];
+        for (int p = 0; p < levelCount; p++) {
+            eta += x[p][i] * beta[p];
+        }
+        double zeta = 0;
+        if (channel != null) {
+            zeta = gamma[g];
+            for (int q = 0; q < styleCount; q++) {
+                zeta += w[q][i] * delta[q];
+            }
+        }
+        double fast = onNormaliserGrid ? attractedOnGrid(i, g, r, base, eta, zeta)
+                : attractionOn ? attracted(i, g, r, base, eta, zeta, grad) : plain(i, g, r, base, eta, zeta, grad);
+        if (!Double.isNaN(fast)) {
+            return fast;
+        }
+        double lower = rows[base + r] - eta;
+        double upper = rows[base + r + 1] - eta;
+        double logPi = logInterval(lower, upper);
+        double logFull = logPi;
+        double normaliser = 1;
+        if (attractionOn) {
+            cdf[0] = 0;
+            cdf[m] = 1;
+            for (int k = 1; k < m; k++) {
+                cdf[k] = StandardNormal.cdf(rows[base + k] - eta);
+            }
+            for (int k : attracted) {
+                normaliser += (cdf[k + 1] - cdf[k]) * (odds[g * m + k] - 1);
+            }
+            logFull += attraction[g * m + r] - Math.log(normaliser);
+        }
+        double logQ = 0;
+        double logNotQ = 0;
+        double logCoarse = Double.NEGATIVE_INFINITY;
+        double log;
+        boolean point = channel != null && channel.isPoint(r);
+        if (channel == null) {
+            log = logFull;
+        } else {
+            logNotQ = StandardNormal.logUpperTail(zeta);
+            if (point) {
+                logQ = StandardNormal.logCdf(zeta);
+                logCoarse = logCoarse(base, r, eta);
+                log = logSum(logNotQ + logFull, logQ + logCoarse);
+            } else {
+                log = logNotQ + logFull;
+            }
+        }
+        if (!grad) {
+            return log;
+        }
+        // d log P / d(threshold - eta) for each threshold of the row, then the chain rule.
+        java.util.Arrays.fill(gradT, 0);
+        double weightFull = channel == null ? 1 : Math.exp(logNotQ + logFull - log);
+        if (r > 0) {
+            gradT[r] -= weightFull * Math.exp(logDensity(lower) - logPi);
+        }
+        if (r < m - 1) {
+            gradT[r + 1] += weightFull * Math.exp(logDensity(upper) - logPi);
+        }
+        if (attractionOn) {
+            for (int k = 1; k < m; k++) {
+                double change = odds[g * m + k - 1] - odds[g * m + k];
+                if (change != 0) {
+                    gradT[k] -= weightFull * StandardNormal.density(rows[base + k] - eta) * change / normaliser;
+                }
+            }
+            gradAttraction[g * m + r] += weightFull;
+            for (int k : attracted) {
+                gradAttraction[g * m + k] -= weightFull * (cdf[k + 1] - cdf[k]) * odds[g * m + k] / normaliser;
+            }
+        }
+        if (point) {
+            int[] bound = coarseBound[r];
+            double[] weight = coarseWeight[r];
+            for (int b = 0; b < bound.length; b++) {
+                int k = bound[b];
+                gradT[k] += weight[b] * Math.exp(logDensity(rows[base + k] - eta) + logQ - log);
+            }
+        }
+        double gradEta = rowGradient(base);
+        double gradZeta = 0;
+        if (channel != null) {
+            double logPhi = logDensity(zeta);
+            gradZeta = point
+                    ? Math.exp(logPhi + logCoarse - log) - Math.exp(logPhi + logFull - log)
+                    : -Math.exp(logPhi - logNotQ);
+        }
+        chainRule(i, g, gradEta, gradZeta);
+        return log;
     }
 
     /**
@@ -826,10 +901,38 @@ final class CollapsedPosterior {
         if (channel != null && Math.abs(zeta) > PLAIN_PROBIT) {
             return Double.NaN;
         }
+        fillTails(base, eta);
+        double likelihood = answer(g, r, zeta, grad);
+        if (Double.isNaN(likelihood)) {
+            return Double.NaN;
+        }
+        if (!grad) {
+            return Math.log(likelihood);
+        }
+        for (int p = 0; p < attracted.length; p++) {
+            gradAttraction[g * m + attracted[p]] += answerAttraction[p];
+        }
+        double gradEta = rowGradient(base);
+        chainRule(i, g, gradEta, answerGradZeta);
+        return densityWanted ? Math.log(likelihood) : 0;
+    }
+
+    /** Each threshold's offset c[g,k] - eta, smaller normal tail and density, for {@link #answer}. */
+    private void fillTails(int base, double eta) {
         for (int k = 1; k < m; k++) {
             offset[k] = rows[base + k] - eta;
             tail[k] = StandardNormal.smallerTail(offset[k], thresholdDensity, k);
         }
+    }
+
+    /**
+     * Answer r's likelihood in group g at the latent level whose tails {@link #fillTails} left,
+     * with class probit zeta; NaN when the answer's probability is too small for the probability
+     * path. With the gradient: d log P / d(c[g,k] - eta) in {@link #gradT}, d log P / d a[g,k] by
+     * position in the attraction set in {@link #answerAttraction}, d log P / d zeta in
+     * {@link #answerGradZeta}.
+     */
+    private double answer(int g, int r, double zeta, boolean grad) {
         double pi = category(r);
         if (!(pi > PLAIN_FLOOR)) {
             return Double.NaN;
@@ -857,9 +960,8 @@ final class CollapsedPosterior {
             likelihood += q * coarse;
         }
         if (!grad) {
-            return Math.log(likelihood);
+            return likelihood;
         }
-        // d log P / d(c[g,k] - eta) for each threshold k, then the chain rule (as in the log-space path).
         double weightFull = (1 - q) * full / likelihood;
         java.util.Arrays.fill(gradT, 0);
         if (r > 0) {
@@ -874,27 +976,35 @@ final class CollapsedPosterior {
                 gradT[k] -= weightFull * thresholdDensity[k] * change / normaliser;
             }
         }
-        gradAttraction[row + r] += weightFull;
-        for (int k : attracted) {
-            gradAttraction[row + k] -= weightFull * probability[k] * odds[row + k] / normaliser;
+        for (int p = 0; p < attracted.length; p++) {
+            int k = attracted[p];
+            answerAttraction[p] = (k == r ? weightFull : 0) - weightFull * probability[k] * odds[row + k] / normaliser;
         }
         if (point) {
             addCoarse(r, q / likelihood, gradT, 0, 0);
         }
-        double gradEta = rowGradient(base);
-        double gradZeta = 0;
+        answerGradZeta = 0;
         if (channel != null) {
-            gradZeta = point ? lastPhi * (coarse - full) / likelihood : -lastPhi / (1 - q);
+            answerGradZeta = point ? lastPhi * (coarse - full) / likelihood : -lastPhi / (1 - q);
         }
-        chainRule(i, g, gradEta, gradZeta);
-        return densityWanted ? Math.log(likelihood) : 0;
+        return likelihood;
     }
 
-    /**
-     * Tabulates group g's normaliser over every eta its respondents can have at the current alpha
-     * and beta; false when that range is too wide for the grid (the group is then computed exactly).
-     */
-    private boolean buildGrid(int g) {
+    /** Adds what the grids of group g (if any) gathered over its respondents to the gradient. */
+    private void flushGrids(int g, boolean gridBuilt, boolean answersBuilt) {
+        if (g < 0) {
+            return;
+        }
+        if (gridBuilt) {
+            grid.flush(gradRows, g * (m + 1), gradAttraction, g * m);
+        }
+        if (answersBuilt) {
+            answers.flush(attracted, gradRows, g * (m + 1), gradAttraction, g * m, channel == null ? null : gradGamma, g);
+        }
+    }
+
+    /** The smallest then the largest eta that group g's respondents can have at the current alpha and beta, in {@link #range}. */
+    private void etaRange(int g) {
         double low = alpha[g];
         double high = alpha[g];
         for (int p = 0; p < levelCount; p++) {
@@ -903,8 +1013,71 @@ final class CollapsedPosterior {
             low += Math.min(a, b);
             high += Math.max(a, b);
         }
+        range[0] = low;
+        range[1] = high;
+    }
+
+    /**
+     * Tabulates group g's normaliser over every eta its respondents can have at the current alpha
+     * and beta; false when that range is too wide for the grid (the group is then computed exactly).
+     */
+    private boolean buildGrid(int g) {
+        etaRange(g);
         // a node's width of margin: eta summed in another order may differ in its last bits
-        return grid.build(rows, g * (m + 1), odds, g * m, low - NormaliserGrid.SPACING, high + NormaliserGrid.SPACING);
+        return grid.build(rows, g * (m + 1), odds, g * m, range[0] - NormaliserGrid.SPACING, range[1] + NormaliserGrid.SPACING);
+    }
+
+    /**
+     * Tabulates group g's gradient per answer ({@link AnswerGrid}) for the answers with at least
+     * {@link AnswerGrid#RESPONDENTS_PER_NODE} respondents per node and a likelihood on the
+     * probability path at every node; false when no answer qualifies or the range is too wide. A
+     * fixed function of the position either way.
+     */
+    private boolean buildAnswers(int g) {
+        double zeta = channel == null ? 0 : gamma[g];
+        etaRange(g);
+        if (Math.abs(zeta) > PLAIN_PROBIT || !answers.place(range[0], range[1])) {
+            return false;
+        }
+        int nodes = answers.nodes();
+        boolean any = false;
+        for (int r = 0; r < m; r++) {
+            boolean large = cellCount[g * m + r] >= AnswerGrid.RESPONDENTS_PER_NODE * nodes;
+            answers.set(r, large);
+            any |= large;
+        }
+        if (!any) {
+            return false;
+        }
+        int base = g * (m + 1);
+        for (int j = 0; j < nodes; j++) {
+            fillTails(base, answers.node(j));
+            for (int r = 0; r < m; r++) {
+                if (!answers.on(r)) {
+                    continue;
+                }
+                if (Double.isNaN(answer(g, r, zeta, true))) {
+                    answers.set(r, false);
+                    continue;
+                }
+                double gradEta = 0;
+                for (int k = 1; k < m; k++) {
+                    gradEta -= gradT[k];
+                }
+                answers.store(r, j, gradEta, gradT, answerAttraction, attracted.length, answerGradZeta);
+            }
+        }
+        return true;
+    }
+
+    /** Whether every answer of group g with respondents is read from {@link #answers}. */
+    private boolean allOn(int g) {
+        for (int r = 0; r < m; r++) {
+            if (cellCount[g * m + r] > 0 && !answers.on(r)) {
+                return false;
+            }
+        }
+        return true;
     }
 
     /**

@@ -23,9 +23,13 @@ class CollapsedPosteriorTest {
 
     /** Three groups on 0..6 with one level and one style covariate; group 2 sits far above the scale. */
     private static Survey survey() {
+        return survey(150, true);
+    }
+
+    /** n respondents in three groups on 0..6 with one level covariate and, if asked, one style covariate. */
+    private static Survey survey(int n, boolean style) {
         UniformRandomProvider rng = RandomSource.XO_RO_SHI_RO_128_PP.create(11L);
         ZigguratSampler.NormalizedGaussian normal = ZigguratSampler.NormalizedGaussian.of(rng);
-        int n = 150;
         int[] group = new int[n];
         double[] x = new double[n];
         double[] w = new double[n];
@@ -37,11 +41,15 @@ class CollapsedPosteriorTest {
             category[i] = (byte) rng.nextInt(7);
         }
         return Survey.of(new Scale(0, 6), category, group, List.of("a", "b", "c"),
-                Covariates.fromNumeric(List.of("x"), List.of(x)), Covariates.fromNumeric(List.of("w"), List.of(w)), null);
+                Covariates.fromNumeric(List.of("x"), List.of(x)),
+                style ? Covariates.fromNumeric(List.of("w"), List.of(w)) : Covariates.none(), null);
     }
 
     static ChainState state(boolean byGroup, boolean coarse, boolean attraction, double far) {
-        Survey survey = survey();
+        return state(survey(), byGroup, coarse, attraction, far);
+    }
+
+    private static ChainState state(Survey survey, boolean byGroup, boolean coarse, boolean attraction, double far) {
         RoundingChannel channel = coarse ? RoundingChannel.of(survey.scale(), new int[] {0, 3, 6}) : null;
         ChainState s = new ChainState(SurveyOrder.of(survey), byGroup, channel, attraction ? new int[] {2, 4} : new int[0]);
         UniformRandomProvider rng = RandomSource.XO_RO_SHI_RO_128_PP.create(5L);
@@ -58,7 +66,9 @@ class CollapsedPosteriorTest {
         s.level.intercept[2] = far; // 6: log-likelihoods near -20; 40: probabilities below 1e-300, the log-space path
         s.level.coefficient[0] = 0.4;
         if (coarse) {
-            s.style.coefficient[0] = -0.3;
+            if (s.style.count > 0) {
+                s.style.coefficient[0] = -0.3;
+            }
             s.style.intercept[1] = 0.2;
         }
         if (attraction) {
@@ -78,11 +88,15 @@ class CollapsedPosteriorTest {
      * attraction, bit 3 group 2 at 40 instead of 6 (its respondents then take the log-space path).
      */
     private static ChainState variant(int variant) {
-        return state(byGroup(variant), (variant / 2) % 2 == 0, (variant / 4) % 2 == 0, variant < 8 ? 6 : 40);
+        return state(byGroup(variant), coarse(variant), (variant / 4) % 2 == 0, variant < 8 ? 6 : 40);
     }
 
     private static boolean byGroup(int variant) {
         return variant % 2 == 0;
+    }
+
+    private static boolean coarse(int variant) {
+        return (variant / 2) % 2 == 0;
     }
 
     /** MODEL.md 4c summed over respondents, through ResponseLikelihood, plus MODEL.md 3 and 5 priors, from the state. */
@@ -221,7 +235,9 @@ class CollapsedPosteriorTest {
      * The leapfrog's gradient without the density, {@code gradientOnly}: the same doubles as the
      * full evaluation (on the probability paths and, with respondents 40 sd out, the log-space
      * one), minus infinity where a group's thresholds cross, and the density path back afterwards.
-     * The leapfrog's inner force, {@code force}: without attraction that gradient itself; under
+     * The leapfrog's inner force, {@code force}: with style covariates and without attraction that
+     * gradient itself; without style covariates it sums the coefficients' gradient cell by cell (so
+     * in another order; these cells are too small for AnswerGrid, see the test after next); under
      * attraction it reads the normaliser from a grid (NormaliserGrid), within 1e-7 of the gradient
      * in every coordinate relative to the largest entry (cubic Hermite on nodes 1/8 apart: error
      * near h^4/384 = 6e-7 times a fourth derivative; measured 3e-8 at most here, and 16 times
@@ -235,7 +251,7 @@ class CollapsedPosteriorTest {
             boolean attraction = (variant / 4) % 2 == 0;
             ChainState s = variant(variant);
             CollapsedPosterior posterior = new CollapsedPosterior(s, PRIORS);
-            assertEquals(attraction, posterior.approximatesForce());
+            assertEquals(attraction || !coarse(variant), posterior.approximatesForce());
             double[] theta = new double[posterior.dimension()];
             posterior.read(theta);
             double[] full = new double[theta.length];
@@ -251,7 +267,7 @@ class CollapsedPosteriorTest {
                 largest = Math.max(largest, Math.abs(v));
             }
             for (int j = 0; j < theta.length; j++) {
-                assertEquals(full[j], force[j], attraction ? 1e-7 * largest : 0.0, "coordinate " + j + " of variant " + variant);
+                assertEquals(full[j], force[j], posterior.approximatesForce() ? 1e-7 * largest : 0.0, "coordinate " + j + " of variant " + variant);
             }
             double[] again = new double[theta.length];
             posterior.force(theta, again);
@@ -262,6 +278,44 @@ class CollapsedPosteriorTest {
                 assertEquals(Double.NEGATIVE_INFINITY, posterior.gradientOnly(theta, only), "variant " + variant);
                 assertEquals(Double.NEGATIVE_INFINITY, posterior.force(theta, force), "variant " + variant);
             }
+        }
+    }
+
+    /**
+     * Without style covariates and with cells of a few hundred respondents, the force reads each
+     * (group, answer) cell's gradient from a grid in eta (AnswerGrid): within 1e-6 of the exact
+     * gradient in every coordinate relative to the largest entry (four-point Lagrange on nodes
+     * 1/16 apart: error at most (9/16) h^4 / 24 = 3.6e-7 times a fourth derivative; measured
+     * below 3e-8 here), not the exact gradient bit for bit (so the grid was read), and the same
+     * doubles when asked twice. Group 2 at 2.5: its high answers are the likely ones.
+     */
+    @Test
+    void forceReadsLargeCellsFromTheAnswerGrid() {
+        Survey survey = survey(8000, false);
+        for (int variant = 0; variant < 8; variant++) {
+            boolean byGroup = byGroup(variant);
+            boolean coarse = coarse(variant);
+            boolean attraction = (variant / 4) % 2 == 0;
+            CollapsedPosterior posterior = new CollapsedPosterior(state(survey, byGroup, coarse, attraction, 2.5), PRIORS);
+            double[] theta = new double[posterior.dimension()];
+            posterior.read(theta);
+            double[] exact = new double[theta.length];
+            double[] force = new double[theta.length];
+            posterior.gradient(theta, exact);
+            assertTrue(Double.isFinite(posterior.force(theta, force)), "variant " + variant);
+            double largest = 0;
+            double difference = 0;
+            for (int j = 0; j < theta.length; j++) {
+                largest = Math.max(largest, Math.abs(exact[j]));
+                difference = Math.max(difference, Math.abs(exact[j] - force[j]));
+            }
+            for (int j = 0; j < theta.length; j++) {
+                assertEquals(exact[j], force[j], 1e-6 * largest, "coordinate " + j + " of variant " + variant);
+            }
+            assertTrue(difference > 0, "variant " + variant + " read the grid");
+            double[] again = new double[theta.length];
+            posterior.force(theta, again);
+            assertArrayEquals(force, again, 0.0, "variant " + variant);
         }
     }
 

@@ -1,0 +1,220 @@
+package org.rungs.sampler;
+
+/**
+ * One group's log-likelihood gradient per answer, tabulated as a function of the latent level's
+ * mean eta on equally spaced nodes and read by four-point Lagrange interpolation: the leapfrog
+ * force of {@link CollapsedPosterior#force} on large surveys without style covariates, where
+ * every respondent of a (group, answer) cell has the same class probit and so a log-likelihood
+ * that depends on eta alone (MODEL.md 4c). A respondent then reads d log P / d eta from four
+ * nodes and adds its four interpolation weights to the nodes' sums; the gradient in the group's
+ * thresholds, attractions and class intercept is those sums times the tabulated gradients, taken
+ * once per node ({@link #flush}) instead of once per respondent.
+ *
+ * <p>Any force that is a fixed function of the position keeps the leapfrog map reversible and
+ * volume-preserving, so the Hamiltonian proposal stays exact when its acceptance uses the exact
+ * density at both ends (Neal 2011, MCMC using Hamiltonian dynamics, section 5.5.1). The cubic
+ * Lagrange error is at most (9/16) h^4 / 4! times a fourth derivative in eta (Abramowitz &
+ * Stegun 1964, 25.2.13 with n = 4; from memory). One group at a time; not thread-safe.
+ */
+final class AnswerGrid {
+    /** Node spacing in latent units unless the range needs more than {@link #CAPACITY} nodes. */
+    static final double SPACING = Double.parseDouble(System.getProperty("rungs.spacing", "0.0625"));
+    static final int CAPACITY = 1024;
+    /** The widest spacing used; beyond it no grid is built. */
+    static final double WIDEST = 0.25;
+    /** A cell is tabulated when it has at least this many respondents per node (else it is computed respondent by respondent). */
+    static final int RESPONDENTS_PER_NODE = 2;
+
+    private final int m;
+    /** Quantities per node besides d log P / d eta: the M-1 thresholds, the attracted numbers, the class probit. */
+    private final int width;
+    /** Per answer and node: d log P / d eta, at r * CAPACITY + node. */
+    private final double[] slope;
+    /** Per answer and node: d log P / d(c_t - eta) for t = 1..M-1, d log P / d a_k by position in the attraction set, d log P / d zeta. */
+    private final double[] gradient;
+    /** Per answer and node: the sum of the interpolation weights of the respondents read so far. */
+    private final double[] weight;
+    private final boolean[] on;
+    private double lowest;
+    private double spacing;
+    private int nodes;
+
+    AnswerGrid(int categories, int attracted) {
+        this.m = categories;
+        this.width = categories - 1 + attracted + 1;
+        this.slope = new double[categories * CAPACITY];
+        this.gradient = new double[categories * CAPACITY * width];
+        this.weight = new double[categories * CAPACITY];
+        this.on = new boolean[categories];
+    }
+
+    /**
+     * Lays out nodes over [low, high], with two nodes' margin below and three above so that every
+     * eta inside has four nodes around it; false when the range would need nodes wider than
+     * {@link #WIDEST} (or is not finite).
+     */
+    boolean place(double low, double high) {
+        double needed = (high - low) / (CAPACITY - 5);
+        if (!(needed <= WIDEST)) {
+            return false;
+        }
+        spacing = Math.max(SPACING, needed);
+        lowest = low - 2 * spacing;
+        // the cap only guards against rounding in the ceiling
+        nodes = Math.min(CAPACITY, (int) Math.ceil((high - low) / spacing) + 6);
+        return true;
+    }
+
+    int nodes() {
+        return nodes;
+    }
+
+    /** The latent level at node j. */
+    double node(int j) {
+        return lowest + j * spacing;
+    }
+
+    /** Whether answer r is read from the grid in this pass. */
+    boolean on(int r) {
+        return on[r];
+    }
+
+    void set(int r, boolean value) {
+        on[r] = value;
+    }
+
+    /** Stores answer r's gradients at node j: d log P / d eta, and the rest in the layout of {@link #gradient}. */
+    void store(int r, int j, double gradEta, double[] thresholds, double[] attractions, int attracted, double gradZeta) {
+        slope[r * CAPACITY + j] = gradEta;
+        int at = (r * CAPACITY + j) * width;
+        System.arraycopy(thresholds, 1, gradient, at, m - 1);
+        System.arraycopy(attractions, 0, gradient, at + m - 1, attracted);
+        gradient[at + width - 1] = gradZeta;
+    }
+
+    /**
+     * Reads the respondents from..to-1 of answer r, whose latent level's mean is intercept plus
+     * their covariates x[p][i] times coefficient[p]: adds each one's interpolation weights to the
+     * node sums and its d log P / d eta times x[p][i] to sums[p]; returns the sum of d log P / d eta.
+     */
+    double read(int r, double[][] x, double[] coefficient, int count, double intercept, int from, int to, double[] sums) {
+        if (count == 0 || count > 4) {
+            return readAny(r, x, coefficient, count, intercept, from, to, sums);
+        }
+        // Up to four covariates in registers; the missing ones repeat the first with coefficient 0.
+        double[] x0 = x[0];
+        double[] x1 = count > 1 ? x[1] : x0;
+        double[] x2 = count > 2 ? x[2] : x0;
+        double[] x3 = count > 3 ? x[3] : x0;
+        double b0 = coefficient[0];
+        double b1 = count > 1 ? coefficient[1] : 0;
+        double b2 = count > 2 ? coefficient[2] : 0;
+        double b3 = count > 3 ? coefficient[3] : 0;
+        double[] slope = this.slope;
+        double[] weight = this.weight;
+        double low = lowest;
+        double perNode = 1 / spacing;
+        int last = nodes - 3;
+        int offset = r * CAPACITY - 1;
+        double total = 0;
+        double s0 = 0;
+        double s1 = 0;
+        double s2 = 0;
+        double s3 = 0;
+        for (int i = from; i < to; i++) {
+            double v0 = x0[i];
+            double v1 = x1[i];
+            double v2 = x2[i];
+            double v3 = x3[i];
+            double gradEta = locateAndRead(intercept + v0 * b0 + v1 * b1 + v2 * b2 + v3 * b3, low, perNode, last, offset, slope, weight);
+            total += gradEta;
+            s0 += gradEta * v0;
+            s1 += gradEta * v1;
+            s2 += gradEta * v2;
+            s3 += gradEta * v3;
+        }
+        sums[0] += s0;
+        if (count > 1) {
+            sums[1] += s1;
+        }
+        if (count > 2) {
+            sums[2] += s2;
+        }
+        if (count > 3) {
+            sums[3] += s3;
+        }
+        return total;
+    }
+
+    private double readAny(int r, double[][] x, double[] coefficient, int count, double intercept, int from, int to, double[] sums) {
+        double low = lowest;
+        double perNode = 1 / spacing;
+        int last = nodes - 3;
+        int offset = r * CAPACITY - 1;
+        double total = 0;
+        for (int i = from; i < to; i++) {
+            double eta = intercept;
+            for (int p = 0; p < count; p++) {
+                eta += x[p][i] * coefficient[p];
+            }
+            double gradEta = locateAndRead(eta, low, perNode, last, offset, slope, weight);
+            total += gradEta;
+            for (int p = 0; p < count; p++) {
+                sums[p] += gradEta * x[p][i];
+            }
+        }
+        return total;
+    }
+
+    /** d log P / d eta at eta from the four nodes around it (four-point Lagrange), their weights added to the node sums. */
+    private static double locateAndRead(double eta, double low, double perNode, int last, int offset, double[] slope, double[] weight) {
+        double t = (eta - low) * perNode;
+        int j = Math.max(1, Math.min(last, (int) t));
+        double s = t - j;
+        double a = s + 1;
+        double b = s - 1;
+        double c = s - 2;
+        double w0 = -s * b * c * (1.0 / 6);
+        double w1 = a * b * c * 0.5;
+        double w2 = -a * s * c * 0.5;
+        double w3 = a * s * b * (1.0 / 6);
+        int v = offset + j;
+        weight[v] += w0;
+        weight[v + 1] += w1;
+        weight[v + 2] += w2;
+        weight[v + 3] += w3;
+        return w0 * slope[v] + w1 * slope[v + 1] + w2 * slope[v + 2] + w3 * slope[v + 3];
+    }
+
+    /**
+     * Adds, for every answer read from the grid, the node sums times the tabulated gradients to
+     * the thresholds' gradient at gradRows[base + t] (t = 1..M-1), the attractions' at
+     * gradAttraction[row + k] and the class intercept's at gradGamma[g] (if not null); clears the sums.
+     */
+    void flush(int[] attracted, double[] gradRows, int base, double[] gradAttraction, int row, double[] gradGamma, int g) {
+        int na = attracted.length;
+        for (int r = 0; r < m; r++) {
+            if (!on[r]) {
+                continue;
+            }
+            for (int j = 0; j < nodes; j++) {
+                int v = r * CAPACITY + j;
+                double w = weight[v];
+                if (w == 0) {
+                    continue;
+                }
+                weight[v] = 0;
+                int at = v * width;
+                for (int t = 1; t < m; t++) {
+                    gradRows[base + t] += w * gradient[at + t - 1];
+                }
+                for (int p = 0; p < na; p++) {
+                    gradAttraction[row + attracted[p]] += w * gradient[at + m - 1 + p];
+                }
+                if (gradGamma != null) {
+                    gradGamma[g] += w * gradient[at + width - 1];
+                }
+            }
+        }
+    }
+}
