@@ -5,10 +5,12 @@ package org.rungs.sampler;
  * mean eta on equally spaced nodes and read by four-point Lagrange interpolation: the leapfrog
  * force of {@link CollapsedPosterior#force} on large surveys without style covariates, where
  * every respondent of a (group, answer) cell has the same class probit and so a log-likelihood
- * that depends on eta alone (MODEL.md 4c). A respondent then reads d log P / d eta from four
- * nodes and adds its four interpolation weights to the nodes' sums; the gradient in the group's
- * thresholds, attractions and class intercept is those sums times the tabulated gradients, taken
- * once per node ({@link #flush}) instead of once per respondent.
+ * that depends on eta alone (MODEL.md 4c). Between nodes j and j+1 the interpolant through nodes
+ * j-1..j+2 is a cubic in s = (eta - node j) / h, so a respondent reads d log P / d eta as that
+ * cubic's value (Horner) and adds 1, s, s^2, s^3 to the interval's power sums; {@link #flush}
+ * turns those sums into the nodes' interpolation weights and the gradient in the group's
+ * thresholds, attractions and class intercept into those weights times the tabulated gradients,
+ * once per node instead of once per respondent.
  *
  * <p>Any force that is a fixed function of the position keeps the leapfrog map reversible and
  * volume-preserving, so the Hamiltonian proposal stays exact when its acceptance uses the exact
@@ -18,7 +20,7 @@ package org.rungs.sampler;
  */
 final class AnswerGrid {
     /** Node spacing in latent units unless the range needs more than {@link #CAPACITY} nodes. */
-    static final double SPACING = Double.parseDouble(System.getProperty("rungs.spacing", "0.0625"));
+    static final double SPACING = 0.0625;
     static final int CAPACITY = 1024;
     /** The widest spacing used; beyond it no grid is built. */
     static final double WIDEST = 0.25;
@@ -28,11 +30,25 @@ final class AnswerGrid {
     private final int m;
     /** Quantities per node besides d log P / d eta: the M-1 thresholds, the attracted numbers, the class probit. */
     private final int width;
+    /**
+     * Rows of the four-point Lagrange weights of nodes j-1..j+2 as polynomials in s: weight k is
+     * sum_d LAGRANGE[k][d] s^d.
+     */
+    private static final double[][] LAGRANGE = {
+        {0, -1.0 / 3, 0.5, -1.0 / 6},
+        {1, -0.5, -1, 0.5},
+        {0, 1, 0.5, -0.5},
+        {0, -1.0 / 6, 0, 1.0 / 6}};
+
     /** Per answer and node: d log P / d eta, at r * CAPACITY + node. */
     private final double[] slope;
+    /** Per answer and interval j (nodes j to j+1): the coefficients of d log P / d eta as a cubic in s, at 4 (r * CAPACITY + j). */
+    private final double[] curve;
+    /** Per answer and interval: the sums of 1, s, s^2, s^3 over the respondents read so far, laid out as {@link #curve}. */
+    private final double[] power;
     /** Per answer and node: d log P / d(c_t - eta) for t = 1..M-1, d log P / d a_k by position in the attraction set, d log P / d zeta. */
     private final double[] gradient;
-    /** Per answer and node: the sum of the interpolation weights of the respondents read so far. */
+    /** Per answer and node: the sum of the interpolation weights of the respondents read so far, filled by {@link #flush}. */
     private final double[] weight;
     private final boolean[] on;
     private double lowest;
@@ -43,6 +59,8 @@ final class AnswerGrid {
         this.m = categories;
         this.width = categories - 1 + attracted + 1;
         this.slope = new double[categories * CAPACITY];
+        this.curve = new double[categories * CAPACITY * 4];
+        this.power = new double[categories * CAPACITY * 4];
         this.gradient = new double[categories * CAPACITY * width];
         this.weight = new double[categories * CAPACITY];
         this.on = new boolean[categories];
@@ -92,10 +110,26 @@ final class AnswerGrid {
         gradient[at + width - 1] = gradZeta;
     }
 
+    /** After every node of answer r is stored: the cubic of each interval from the node slopes around it. */
+    void finish(int r) {
+        for (int j = 1; j <= nodes - 3; j++) {
+            int v = r * CAPACITY + j - 1;
+            int at = 4 * (r * CAPACITY + j);
+            for (int d = 0; d < 4; d++) {
+                double c = 0;
+                for (int k = 0; k < 4; k++) {
+                    c += LAGRANGE[k][d] * slope[v + k];
+                }
+                curve[at + d] = c;
+            }
+        }
+    }
+
     /**
      * Reads the respondents from..to-1 of answer r, whose latent level's mean is intercept plus
-     * their covariates x[p][i] times coefficient[p]: adds each one's interpolation weights to the
-     * node sums and its d log P / d eta times x[p][i] to sums[p]; returns the sum of d log P / d eta.
+     * their covariates x[p][i] times coefficient[p]: adds each one's powers of s to its
+     * interval's sums and its d log P / d eta times x[p][i] to sums[p]; returns the sum of
+     * d log P / d eta.
      */
     double read(int r, double[][] x, double[] coefficient, int count, double intercept, int from, int to, double[] sums) {
         if (count == 0 || count > 4) {
@@ -110,12 +144,10 @@ final class AnswerGrid {
         double b1 = count > 1 ? coefficient[1] : 0;
         double b2 = count > 2 ? coefficient[2] : 0;
         double b3 = count > 3 ? coefficient[3] : 0;
-        double[] slope = this.slope;
-        double[] weight = this.weight;
         double low = lowest;
         double perNode = 1 / spacing;
         int last = nodes - 3;
-        int offset = r * CAPACITY - 1;
+        int offset = r * CAPACITY;
         double total = 0;
         double s0 = 0;
         double s1 = 0;
@@ -126,7 +158,7 @@ final class AnswerGrid {
             double v1 = x1[i];
             double v2 = x2[i];
             double v3 = x3[i];
-            double gradEta = locateAndRead(intercept + v0 * b0 + v1 * b1 + v2 * b2 + v3 * b3, low, perNode, last, offset, slope, weight);
+            double gradEta = readOne(intercept + v0 * b0 + v1 * b1 + v2 * b2 + v3 * b3, low, perNode, last, offset);
             total += gradEta;
             s0 += gradEta * v0;
             s1 += gradEta * v1;
@@ -150,14 +182,14 @@ final class AnswerGrid {
         double low = lowest;
         double perNode = 1 / spacing;
         int last = nodes - 3;
-        int offset = r * CAPACITY - 1;
+        int offset = r * CAPACITY;
         double total = 0;
         for (int i = from; i < to; i++) {
             double eta = intercept;
             for (int p = 0; p < count; p++) {
                 eta += x[p][i] * coefficient[p];
             }
-            double gradEta = locateAndRead(eta, low, perNode, last, offset, slope, weight);
+            double gradEta = readOne(eta, low, perNode, last, offset);
             total += gradEta;
             for (int p = 0; p < count; p++) {
                 sums[p] += gradEta * x[p][i];
@@ -166,24 +198,20 @@ final class AnswerGrid {
         return total;
     }
 
-    /** d log P / d eta at eta from the four nodes around it (four-point Lagrange), their weights added to the node sums. */
-    private static double locateAndRead(double eta, double low, double perNode, int last, int offset, double[] slope, double[] weight) {
+    /** d log P / d eta at eta from its interval's cubic, its powers of s added to the interval's sums. */
+    private double readOne(double eta, double low, double perNode, int last, int offset) {
         double t = (eta - low) * perNode;
         int j = Math.max(1, Math.min(last, (int) t));
         double s = t - j;
-        double a = s + 1;
-        double b = s - 1;
-        double c = s - 2;
-        double w0 = -s * b * c * (1.0 / 6);
-        double w1 = a * b * c * 0.5;
-        double w2 = -a * s * c * 0.5;
-        double w3 = a * s * b * (1.0 / 6);
-        int v = offset + j;
-        weight[v] += w0;
-        weight[v + 1] += w1;
-        weight[v + 2] += w2;
-        weight[v + 3] += w3;
-        return w0 * slope[v] + w1 * slope[v + 1] + w2 * slope[v + 2] + w3 * slope[v + 3];
+        double square = s * s;
+        int v = 4 * (offset + j);
+        double[] power = this.power;
+        double[] curve = this.curve;
+        power[v] += 1;
+        power[v + 1] += s;
+        power[v + 2] += square;
+        power[v + 3] += square * s;
+        return curve[v] + s * (curve[v + 1] + s * (curve[v + 2] + s * curve[v + 3]));
     }
 
     /**
@@ -196,6 +224,18 @@ final class AnswerGrid {
         for (int r = 0; r < m; r++) {
             if (!on[r]) {
                 continue;
+            }
+            for (int j = 1; j <= nodes - 3; j++) {
+                int at = 4 * (r * CAPACITY + j);
+                if (power[at] == 0) {
+                    continue;
+                }
+                for (int k = 0; k < 4; k++) {
+                    double[] lagrange = LAGRANGE[k];
+                    weight[r * CAPACITY + j - 1 + k] += lagrange[0] * power[at] + lagrange[1] * power[at + 1]
+                            + lagrange[2] * power[at + 2] + lagrange[3] * power[at + 3];
+                }
+                java.util.Arrays.fill(power, at, at + 4, 0);
             }
             for (int j = 0; j < nodes; j++) {
                 int v = r * CAPACITY + j;

@@ -1067,6 +1067,11 @@ final class CollapsedPosterior {
                 answers.store(r, j, gradEta, gradT, answerAttraction, attracted.length, answerGradZeta);
             }
         }
+        for (int r = 0; r < m; r++) {
+            if (answers.on(r)) {
+                answers.finish(r);
+            }
+        }
         return true;
     }
 
