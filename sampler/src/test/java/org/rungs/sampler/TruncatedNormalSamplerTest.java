@@ -41,6 +41,12 @@ class TruncatedNormalSamplerTest {
                 Arguments.of(0.3, 1.5),
                 Arguments.of(-1.2, 0.4),
                 Arguments.of(0.2, 0.2001),
+                // exponential proposals from a bound at or near 0, the rejection above the far bound
+                Arguments.of(0.0, INF),
+                Arguments.of(0.5, 2.5),
+                Arguments.of(-3.0, -1.0),
+                // 0 inside, density changing by more than 2: normal draws until inside
+                Arguments.of(-0.1, 1.3),
                 Arguments.of(-30.0, 30.0),
                 Arguments.of(0.7, INF),
                 Arguments.of(-1.9, -0.7),
