@@ -32,11 +32,6 @@ public record SamplerSettings(int chains, int warmup, int draws, long seed, int 
         this(chains, warmup, draws, seed, threads, 1);
     }
 
-    /** The same settings with every iteration after warm-up kept. */
-    public SamplerSettings everyIteration() {
-        return new SamplerSettings(chains, warmup, draws, seed, threads, 1);
-    }
-
     /** Iterations per chain: warm-up, then thin per kept draw. */
     public int iterations() {
         return warmup + draws * thin;

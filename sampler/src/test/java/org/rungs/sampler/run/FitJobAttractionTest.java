@@ -84,7 +84,7 @@ class FitJobAttractionTest {
         assertTrue(printed.contains("plain ordered probit (style classes and attraction off)"), printed);
         // the comparison fit's own chains are judged too: 2 x 10 draws cannot reach an ESS of 100 per chain
         String compact = run.replaceAll("\\s", "");
-        assertTrue(compact.contains("\"comparison_fit\":{\"chains\":2,\"warmup\":10,\"draws\":10,\"verdict\":\"Notconverged:"),
+        assertTrue(compact.contains("\"comparison_fit\":{\"chains\":2,\"warmup\":10,\"draws\":10,\"thin\":1,\"verdict\":\"Notconverged:"),
                 run);
         assertTrue(printed.contains("warning: the plain ordered probit of coefficients.csv's comparison: Not converged: "),
                 printed);

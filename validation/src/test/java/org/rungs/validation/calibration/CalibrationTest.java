@@ -42,9 +42,17 @@ class CalibrationTest {
         assertTrue(s.failed().isEmpty(), SbcRuns.report(s));
     }
 
+    /**
+     * One group of 120, two covariates. 400 replications rather than 40: with the truncated
+     * normal draws of commit 8a36163 the first 40 of this seed flagged threshold.1 (p = 1e-4
+     * against the level 0.01/16), a false alarm the rule allows (see the class comment); the 400
+     * of the same seed, which include them, give it p = 0.37, and 400 on seeds 6 and 7 pass too
+     * (`calibrate --groups 1 --respondents 120 --covariates 2 --warmup 200 --draws 200`). Each fit
+     * takes about 10 ms.
+     */
     @Test
     void oneGroupIsCalibrated(@TempDir Path dir) {
-        CalibrationSummary s = SbcRuns.run(CalibrationConfig.small(20240603L, 40).withDesign(1, 120, 2), dir);
+        CalibrationSummary s = SbcRuns.run(CalibrationConfig.small(20240603L, 400).withDesign(1, 120, 2), dir);
         assertEquals(List.of("level.x1", "level.x2", "group_mean", "threshold.1", "threshold.2", "threshold.3",
                 "threshold.4", "intended_mean.g1"), s.parameters());
         assertTrue(s.failed().isEmpty(), SbcRuns.report(s));
