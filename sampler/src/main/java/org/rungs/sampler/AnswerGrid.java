@@ -26,10 +26,6 @@ final class AnswerGrid {
     static final double WIDEST = 0.25;
     /** A cell is tabulated when it has at least this many respondents per node (else it is computed respondent by respondent). */
     static final int RESPONDENTS_PER_NODE = 2;
-
-    private final int m;
-    /** Quantities per node besides d log P / d eta: the M-1 thresholds, the attracted numbers, the class probit. */
-    private final int width;
     /**
      * Rows of the four-point Lagrange weights of nodes j-1..j+2 as polynomials in s: weight k is
      * sum_d LAGRANGE[k][d] s^d.
@@ -40,6 +36,9 @@ final class AnswerGrid {
         {0, 1, 0.5, -0.5},
         {0, -1.0 / 6, 0, 1.0 / 6}};
 
+    private final int m;
+    /** Quantities per node besides d log P / d eta: the M-1 thresholds, the attracted numbers, the class probit. */
+    private final int width;
     /** Per answer and node: d log P / d eta, at r * CAPACITY + node. */
     private final double[] slope;
     /** Per answer and interval j (nodes j to j+1): the coefficients of d log P / d eta as a cubic in s, at 4 (r * CAPACITY + j). */
