@@ -664,10 +664,10 @@ final class CollapsedPosterior {
         }
         flushGrids(gridGroup, gridBuilt, false);
         if (grad && respondentGradEta != null) {
-            columnSums(x, levelCount, respondentGradEta, s.size, sampled, gradBeta);
+            columnSums(x, levelCount, respondentGradEta, 0, s.size, sampled, gradBeta);
         }
         if (grad && respondentGradZeta != null) {
-            columnSums(w, styleCount, respondentGradZeta, s.size, sampled, gradDelta);
+            columnSums(w, styleCount, respondentGradZeta, 0, s.size, sampled, gradDelta);
         }
         return total;
     }
@@ -701,24 +701,12 @@ final class CollapsedPosterior {
                     total += respondent(i, g, r, true, gridBuilt);
                 }
                 if (respondentGradEta != null) {
-                    rangeSums(x, levelCount, respondentGradEta, from, to, gradBeta);
+                    columnSums(x, levelCount, respondentGradEta, from, to, 1, gradBeta);
                 }
             }
             flushGrids(g, gridBuilt, answersBuilt);
         }
         return total;
-    }
-
-    /** sums[p] += sum of columns[p][i] * weight[i] over i = from..to-1. */
-    private static void rangeSums(double[][] columns, int count, double[] weight, int from, int to, double[] sums) {
-        for (int p = 0; p < count; p++) {
-            double[] column = columns[p];
-            double sum = 0;
-            for (int i = from; i < to; i++) {
-                sum += column[i] * weight[i];
-            }
-            sums[p] += sum;
-        }
     }
 
     /**
@@ -1187,12 +1175,13 @@ final class CollapsedPosterior {
     }
 
     /**
-     * sums[p] = sum over respondents i = 0, every, 2 every, ... of columns[p][i] * weight[i], each
-     * added in respondent order, four columns per pass so that four independent sums advance
+     * Adds to sums[p] the sum over respondents i = from, from + every, ... below to of
+     * columns[p][i] * weight[i] (the pass's sums start at 0, so they are those sums), each added in
+     * respondent order, four columns per pass so that four independent sums advance
      * together, the remaining columns one at a time (the same additions, in the same order, as
      * one running sum per column).
      */
-    private static void columnSums(double[][] columns, int count, double[] weight, int size, int every, double[] sums) {
+    private static void columnSums(double[][] columns, int count, double[] weight, int from, int to, int every, double[] sums) {
         int p = 0;
         for (; p + 4 <= count; p += 4) {
             double[] x0 = columns[p];
@@ -1203,25 +1192,25 @@ final class CollapsedPosterior {
             double s1 = 0;
             double s2 = 0;
             double s3 = 0;
-            for (int i = 0; i < size; i += every) {
+            for (int i = from; i < to; i += every) {
                 double v = weight[i];
                 s0 += x0[i] * v;
                 s1 += x1[i] * v;
                 s2 += x2[i] * v;
                 s3 += x3[i] * v;
             }
-            sums[p] = s0;
-            sums[p + 1] = s1;
-            sums[p + 2] = s2;
-            sums[p + 3] = s3;
+            sums[p] += s0;
+            sums[p + 1] += s1;
+            sums[p + 2] += s2;
+            sums[p + 3] += s3;
         }
         for (; p < count; p++) {
             double[] x0 = columns[p];
             double s0 = 0;
-            for (int i = 0; i < size; i += every) {
+            for (int i = from; i < to; i += every) {
                 s0 += x0[i] * weight[i];
             }
-            sums[p] = s0;
+            sums[p] += s0;
         }
     }
 
