@@ -23,7 +23,7 @@ import org.rungs.posteriors.Draws;
  * hyperparameters, style classes (when on), number attraction (when on), latent levels, threshold
  * rescaling steps, level coefficients and group levels (under attraction only while the redraw
  * scheme's cost is bounded, {@link BoundedRedrawSteps}), their pooling, then the coarse class's
- * coefficients and pooling.
+ * coefficients (with style covariates; {@link StyleClassUpdate}) and pooling.
  *
  * <p>The joint step, the collapsed threshold steps and the classes' intercepts are drawn with the
  * classes, the latent levels and the rejected draws of the attraction scheme integrated out;
@@ -94,7 +94,9 @@ final class Chain implements Checkpointed {
             sweep.add(PoolingUpdate.of(state.level, priors.groupMean(), priors.groupSd(), rng));
         }
         if (channel != null) {
-            sweep.add(RegressionUpdate.of(state.style, priors.style(), priors.styleMean(), rng));
+            if (StyleClassUpdate.augmented(state)) {
+                sweep.add(RegressionUpdate.of(state.style, priors.style(), priors.styleMean(), rng));
+            }
             if (state.groups > 1) {
                 sweep.add(PoolingUpdate.of(state.style, priors.styleMean(), priors.styleSd(), rng));
             }

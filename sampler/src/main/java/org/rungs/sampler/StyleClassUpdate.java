@@ -27,6 +27,12 @@ import org.rungs.priors.StandardNormal;
  * q = Phi(gamma[g] + w' delta); a rating that is not a coarse point is always full-scale. Last,
  * the class's probit latent from its normal truncated to the class's side of zero (Albert & Chib
  * 1993, section 3), keeping only the sums the conjugate update of gamma and delta needs.
+ *
+ * <p>Without style covariates nothing but gamma[g] reads the probit latents, and the random-walk
+ * move draws it with every latent integrated out: a respondent who is full-scale for sure then
+ * contributes log(1 - Phi(gamma[g])), n of them n times that, at no cost per respondent. So no
+ * latent is drawn and {@link Chain} leaves out the conjugate step, which would only repeat the
+ * move's work.
  */
 final class StyleClassUpdate implements Update, Checkpointed {
     private static final double TARGET_ACCEPTANCE = 0.44;
@@ -46,6 +52,9 @@ final class StyleClassUpdate implements Update, Checkpointed {
     private final double[] coarseShare;
     private final double[] proposedQ;
     private double proposedShare;
+    /** The last linear predictor given to {@link #logMixture} and its Phi. */
+    private double lastLinear = Double.NaN;
+    private double lastQ;
     /** Per coarse-point reporter: gamma[g] + w' delta. */
     private final double[] linear;
     private final double[] coefficientStep;
@@ -70,6 +79,8 @@ final class StyleClassUpdate implements Update, Checkpointed {
     private final int[] gap;
     private double coefficientLogScale;
     private int warmupStep;
+    /** Whether the probit latents are drawn (style covariates present); else they stay integrated out. */
+    private final boolean augmented;
 
     private StyleClassUpdate(ChainState state, Priors priors, UniformRandomProvider rng) {
         this.state = state;
@@ -124,6 +135,12 @@ final class StyleClassUpdate implements Update, Checkpointed {
         this.points = state.channel.points();
         this.excess = new double[state.attractionOn() ? state.groups * m : 0];
         this.coefficientLogScale = Math.log(1.0 / Math.sqrt(1.0 + state.size));
+        this.augmented = augmented(state);
+    }
+
+    /** Whether the coarse class's probit latents are drawn, for the conjugate step of {@link RegressionUpdate}. */
+    static boolean augmented(ChainState state) {
+        return state.style.count > 0;
     }
 
     static StyleClassUpdate of(ChainState state, Priors priors, UniformRandomProvider rng) {
@@ -147,7 +164,9 @@ final class StyleClassUpdate implements Update, Checkpointed {
         for (int g = 0; g < s.groups; g++) {
             drawClasses(g);
         }
-        addFixedRespondents();
+        if (augmented) {
+            addFixedRespondents();
+        }
         if (adapt) {
             warmupStep++;
         }
@@ -175,6 +194,9 @@ final class StyleClassUpdate implements Update, Checkpointed {
         double sum = 0;
         for (int r = 0; r < m; r++) {
             boolean point = channel.isPoint(r);
+            if (!point && !augmented) {
+                continue;
+            }
             int off = gap[g * m + r];
             for (int i = s.start[g * m + r], end = s.start[g * m + r + 1]; i < end; i++) {
                 double lin = style.linear(i, g);
@@ -189,7 +211,7 @@ final class StyleClassUpdate implements Update, Checkpointed {
                     coarse[at] = ResponseLikelihood.coarse(channel, s.thresholds, row, r, eta, -1, 0);
                     logMixture[at] = logMixture(at, lin);
                     coarseShare[at] = proposedShare;
-                } else {
+                } else if (augmented) {
                     double e = truncatedNormal.sample(Double.NEGATIVE_INFINITY, -lin);
                     sum += e;
                     for (int j = 0; j < p; j++) {
@@ -204,14 +226,18 @@ final class StyleClassUpdate implements Update, Checkpointed {
     /**
      * Moves gamma[g] by a random-walk step with the classes of the coarse-point reporters summed
      * out (MODEL.md 4c) and the probit latents of the others held: their log density changes by
-     * step * sum(e) - n step^2 / 2.
+     * step * sum(e) - n step^2 / 2; or, without style covariates, integrated out:
+     * n (log(1 - Phi(gamma + step)) - log(1 - Phi(gamma))).
      */
     private void moveIntercept(int g, boolean adapt) {
         ChainState s = state;
         RegressionBlock style = s.style;
         int m = s.categories;
         double step = Math.exp(logScale[g]) * normal.sample();
-        double change = step * residualSum[g] - 0.5 * fixedCount[g] * step * step;
+        double change = augmented
+                ? step * residualSum[g] - 0.5 * fixedCount[g] * step * step
+                : fixedCount[g] * (StandardNormal.logUpperTail(style.intercept[g] + step)
+                        - StandardNormal.logUpperTail(style.intercept[g]));
         for (int r : points) {
             for (int at = s.start[g * m + r] - gap[g * m + r], end = s.start[g * m + r + 1] - gap[g * m + r]; at < end; at++) {
                 double after = logMixture(at, linear[at] + step);
@@ -335,7 +361,12 @@ final class StyleClassUpdate implements Update, Checkpointed {
 
     /** log((1 - q) P(r | full) + q P(r | coarse)) with q = Phi(linear), left in {@link #proposedShare}. */
     private double logMixture(int at, double linearPredictor) {
-        double q = StandardNormal.cdf(linearPredictor);
+        if (linearPredictor != lastLinear) {
+            // Respondents of a group who share their style covariates (all of them, without any) share q.
+            lastQ = StandardNormal.cdf(linearPredictor);
+            lastLinear = linearPredictor;
+        }
+        double q = lastQ;
         proposedShare = q;
         double p = (1 - q) * full[at] + q * coarse[at];
         if (p > 1e-280) {
@@ -345,7 +376,7 @@ final class StyleClassUpdate implements Update, Checkpointed {
                 StandardNormal.logCdf(linearPredictor) + Math.log(coarse[at]));
     }
 
-    /** The class and probit latent of each coarse-point reporter of group g, added to the sums. */
+    /** The class and (if drawn) probit latent of each coarse-point reporter of group g, added to the sums. */
     private void drawClasses(int g) {
         ChainState s = state;
         RegressionBlock style = s.style;
@@ -372,6 +403,9 @@ final class StyleClassUpdate implements Update, Checkpointed {
                 }
                 byte z = rng.nextDouble() < share ? (byte) 1 : (byte) 0;
                 s.coarse[i] = z;
+                if (!augmented) {
+                    continue;
+                }
                 double latent = mean + (z == 1
                         ? truncatedNormal.sample(-mean, Double.POSITIVE_INFINITY)
                         : truncatedNormal.sample(Double.NEGATIVE_INFINITY, -mean));

@@ -121,6 +121,11 @@ public record CalibrationConfig(Scale scale, int groups, int respondents, int co
                 rankDraws, seed, r, alpha);
     }
 
+    public CalibrationConfig withStyleCovariates(int q) {
+        return new CalibrationConfig(scale, groups, respondents, covariates, q, simulation, fit, chains, warmup, draws, rankDraws,
+                seed, replications, alpha);
+    }
+
     public CalibrationConfig withSampler(int c, int w, int d, int l) {
         return new CalibrationConfig(scale, groups, respondents, covariates, styleCovariates, simulation, fit, c, w, d, l, seed,
                 replications, alpha);

@@ -41,6 +41,21 @@ class CoarseCalibrationTest {
     }
 
     /**
+     * The same without style covariates, where the class intercepts are moved with every probit
+     * latent integrated out and no conjugate step runs ({@code StyleClassUpdate}): 3 groups of 60,
+     * 40 replications, the same rule.
+     */
+    @Test
+    void coarseClassWithoutStyleCovariatesIsCalibrated(@TempDir Path dir) {
+        CalibrationSummary s = SbcRuns.run(CalibrationConfig.coarse(20240613L, 40).withStyleCovariates(0), dir);
+        assertEquals(40, s.results().size());
+        assertTrue(s.parameters().containsAll(List.of("style_mean", "style_sd", "style_group.g1", "coarse_share.g1")),
+                s.parameters().toString());
+        assertTrue(s.parameters().stream().noneMatch(p -> p.startsWith("style.")), s.parameters().toString());
+        assertTrue(s.failed().isEmpty(), SbcRuns.report(s));
+    }
+
+    /**
      * Simulated with style_mean ~ normal(-1,1), fitted with style_mean = normal(1,0.3): three
      * groups inform mu_gamma little, so its posterior stays near the wrong prior and the true
      * value ranks at the bottom in most replications. The rule must flag style_mean. With 20
