@@ -27,6 +27,7 @@ import org.rungs.priors.StandardNormal;
  */
 final class CollapsedPosterior {
     private static final double LOG_SQRT_2PI = 0.5 * Math.log(2 * Math.PI);
+    private static final double LN2 = Math.log(2);
     /** Below this a probability is recomputed in log space. */
     private static final double TINY = 1e-280;
     /**
@@ -118,6 +119,9 @@ final class CollapsedPosterior {
     private int sampled = 1;
     /** False while {@link #gradientOnly} runs: the probability paths then skip each respondent's logarithm. */
     private boolean densityWanted = true;
+    /** The running product of {@link #keep} and its power of 2 besides: the product is product * 2^productExponent. */
+    private double product;
+    private int productExponent;
     /** True while {@link #force} runs: under attraction the normaliser's part then comes from {@link #grid}. */
     private boolean onGrid;
     /** Under attraction, the tabulated normaliser of one group at a time; null otherwise. */
@@ -653,6 +657,8 @@ final class CollapsedPosterior {
         boolean gridBuilt = false;
         double total = 0;
         lastZeta = Double.NaN;
+        product = 1;
+        productExponent = 0;
         for (int i = 0; i < s.size; i += sampled) {
             int g = group[i];
             if (gridPass && g != gridGroup) {
@@ -663,6 +669,7 @@ final class CollapsedPosterior {
             total += respondent(i, g, category[i], grad, gridPass && gridBuilt);
         }
         flushGrids(gridGroup, gridBuilt, false);
+        total += Math.log(product) + productExponent * LN2;
         if (grad && respondentGradEta != null) {
             columnSums(x, levelCount, respondentGradEta, 0, s.size, sampled, gradBeta);
         }
@@ -840,7 +847,7 @@ final class CollapsedPosterior {
             likelihood += q * coarse;
         }
         if (!grad) {
-            return Math.log(likelihood);
+            return keep(likelihood);
         }
         double weightFull = (channel == null ? 1 : 1 - q) / likelihood;
         double gradEta = 0;
@@ -863,7 +870,24 @@ final class CollapsedPosterior {
             gradEta = addCoarse(r, q / likelihood, gradRows, base, gradEta);
         }
         chainRule(i, g, gradEta, gradZeta);
-        return densityWanted ? Math.log(likelihood) : 0;
+        return densityWanted ? keep(likelihood) : 0;
+    }
+
+    /**
+     * Multiplies a respondent's likelihood on a probability path into the pass's running product,
+     * whose logarithm {@link #likelihood} adds once at the end instead of one logarithm per
+     * respondent; returns 0. The product is rescaled by a power of 2 (exact) before it could
+     * underflow: above 2^-300 times a likelihood above {@link #PLAIN_FLOOR} stays normal.
+     */
+    private double keep(double likelihood) {
+        double p = product * likelihood;
+        if (p < 0x1p-300) {
+            int e = Math.getExponent(p);
+            productExponent += e;
+            p = Math.scalb(p, -e);
+        }
+        product = p;
+        return 0;
     }
 
     /** q = Phi(zeta), and phi(zeta) in {@link #lastPhi}; 0 without the coarse class. */
@@ -895,14 +919,14 @@ final class CollapsedPosterior {
             return Double.NaN;
         }
         if (!grad) {
-            return Math.log(likelihood);
+            return keep(likelihood);
         }
         for (int p = 0; p < attracted.length; p++) {
             gradAttraction[g * m + attracted[p]] += answerAttraction[p];
         }
         double gradEta = rowGradient(base);
         chainRule(i, g, gradEta, answerGradZeta);
-        return densityWanted ? Math.log(likelihood) : 0;
+        return densityWanted ? keep(likelihood) : 0;
     }
 
     /** Each threshold's offset c[g,k] - eta, smaller normal tail and density, for {@link #answer}. */
