@@ -57,6 +57,23 @@ final class LatentCells {
         }
     }
 
+    /**
+     * Adds a run of n latent values to cell c: their sum s1 and sum of squares s2, and per
+     * covariate j the sums x[j] of its values and xz[j] of its values times the latent values.
+     */
+    void addRun(int c, double n, double s1, double s2, double[] x, double[] xz) {
+        int at = c * width;
+        double[] a = sums;
+        a[at] += n;
+        a[at + 1] += s1;
+        a[at + 2] += s2;
+        int p = count;
+        for (int j = 0; j < p; j++) {
+            a[at + 3 + j] += x[j];
+            a[at + 3 + p + j] += xz[j];
+        }
+    }
+
     /** Fills the per-cell sums of x_i' beta and z x_i' beta for the current coefficients. */
     void prepare(double[] beta) {
         int p = count;

@@ -34,6 +34,9 @@ final class LatentLevelUpdate implements Update {
     private final ZigguratSampler.NormalizedGaussian normal;
     /** exp(a[g,k] - A[g]) by group and position: the acceptance probability of a draw in category k. */
     private final double[] acceptance;
+    /** A run's covariate sums and cross-products with the latent values, passed to {@link LatentCells#addRun}. */
+    private final double[] runX = new double[4];
+    private final double[] runXz = new double[4];
 
     private LatentLevelUpdate(ChainState state, UniformRandomProvider rng) {
         this.state = state;
@@ -54,9 +57,7 @@ final class LatentLevelUpdate implements Update {
         LatentCells cells = s.cells;
         cells.clear();
         double[] thresholds = s.thresholds;
-        byte[] category = s.category;
         byte[] coarse = s.coarse;
-        int[] group = s.group;
         double[][] columns = level.columns;
         int stride = s.categories + 1;
         int m = s.categories;
@@ -70,24 +71,117 @@ final class LatentLevelUpdate implements Update {
                 }
             }
         }
-        for (int i = 0; i < s.size; i++) {
-            int g = group[i];
-            double eta = level.linear(i, g);
-            int at = g * stride + category[i];
-            double lower = thresholds[at];
-            double upper = thresholds[at + 1];
-            if (coarse != null && coarse[i] == 1) {
-                intendedPiece(g * stride, category[i], eta);
-                lower = pieceLower;
-                upper = pieceUpper;
-            } else if (attraction) {
-                redraw(i, g, eta);
+        int p = level.count;
+        for (int c = 0; c < s.groups * m; c++) {
+            int from = s.start[c];
+            int to = s.start[c + 1];
+            if (from == to) {
+                continue;
             }
-            double latent = eta + truncatedNormal.sample(lower - eta, upper - eta);
-            int cell = coarse != null && coarse[i] == 1 ? categoryOf(thresholds, g * stride, m, latent) : category[i];
-            cells.add(g * m + cell, columns, i, latent);
+            int g = c / m;
+            int r = c - g * m;
+            if (p >= 1 && p <= 4) {
+                drawRun(c, g, r, from, to);
+                continue;
+            }
+            for (int i = from; i < to; i++) {
+                double eta = level.linear(i, g);
+                if (coarse != null && coarse[i] == 1) {
+                    drawCoarse(i, g, r, eta);
+                    continue;
+                }
+                if (attraction) {
+                    redraw(i, g, eta);
+                }
+                double latent = eta + truncatedNormal.sample(thresholds[g * stride + r] - eta, thresholds[g * stride + r + 1] - eta);
+                cells.add(c, columns, i, latent);
+            }
         }
         cells.finish(level, m);
+    }
+
+    /**
+     * The respondents from..to-1 of cell c (group g, answer r), with one to four level
+     * covariates: a full-scale respondent's latent value goes into sums kept in registers and
+     * added to the cell once at the end of the run (the survey is sorted by cell); a coarse
+     * responder's goes to the cell its intended answer picks.
+     */
+    private void drawRun(int c, int g, int r, int from, int to) {
+        ChainState s = state;
+        RegressionBlock level = s.level;
+        byte[] coarse = s.coarse;
+        boolean attraction = s.attractionOn();
+        int p = level.count;
+        double[][] x = level.columns;
+        // Up to four covariates in registers; the missing ones repeat the first with coefficient 0.
+        double[] x0 = x[0];
+        double[] x1 = p > 1 ? x[1] : x0;
+        double[] x2 = p > 2 ? x[2] : x0;
+        double[] x3 = p > 3 ? x[3] : x0;
+        double[] b = level.coefficient;
+        double b0 = b[0];
+        double b1 = p > 1 ? b[1] : 0;
+        double b2 = p > 2 ? b[2] : 0;
+        double b3 = p > 3 ? b[3] : 0;
+        double intercept = level.intercept[g];
+        double lower = s.thresholds[g * (s.categories + 1) + r];
+        double upper = s.thresholds[g * (s.categories + 1) + r + 1];
+        double n = 0;
+        double s1 = 0;
+        double s2 = 0;
+        double a0 = 0;
+        double a1 = 0;
+        double a2 = 0;
+        double a3 = 0;
+        double z0 = 0;
+        double z1 = 0;
+        double z2 = 0;
+        double z3 = 0;
+        for (int i = from; i < to; i++) {
+            double v0 = x0[i];
+            double v1 = x1[i];
+            double v2 = x2[i];
+            double v3 = x3[i];
+            double eta = intercept + v0 * b0 + v1 * b1 + v2 * b2 + v3 * b3;
+            if (coarse != null && coarse[i] == 1) {
+                drawCoarse(i, g, r, eta);
+                continue;
+            }
+            if (attraction) {
+                redraw(i, g, eta);
+            }
+            double z = eta + truncatedNormal.sample(lower - eta, upper - eta);
+            n += 1;
+            s1 += z;
+            s2 += z * z;
+            a0 += v0;
+            a1 += v1;
+            a2 += v2;
+            a3 += v3;
+            z0 += v0 * z;
+            z1 += v1 * z;
+            z2 += v2 * z;
+            z3 += v3 * z;
+        }
+        runX[0] = a0;
+        runX[1] = a1;
+        runX[2] = a2;
+        runX[3] = a3;
+        runXz[0] = z0;
+        runXz[1] = z1;
+        runXz[2] = z2;
+        runXz[3] = z3;
+        s.cells.addRun(c, n, s1, s2, runX, runXz);
+    }
+
+    /** A coarse responder's intended answer and latent level drawn together (MODEL.md 4a), added to the intended cell. */
+    private void drawCoarse(int i, int g, int point, double eta) {
+        ChainState s = state;
+        int stride = s.categories + 1;
+        intendedPiece(g * stride, point, eta);
+        double latent = eta + truncatedNormal.sample(pieceLower - eta, pieceUpper - eta);
+        int cell = categoryOf(s.thresholds, g * stride, s.categories, latent);
+        s.cells.add(g * s.categories + cell, s.level.columns, i, latent);
     }
 
     /** The rejected draws of full-scale respondent i: the redraw scheme run to its first acceptance. */
