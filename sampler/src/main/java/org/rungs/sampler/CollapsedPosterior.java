@@ -649,6 +649,9 @@ final class CollapsedPosterior {
         if (gridPass && answers != null) {
             return forcePass();
         }
+        if (sampled == 1 && styleCount == 0 && attracted.length == 0 && channel != null) {
+            return cellPass(grad);
+        }
         byte[] category = s.category;
         int[] group = s.group;
         double[][] x = s.level.columns;
@@ -712,6 +715,130 @@ final class CollapsedPosterior {
                 }
             }
             flushGrids(g, gridBuilt, answersBuilt);
+        }
+        return total;
+    }
+
+    /**
+     * The exact pass without style covariates or attraction, (group, answer) cell by cell: a cell
+     * whose answer is not a coarse point goes through {@link #fullScaleCell}, any other
+     * respondent through {@link #respondent}, the coefficients' gradient summed over its cell after it.
+     */
+    private double cellPass(boolean grad) {
+        double[][] x = state.level.columns;
+        int[] start = state.start;
+        double total = 0;
+        lastZeta = Double.NaN;
+        product = 1;
+        productExponent = 0;
+        for (int g = 0; g < groups; g++) {
+            for (int r = 0; r < m; r++) {
+                int from = start[g * m + r];
+                int to = start[g * m + r + 1];
+                if (from == to) {
+                    continue;
+                }
+                if (!channel.isPoint(r) && levelCount >= 1 && levelCount <= 4 && Math.abs(gamma[g]) <= PLAIN_PROBIT) {
+                    total += fullScaleCell(g, r, from, to, grad);
+                    continue;
+                }
+                for (int i = from; i < to; i++) {
+                    total += respondent(i, g, r, grad, false);
+                }
+                if (grad && respondentGradEta != null) {
+                    columnSums(x, levelCount, respondentGradEta, from, to, 1, gradBeta);
+                }
+            }
+        }
+        return total + Math.log(product) + productExponent * LN2;
+    }
+
+    /**
+     * The respondents from..to-1 of group g who gave answer r, not a coarse point, so full-scale
+     * for sure (MODEL.md 4c: P = (1 - q) pi_r with q = Phi(gamma[g]) shared by the cell): the
+     * log-likelihood of each on the probability path ({@link #keep}), the cell's log(1 - q) once,
+     * and, if asked, the gradient summed in registers (one to four level covariates) and added
+     * once per cell. A respondent whose pi_r is below {@link #PLAIN_FLOOR} takes
+     * {@link #respondent}'s path.
+     */
+    private double fullScaleCell(int g, int r, int from, int to, boolean grad) {
+        double[][] x = state.level.columns;
+        int p = levelCount;
+        double[] x0 = x[0];
+        double[] x1 = p > 1 ? x[1] : x0;
+        double[] x2 = p > 2 ? x[2] : x0;
+        double[] x3 = p > 3 ? x[3] : x0;
+        double b0 = beta[0];
+        double b1 = p > 1 ? beta[1] : 0;
+        double b2 = p > 2 ? beta[2] : 0;
+        double b3 = p > 3 ? beta[3] : 0;
+        double intercept = alpha[g];
+        int base = g * (m + 1);
+        double lowerRow = rows[base + r];
+        double upperRow = rows[base + r + 1];
+        double lowerWeight = r > 0 ? 1 : 0;
+        double upperWeight = r < m - 1 ? 1 : 0;
+        double total = 0;
+        int count = 0;
+        double sumLower = 0;
+        double sumUpper = 0;
+        double sumEta = 0;
+        double s0 = 0;
+        double s1 = 0;
+        double s2 = 0;
+        double s3 = 0;
+        for (int i = from; i < to; i++) {
+            double v0 = x0[i];
+            double v1 = x1[i];
+            double v2 = x2[i];
+            double v3 = x3[i];
+            double eta = intercept + v0 * b0 + v1 * b1 + v2 * b2 + v3 * b3;
+            // the densities come with the tails' table lookups, so this is also the cheaper call without the gradient
+            double pi = StandardNormal.intervalProbability(lowerRow - eta, upperRow - eta, density, 0);
+            if (!(pi > PLAIN_FLOOR)) {
+                total += respondent(i, g, r, grad, false);
+                if (grad) {
+                    double gradEta = respondentGradEta[i];
+                    s0 += gradEta * v0;
+                    s1 += gradEta * v1;
+                    s2 += gradEta * v2;
+                    s3 += gradEta * v3;
+                }
+                continue;
+            }
+            keep(pi);
+            count++;
+            if (grad) {
+                double lower = -lowerWeight * density[0] / pi;
+                double upper = upperWeight * density[1] / pi;
+                sumLower += lower;
+                sumUpper += upper;
+                double gradEta = -(lower + upper);
+                sumEta += gradEta;
+                s0 += gradEta * v0;
+                s1 += gradEta * v1;
+                s2 += gradEta * v2;
+                s3 += gradEta * v3;
+            }
+        }
+        double zeta = gamma[g];
+        total += count * StandardNormal.logUpperTail(zeta);
+        if (grad) {
+            gradRows[base + r] += sumLower;
+            gradRows[base + r + 1] += sumUpper;
+            gradAlpha[g] += sumEta;
+            gradBeta[0] += s0;
+            if (p > 1) {
+                gradBeta[1] += s1;
+            }
+            if (p > 2) {
+                gradBeta[2] += s2;
+            }
+            if (p > 3) {
+                gradBeta[3] += s3;
+            }
+            classProbit(zeta);
+            gradGamma[g] -= count * lastPhi / (1 - lastQ);
         }
         return total;
     }

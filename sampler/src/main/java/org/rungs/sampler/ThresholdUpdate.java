@@ -148,6 +148,8 @@ final class ThresholdUpdate extends ThresholdMoves {
      */
     void refresh() {
         ChainState s = state;
+        double lastLinear = Double.NaN;
+        double lastQ = 0;
         RegressionBlock level = s.level;
         double[] t = s.thresholds;
         int m = s.categories;
@@ -168,7 +170,13 @@ final class ThresholdUpdate extends ThresholdMoves {
                         lowerTail[slot] = tail(t[at] - eta);
                         upperTail[slot] = tail(t[at + 1] - eta);
                     } else {
-                        mixtureQ[slot] = StandardNormal.cdf(s.style.linear(i, g));
+                        double linear = s.style.linear(i, g);
+                        if (linear != lastLinear) {
+                            // respondents of a group who share their style covariates (all, without any) share q
+                            lastQ = StandardNormal.cdf(linear);
+                            lastLinear = linear;
+                        }
+                        mixtureQ[slot] = lastQ;
                         refreshMixture(slot, g * stride, j, eta);
                     }
                 }

@@ -87,8 +87,10 @@ class CollapsedPosteriorTest {
      * The 16 states the tests run through: bit 0 shared thresholds, bit 1 no coarse class, bit 2 no
      * attraction, bit 3 group 2 at 40 instead of 6 (its respondents then take the log-space path).
      */
+    /** Variants 0..15 with a style covariate, 16..31 the same without one (the exact pass cell by cell). */
     private static ChainState variant(int variant) {
-        return state(byGroup(variant), coarse(variant), (variant / 4) % 2 == 0, variant < 8 ? 6 : 40);
+        int v = variant % 16;
+        return state(variant < 16 ? survey() : survey(150, false), byGroup(v), coarse(v), (v / 4) % 2 == 0, v < 8 ? 6 : 40);
     }
 
     private static boolean byGroup(int variant) {
@@ -161,11 +163,12 @@ class CollapsedPosteriorTest {
 
     /**
      * Changes of the collapsed log posterior between two points equal changes of the direct sum,
-     * and read undoes write, in each combination of threshold mode, coarse class and attraction.
+     * and read undoes write, in each combination of threshold mode, coarse class, attraction and
+     * style covariate.
      */
     @Test
     void densityMatchesRespondentByRespondentSum() {
-        for (int variant = 0; variant < 16; variant++) {
+        for (int variant = 0; variant < 32; variant++) {
             ChainState s = variant(variant);
             CollapsedPosterior posterior = new CollapsedPosterior(s, PRIORS);
             double[] theta = new double[posterior.dimension()];
@@ -211,7 +214,7 @@ class CollapsedPosteriorTest {
      */
     @Test
     void gradientMatchesFiniteDifferences() {
-        for (int variant = 0; variant < 16; variant++) {
+        for (int variant = 0; variant < 32; variant++) {
             ChainState s = variant(variant);
             CollapsedPosterior posterior = new CollapsedPosterior(s, PRIORS);
             double[] theta = new double[posterior.dimension()];
