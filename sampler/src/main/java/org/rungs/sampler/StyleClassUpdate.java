@@ -36,6 +36,9 @@ import org.rungs.priors.StandardNormal;
  */
 final class StyleClassUpdate implements Update, Checkpointed {
     private static final double TARGET_ACCEPTANCE = 0.44;
+    /** Bounds of the running product of likelihood ratios before its log is taken. */
+    private static final double PRODUCT_LOW = 1e-150;
+    private static final double PRODUCT_HIGH = 1e150;
     private final ChainState state;
     private final UniformRandomProvider rng;
     private final TruncatedNormalSampler truncatedNormal;
@@ -209,8 +212,13 @@ final class StyleClassUpdate implements Update, Checkpointed {
                         full[at] *= (excess[g * m + r] + 1) / s.normaliser[i];
                     }
                     coarse[at] = ResponseLikelihood.coarse(channel, s.thresholds, row, r, eta, -1, 0);
-                    logMixture[at] = logMixture(at, lin);
-                    coarseShare[at] = proposedShare;
+                    if (augmented) {
+                        logMixture[at] = logMixture(at, lin);
+                        coarseShare[at] = proposedShare;
+                    } else {
+                        // without style covariates the moves read mixtures as ratios (sharedShareChange)
+                        coarseShare[at] = share(lin);
+                    }
                 } else if (augmented) {
                     double e = truncatedNormal.sample(Double.NEGATIVE_INFINITY, -lin);
                     sum += e;
@@ -234,17 +242,21 @@ final class StyleClassUpdate implements Update, Checkpointed {
         RegressionBlock style = s.style;
         int m = s.categories;
         double step = Math.exp(logScale[g]) * normal.sample();
-        double change = augmented
-                ? step * residualSum[g] - 0.5 * fixedCount[g] * step * step
-                : fixedCount[g] * (StandardNormal.logUpperTail(style.intercept[g] + step)
-                        - StandardNormal.logUpperTail(style.intercept[g]));
-        for (int r : points) {
-            for (int at = s.start[g * m + r] - gap[g * m + r], end = s.start[g * m + r + 1] - gap[g * m + r]; at < end; at++) {
-                double after = logMixture(at, linear[at] + step);
-                proposedLog[at] = after;
-                proposedQ[at] = proposedShare;
-                change += after - logMixture[at];
+        double change;
+        if (augmented) {
+            change = step * residualSum[g] - 0.5 * fixedCount[g] * step * step;
+            for (int r : points) {
+                for (int at = s.start[g * m + r] - gap[g * m + r], end = s.start[g * m + r + 1] - gap[g * m + r]; at < end; at++) {
+                    double after = logMixture(at, linear[at] + step);
+                    proposedLog[at] = after;
+                    proposedQ[at] = proposedShare;
+                    change += after - logMixture[at];
+                }
             }
+        } else {
+            change = fixedCount[g] * (StandardNormal.logUpperTail(style.intercept[g] + step)
+                    - StandardNormal.logUpperTail(style.intercept[g]))
+                    + sharedShareChange(g, style.intercept[g], style.intercept[g] + step);
         }
         double intercept = style.intercept[g];
         double prior;
@@ -261,11 +273,16 @@ final class StyleClassUpdate implements Update, Checkpointed {
             if (s.groups == 1) {
                 style.mean = style.intercept[g];
             }
+            double q = augmented ? 0 : share(style.intercept[g]);
             for (int r : points) {
                 for (int at = s.start[g * m + r] - gap[g * m + r], end = s.start[g * m + r + 1] - gap[g * m + r]; at < end; at++) {
                     linear[at] += step;
-                    logMixture[at] = proposedLog[at];
-                    coarseShare[at] = proposedQ[at];
+                    if (augmented) {
+                        logMixture[at] = proposedLog[at];
+                        coarseShare[at] = proposedQ[at];
+                    } else {
+                        coarseShare[at] = q;
+                    }
                 }
             }
             residualSum[g] -= fixedCount[g] * step;
@@ -349,6 +366,47 @@ final class StyleClassUpdate implements Update, Checkpointed {
         }
     }
 
+    /**
+     * Without style covariates: the change of the coarse-point reporters' log mixtures in group g
+     * when every one's class probit moves from {@code before} to {@code after}, as the log of a
+     * running product of likelihood ratios (one logarithm per {@link #PRODUCT_LOW} to
+     * {@link #PRODUCT_HIGH} of it, not one per respondent); a respondent whose mixture is too small
+     * for a ratio enters in log space.
+     */
+    private double sharedShareChange(int g, double before, double after) {
+        ChainState s = state;
+        int m = s.categories;
+        double qBefore = share(before);
+        double qAfter = share(after);
+        double change = 0;
+        double product = 1;
+        for (int r : points) {
+            for (int at = s.start[g * m + r] - gap[g * m + r], end = s.start[g * m + r + 1] - gap[g * m + r]; at < end; at++) {
+                double now = (1 - qBefore) * full[at] + qBefore * coarse[at];
+                double moved = (1 - qAfter) * full[at] + qAfter * coarse[at];
+                if (now > 1e-280 && moved > 1e-280) {
+                    product *= moved / now;
+                    if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
+                        change += Math.log(product);
+                        product = 1;
+                    }
+                } else {
+                    change += logMixture(at, after) - logMixture(at, before);
+                }
+            }
+        }
+        return change + Math.log(product);
+    }
+
+    /** Phi(linear), reused while the linear predictor repeats (see {@link #logMixture}). */
+    private double share(double linearPredictor) {
+        if (linearPredictor != lastLinear) {
+            lastQ = StandardNormal.cdf(linearPredictor);
+            lastLinear = linearPredictor;
+        }
+        return lastQ;
+    }
+
     /** w_i' d for the pending coefficient step d. */
     private double movedBy(int i) {
         RegressionBlock style = state.style;
@@ -361,12 +419,8 @@ final class StyleClassUpdate implements Update, Checkpointed {
 
     /** log((1 - q) P(r | full) + q P(r | coarse)) with q = Phi(linear), left in {@link #proposedShare}. */
     private double logMixture(int at, double linearPredictor) {
-        if (linearPredictor != lastLinear) {
-            // Respondents of a group who share their style covariates (all of them, without any) share q.
-            lastQ = StandardNormal.cdf(linearPredictor);
-            lastLinear = linearPredictor;
-        }
-        double q = lastQ;
+        // Respondents of a group who share their style covariates (all of them, without any) share q.
+        double q = share(linearPredictor);
         proposedShare = q;
         double p = (1 - q) * full[at] + q * coarse[at];
         if (p > 1e-280) {
