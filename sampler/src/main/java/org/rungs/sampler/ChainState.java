@@ -55,8 +55,16 @@ final class ChainState implements Checkpointed {
      * every later update that moves a threshold or an attraction before the levels move; empty
      * when attraction is off.
      */
-    final double[] cdf;
+    double[] cdf;
     final double[] normaliser;
+    /**
+     * Under attraction, a second array shaped as {@link #cdf}, which the joint step fills at its
+     * proposal and swaps in when it accepts ({@link JointHamiltonianUpdate}); and whether
+     * {@link #cdf} holds, bit for bit, what {@link ThresholdUpdate#refresh} would compute at the
+     * current state (set by the joint step, cleared by that refresh), so that it need not.
+     */
+    double[] spareCdf;
+    boolean cdfCurrent;
     /** exp(a[g,k]) - 1 of the group being refreshed, by position. */
     private final double[] excess;
 
@@ -84,6 +92,11 @@ final class ChainState implements Checkpointed {
         this.attraction = new double[groups * categories];
         this.attractionMean = new double[categories];
         this.cdf = new double[attracted.length > 0 ? size * (categories + 1) : 0];
+        this.spareCdf = new double[cdf.length];
+        for (int at = categories; at < cdf.length; at += categories + 1) {
+            cdf[at] = 1;
+            spareCdf[at] = 1;
+        }
         this.normaliser = new double[attracted.length > 0 ? size : 0];
         this.excess = new double[categories];
         common = new double[categories + 1];
@@ -124,6 +137,13 @@ final class ChainState implements Checkpointed {
             }
             normaliser[i] = n;
         }
+    }
+
+    /** Makes {@link #spareCdf} the current {@link #cdf} and the current one the spare. */
+    void swapCdf() {
+        double[] current = cdf;
+        cdf = spareCdf;
+        spareCdf = current;
     }
 
     /** Copies the common thresholds into every group's row (shared mode). */

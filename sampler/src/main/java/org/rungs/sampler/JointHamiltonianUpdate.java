@@ -76,6 +76,7 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
      */
     private static final int METRIC_RESPONDENTS = 20_000;
 
+    private final ChainState state;
     private final CollapsedPosterior posterior;
     private final UniformRandomProvider rng;
     private final ZigguratSampler.NormalizedGaussian normal;
@@ -110,6 +111,7 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
     private long walls;
 
     private JointHamiltonianUpdate(ChainState state, Priors priors, int warmup, UniformRandomProvider rng) {
+        this.state = state;
         this.posterior = new CollapsedPosterior(state, priors);
         this.rng = rng;
         this.normal = ZigguratSampler.NormalizedGaussian.of(rng);
@@ -164,7 +166,17 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
 
     private void trajectory(boolean adapt) {
         posterior.read(theta);
-        double start = posterior.gradient(theta, gradient);
+        // Under attraction every kick takes the interpolated force and the ends only the density,
+        // which costs half the exact gradient there (its normal densities at every threshold)
+        boolean forceAtEnds = posterior.forceAtEnds();
+        // ...and its passes leave each respondent's cdfs, the current state's or the proposal's,
+        // for the threshold and attraction steps after it (ChainState.cdfCurrent)
+        boolean keepCdfs = forceAtEnds && posterior.keepsCdfs();
+        double start = keepCdfs ? posterior.logDensity(theta, state.cdf)
+                : forceAtEnds ? posterior.logDensity(theta) : posterior.gradient(theta, gradient);
+        if (forceAtEnds) {
+            posterior.force(theta, gradient);
+        }
         whiten(gradient);
         double step = Math.exp(logStep) * (0.9 + 0.2 * rng.nextDouble());
         int mean = (int) Math.min(MAX_LEAPS, Math.ceil(LENGTH / Math.exp(logStep)));
@@ -186,11 +198,21 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
                 proposal[j] += work[j];
             }
             // Only the last position's density enters the acceptance. Between the ends the force
-            // may be any fixed function of the position (under attraction an interpolated gradient,
+            // may be any fixed function of the position (an interpolated gradient,
             // CollapsedPosterior.force): both half-kicks at an inner position use it, whichever way
-            // the trajectory runs, and the exact gradient at both ends, so the map stays reversible
-            // and volume-preserving and the Metropolis ratio exact (Neal 2011, section 5.5.1).
-            end = l == leaps - 1 ? posterior.gradient(proposal, gradient) : posterior.force(proposal, gradient);
+            // the trajectory runs, and at both ends either the exact gradient or, under attraction,
+            // the same force, so the map stays reversible and volume-preserving and the Metropolis
+            // ratio exact (Neal 2011, section 5.5.1).
+            if (l < leaps - 1) {
+                end = posterior.force(proposal, gradient);
+            } else if (!forceAtEnds) {
+                end = posterior.gradient(proposal, gradient);
+            } else {
+                end = posterior.force(proposal, gradient);
+                if (end != Double.NEGATIVE_INFINITY && !Double.isNaN(end)) {
+                    end = keepCdfs ? posterior.logDensity(proposal, state.spareCdf) : posterior.logDensity(proposal);
+                }
+            }
             whiten(gradient);
             for (int j = 0; j < dimension; j++) {
                 momentum[j] += 0.5 * step * gradient[j];
@@ -207,7 +229,15 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
         boolean accept = rng.nextDouble() < probability;
         if (accept) {
             posterior.write(proposal);
+            if (keepCdfs) {
+                state.swapCdf();
+            }
+        } else if (keepCdfs) {
+            // the state as the start's pass read it (the thresholds and attractions rebuilt from
+            // theta may differ from the state's in the last bit), so that its cdfs are the state's
+            posterior.write(theta);
         }
+        state.cdfCurrent = keepCdfs;
         if (!adapt) {
             proposed++;
             accepted += accept ? 1 : 0;

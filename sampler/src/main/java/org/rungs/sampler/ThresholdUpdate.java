@@ -187,13 +187,18 @@ final class ThresholdUpdate extends ThresholdMoves {
         }
     }
 
-    /** Fills {@link ChainState#cdf} and {@link ChainState#normaliser} and the odds of the attraction. */
+    /**
+     * Fills {@link ChainState#cdf} (unless the joint step left it current, {@link ChainState#cdfCurrent})
+     * and {@link ChainState#normaliser} and the odds of the attraction.
+     */
     private void refreshAttraction() {
         ChainState s = state;
         int m = s.categories;
         for (int at = 0; at < excess.length; at++) {
             excess[at] = Math.expm1(s.attraction[at]);
         }
+        boolean current = s.cdfCurrent;
+        s.cdfCurrent = false;
         for (int g = 0; g < s.groups; g++) {
             int row = g * stride;
             int from = s.start[g * m];
@@ -201,9 +206,10 @@ final class ThresholdUpdate extends ThresholdMoves {
             for (int i = from; i < to; i++) {
                 double eta = s.level.linear(i, g);
                 covariatePart[i] = eta - s.level.intercept[g];
+                if (current) {
+                    continue;
+                }
                 int at = i * (m + 1);
-                s.cdf[at] = 0;
-                s.cdf[at + m] = 1;
                 for (int k = 1; k < m; k++) {
                     s.cdf[at + k] = StandardNormal.cdf(s.thresholds[row + k] - eta);
                 }

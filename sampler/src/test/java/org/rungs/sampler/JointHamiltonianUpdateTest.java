@@ -2,10 +2,12 @@ package org.rungs.sampler;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import org.apache.commons.rng.simple.RandomSource;
 import org.junit.jupiter.api.Test;
 import org.rungs.priors.Priors;
+import org.rungs.priors.StandardNormal;
 
 class JointHamiltonianUpdateTest {
     /**
@@ -28,5 +30,35 @@ class JointHamiltonianUpdateTest {
         assertEquals(9, step.buildAttempts());
         step.update(false);
         assertFalse(Double.isFinite(step.acceptanceRate()), "the step never ran");
+    }
+
+    /**
+     * Under attraction the step's density passes leave each respondent's cdfs at the state the
+     * step keeps, bit for bit those that the threshold update computes (which then skips them),
+     * whether the trajectory was accepted or rejected.
+     */
+    @Test
+    void theCdfsItLeavesAreThoseOfTheStateItKeeps() {
+        ChainState s = CollapsedPosteriorTest.state(true, true, true, 6);
+        JointHamiltonianUpdate step = JointHamiltonianUpdate.of(s, Priors.defaults(), 40,
+                RandomSource.XO_RO_SHI_RO_128_PP.create(11L));
+        for (int sweep = 0; sweep < 40; sweep++) {
+            step.update(true);
+        }
+        int m = s.categories;
+        int trajectories = 40;
+        for (int t = 0; t < trajectories; t++) {
+            step.update(false);
+            assertTrue(s.cdfCurrent, "trajectory " + t);
+            for (int i = 0; i < s.size; i++) {
+                int row = s.group[i] * (m + 1);
+                for (int k = 0; k <= m; k++) {
+                    double expected = k == 0 ? 0 : k == m ? 1 : StandardNormal.cdf(s.thresholds[row + k] - s.eta(i));
+                    assertEquals(expected, s.cdf[i * (m + 1) + k], 0.0, "respondent " + i + ", threshold " + k + ", trajectory " + t);
+                }
+            }
+        }
+        double rate = step.acceptanceRate();
+        assertTrue(rate > 0 && rate < 1, "both accepted and rejected trajectories: " + rate);
     }
 }
