@@ -56,6 +56,8 @@ final class ThresholdUpdate extends ThresholdMoves {
     private final double[] excess;
     private final double[] proposedCdf;
     private final double[] proposedNormaliser;
+    /** The log-ratio beyond what {@link #mixtureRatio} returned, since the caller last took it. */
+    private double beyondProduct;
     /** Whether only the two end thresholds are stepped (see {@link #ends}). */
     private final boolean endsOnly;
     /** Categories whose respondents the stepped thresholds read, so the caches hold them. */
@@ -264,9 +266,16 @@ final class ThresholdUpdate extends ThresholdMoves {
                 int from = start[g * m + j] - gap[g * m + j];
                 int to = start[g * m + j + 1] - gap[g * m + j];
                 if (channel != null && channel.isPoint(j)) {
+                    double product = 1;
                     for (int i = from; i < to; i++) {
-                        change += mixtureLogRatio(i, row, j, s.level.intercept[g] + covariatePart[i], k, delta, 1, 1);
+                        product *= mixtureRatio(i, row, j, s.level.intercept[g] + covariatePart[i], k, delta, 1, 1);
+                        if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
+                            change += Math.log(product);
+                            product = 1;
+                        }
                     }
+                    change += Math.log(product) + beyondProduct;
+                    beyondProduct = 0;
                 } else if (j == k - 1) {
                     change += runChange(from, to, s.level.intercept[g], lower, cut, true, delta);
                 } else {
@@ -342,14 +351,14 @@ final class ThresholdUpdate extends ThresholdMoves {
                 int r = s.category[i];
                 if (channel != null && channel.isPoint(r)) {
                     double odds = excess[g * m + r] + 1;
-                    change += mixtureLogRatio(i, row, r, eta, k, delta, odds / before, odds / after);
-                    continue;
-                }
-                product *= before / after;
-                if (r == k - 1) {
-                    product *= ownFactor(i, eta, lower, cut, true, delta);
-                } else if (r == k) {
-                    product *= ownFactor(i, eta, cut, upper, false, delta);
+                    product *= mixtureRatio(i, row, r, eta, k, delta, odds / before, odds / after);
+                } else {
+                    product *= before / after;
+                    if (r == k - 1) {
+                        product *= ownFactor(i, eta, lower, cut, true, delta);
+                    } else if (r == k) {
+                        product *= ownFactor(i, eta, cut, upper, false, delta);
+                    }
                 }
                 if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
                     change += Math.log(product);
@@ -357,6 +366,8 @@ final class ThresholdUpdate extends ThresholdMoves {
                 }
             }
         }
+        change += beyondProduct;
+        beyondProduct = 0;
         return change + Math.log(product);
     }
 
@@ -427,12 +438,15 @@ final class ThresholdUpdate extends ThresholdMoves {
     }
 
     /**
-     * The change of log((1 - q) w P(r = j | full) + q P(r = j | coarse)) (MODEL.md 4c, the class
-     * summed out) when boundary k moves by delta, for a respondent reporting coarse point j; w is
-     * 1 without attraction and exp(a[g,j]) / N_i with it (MODEL.md 4b), before and after.
+     * The ratio after/before of (1 - q) w P(r = j | full) + q P(r = j | coarse) (MODEL.md 4c, the
+     * class summed out) when boundary k moves by delta, for a respondent reporting coarse point j;
+     * w is 1 without attraction and exp(a[g,j]) / N_i with it (MODEL.md 4b), before and after.
+     * Where either underflows, from the logs, with the part of the log beyond +-300 (which the
+     * running product could not hold) added to {@link #beyondProduct}; the caller multiplies the
+     * ratio into its running product and adds that field to its log.
      */
-    private double mixtureLogRatio(int i, int row, int j, double eta, int k, double delta,
-                                   double weightBefore, double weightAfter) {
+    private double mixtureRatio(int i, int row, int j, double eta, int k, double delta,
+                                double weightBefore, double weightAfter) {
         RoundingChannel channel = state.channel;
         double[] t = state.thresholds;
         double q = mixtureQ[i];
@@ -445,13 +459,16 @@ final class ThresholdUpdate extends ThresholdMoves {
         double before = (1 - q) * weightBefore * fullBefore + q * coarseBefore;
         double after = (1 - q) * weightAfter * fullAfter + q * coarseAfter;
         if (after > 1e-280 && before > 1e-280) {
-            return Math.log(after / before);
+            return after / before;
         }
         double logBefore = ResponseLikelihood.logSum(Math.log1p(-q) + Math.log(weightBefore) + ResponseLikelihood.logFull(t, row, j, eta),
                 Math.log(q) + ResponseLikelihood.logCoarse(channel, t, row, j, eta, -1, 0));
         double logAfter = ResponseLikelihood.logSum(Math.log1p(-q) + Math.log(weightAfter) + logFullMoved(t, row, j, eta, k, delta),
                 Math.log(q) + ResponseLikelihood.logCoarse(channel, t, row, j, eta, k, delta));
-        return logAfter - logBefore;
+        double log = logAfter - logBefore;
+        double bounded = Math.max(-300, Math.min(300, log));
+        beyondProduct += log - bounded;
+        return Math.exp(bounded);
     }
 
     private static double logFullMoved(double[] t, int row, int j, double eta, int k, double delta) {
