@@ -57,6 +57,8 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
     private static final double WIDENING = 1.2;
     private final ChainState state;
     private final int blockSteps;
+    /** Whether the ridge moves take their first stage on the grid ({@link #ridgeChange}); false only in tests. */
+    private final boolean ridgeFirstStage;
     private final UniformRandomProvider rng;
     private final ZigguratSampler.NormalizedGaussian normal;
     private final Normal meanPrior;
@@ -115,12 +117,25 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
     private final double[] nodeCdf;
     private final double[] nodeDensity;
     private final double[] blockShareSlope;
+    /**
+     * The ridge moves' first stage ({@link #ridgeChange}): per group a grid of latent levels, at
+     * most this many nodes, spaced at least as {@link NormaliserGrid#SPACING}; per group, class
+     * (full-scale, coarse), answer and node the cubic Lagrange weights of the respondents; per
+     * group, node and threshold the cdf at the node.
+     */
+    static final int RIDGE_NODES = 160;
+    private final double[] ridgeLow;
+    private final double[] ridgeSpacing;
+    private final int[] ridgeCount;
+    private final double[] ridgeWeight;
+    private final double[] ridgeCdf;
     private double sumOfSquares;
     private int warmupStep;
 
-    private AttractionUpdate(ChainState state, Priors priors, UniformRandomProvider rng, int blockSteps) {
+    private AttractionUpdate(ChainState state, Priors priors, UniformRandomProvider rng, int blockSteps, boolean ridgeFirstStage) {
         this.state = state;
         this.blockSteps = blockSteps;
+        this.ridgeFirstStage = ridgeFirstStage;
         this.rng = rng;
         this.normal = ZigguratSampler.NormalizedGaussian.of(rng);
         this.meanPrior = priors.attractionMean();
@@ -159,6 +174,11 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
         this.nodeCdf = new double[m + 1];
         this.nodeDensity = new double[m + 1];
         this.blockShareSlope = new double[count];
+        this.ridgeLow = new double[state.groups];
+        this.ridgeSpacing = new double[state.groups];
+        this.ridgeCount = new int[state.groups];
+        this.ridgeWeight = new double[state.groups * 2 * m * RIDGE_NODES];
+        this.ridgeCdf = new double[state.groups * RIDGE_NODES * (m + 1)];
         for (int j = 0; j < attracted.length; j++) {
             jointLogScale[j] = Math.log(0.1);
             for (int g = 0; g < state.groups; g++) {
@@ -169,18 +189,26 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
     }
 
     static AttractionUpdate of(ChainState state, Priors priors, UniformRandomProvider rng) {
-        return new AttractionUpdate(state, priors, rng, BLOCK_STEPS);
+        return new AttractionUpdate(state, priors, rng, BLOCK_STEPS, true);
     }
 
     /** With {@code blockSteps} block moves per sweep (0: none), for tests. */
     static AttractionUpdate of(ChainState state, Priors priors, UniformRandomProvider rng, int blockSteps) {
-        return new AttractionUpdate(state, priors, rng, blockSteps);
+        return new AttractionUpdate(state, priors, rng, blockSteps, true);
+    }
+
+    /** For tests: without the ridge moves' first stage on the grid ({@link #ridgeChange}), plain Metropolis steps. */
+    static AttractionUpdate withoutRidgeFirstStage(ChainState state, Priors priors, UniformRandomProvider rng) {
+        return new AttractionUpdate(state, priors, rng, BLOCK_STEPS, false);
     }
 
     @Override
     public void update(boolean adapt) {
         ChainState s = state;
         cache();
+        if (ridgeFirstStage) {
+            tabulateRidges();
+        }
         for (int j = 0; j < attracted.length; j++) {
             if (attracted[j] > 0 && attracted[j] < s.categories - 1) {
                 jointStep(j, adapt);
@@ -233,11 +261,19 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
             double before = sq(s.common[k]) + sq(s.common[k + 1]);
             double after = sq(s.common[k] + h) + sq(s.common[k + 1] - h);
             double mean = s.attractionMean[k];
-            double logRatio = jointLikelihoodChange(k, e, h)
-                    - 0.5 * commonPriorPrecision * (after - before)
+            double terms = -0.5 * commonPriorPrecision * (after - before)
                     + meanPrior.logDensity(mean + e) - meanPrior.logDensity(mean)
                     - e;
-            accept = Math.log(rng.nextDouble()) < logRatio;
+            double approximate = ridgeFirstStage ? ridgeChange(k, e, h) : Double.NaN;
+            if (Double.isFinite(approximate)) {
+                // delayed acceptance (Christen & Fox 2005, section 2), as in blockStep
+                accept = Math.log(rng.nextDouble()) < terms + approximate
+                        && Math.log(rng.nextDouble()) < jointLikelihoodChange(k, e, h) - approximate;
+            } else {
+                // the grid cannot say (a node's probability underflows): a plain Metropolis step;
+                // whether this happens depends on the pair of states alone, either way round
+                accept = Math.log(rng.nextDouble()) < terms + jointLikelihoodChange(k, e, h);
+            }
         }
         if (accept) {
             s.common[k] += h;
@@ -258,11 +294,141 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
                     s.cdf[at + k + 1] = computed ? proposedHigh[i] : StandardNormal.cdf(s.thresholds[row + k + 1] - eta[i]);
                 }
                 s.refreshNormalisers(g, from, to);
+                if (ridgeFirstStage) {
+                    ridgeCdfs(g, k, k + 1);
+                }
             }
         }
         if (adapt) {
             jointLogScale[j] += Math.pow(warmupStep + 1.0, -0.6) * ((accept ? 1 : 0) - TARGET_ACCEPTANCE);
         }
+    }
+
+    /**
+     * Spreads every respondent of each group over the four nearest nodes of the group's grid of
+     * latent levels with the cubic Lagrange weights of its eta, by class and answer, so that a
+     * sum over respondents of a smooth function of eta is a sum over nodes (error of order
+     * spacing^4 times its fourth derivative); then the cdfs at the nodes.
+     */
+    private void tabulateRidges() {
+        ChainState s = state;
+        int m = s.categories;
+        java.util.Arrays.fill(ridgeWeight, 0);
+        for (int g = 0; g < s.groups; g++) {
+            int from = s.start[g * m];
+            int to = s.start[(g + 1) * m];
+            double low = Double.POSITIVE_INFINITY;
+            double high = Double.NEGATIVE_INFINITY;
+            for (int i = from; i < to; i++) {
+                low = Math.min(low, eta[i]);
+                high = Math.max(high, eta[i]);
+            }
+            if (low > high) {
+                ridgeCount[g] = 0;
+                continue;
+            }
+            double h = Math.max(NormaliserGrid.SPACING, (high - low) / (RIDGE_NODES - 4));
+            int nodes = Math.min(RIDGE_NODES, (int) Math.ceil((high - low) / h) + 4);
+            ridgeLow[g] = low;
+            ridgeSpacing[g] = h;
+            ridgeCount[g] = nodes;
+            for (int i = from; i < to; i++) {
+                double x = (eta[i] - low) / h;
+                int j = Math.min(nodes - 4, (int) x);
+                double t = x - j;
+                // node j + 1 lies at low + j h: the basis on the nodes at t = -1, 0, 1, 2
+                int at = ((g * 2 + (coarse(i) ? 1 : 0)) * m + s.category[i]) * RIDGE_NODES + j;
+                double a = t + 1;
+                double b = t - 1;
+                double c = t - 2;
+                ridgeWeight[at] -= t * b * c / 6;
+                ridgeWeight[at + 1] += a * b * c / 2;
+                ridgeWeight[at + 2] -= a * t * c / 2;
+                ridgeWeight[at + 3] += a * t * b / 6;
+            }
+            ridgeCdfs(g, 1, m - 1);
+        }
+    }
+
+    /** The cdfs at thresholds first..last at the nodes of group g's grid. */
+    private void ridgeCdfs(int g, int first, int last) {
+        ChainState s = state;
+        int m = s.categories;
+        int row = g * (m + 1);
+        for (int node = 0; node < ridgeCount[g]; node++) {
+            double x = ridgeLow[g] + (node - 1) * ridgeSpacing[g];
+            int at = (g * RIDGE_NODES + node) * (m + 1);
+            ridgeCdf[at + m] = 1;
+            for (int k = first; k <= last; k++) {
+                ridgeCdf[at + k] = StandardNormal.cdf(s.thresholds[row + k] - x);
+            }
+        }
+    }
+
+    /**
+     * {@link #jointLikelihoodChange} with each group's sum over respondents read from its grid
+     * ({@link #tabulateRidges}): a fixed function of the two states, so a valid first stage. Not
+     * finite where a node's probability underflows.
+     */
+    private double ridgeChange(int k, double e, double h) {
+        ChainState s = state;
+        int m = s.categories;
+        int stride = m + 1;
+        RoundingChannel channel = s.channel;
+        double[] t = s.thresholds;
+        double change = 0;
+        for (int g = 0; g < s.groups; g++) {
+            int row = g * stride;
+            int base = g * m;
+            System.arraycopy(t, row, scratch, 0, stride);
+            scratch[k] += h;
+            scratch[k + 1] -= h;
+            double excessAfter = Math.expm1(s.attraction[base + k] + e);
+            int full = g * 2 * m * RIDGE_NODES;
+            int coarseClass = full + m * RIDGE_NODES;
+            for (int node = 0; node < ridgeCount[g]; node++) {
+                double x = ridgeLow[g] + (node - 1) * ridgeSpacing[g];
+                int at = (g * RIDGE_NODES + node) * stride;
+                double weight = 0;
+                for (int r = 0; r < m; r++) {
+                    weight += ridgeWeight[full + r * RIDGE_NODES + node];
+                }
+                if (weight != 0) {
+                    double n = 1;
+                    for (int a : attracted) {
+                        n += (ridgeCdf[at + a + 1] - ridgeCdf[at + a]) * excess[base + a];
+                    }
+                    double below = ridgeCdf[at + k - 1];
+                    double low = ridgeCdf[at + k];
+                    double high = ridgeCdf[at + k + 1];
+                    double above = ridgeCdf[at + k + 2];
+                    double lowAfter = StandardNormal.cdf(scratch[k] - x);
+                    double highAfter = StandardNormal.cdf(scratch[k + 1] - x);
+                    double moved = n
+                            + (lowAfter - low) * excess[base + k - 1]
+                            + (highAfter - lowAfter) * excessAfter - (high - low) * excess[base + k]
+                            + (high - highAfter) * excess[base + k + 1];
+                    change += weight * Math.log(n / moved)
+                            + ownChange(ridgeWeight[full + (k - 1) * RIDGE_NODES + node], low - below, lowAfter - below)
+                            + ownChange(ridgeWeight[full + k * RIDGE_NODES + node], high - low, highAfter - lowAfter)
+                            + ridgeWeight[full + k * RIDGE_NODES + node] * e
+                            + ownChange(ridgeWeight[full + (k + 1) * RIDGE_NODES + node], above - high, above - highAfter);
+                }
+                for (int r = 0; channel != null && r < m; r++) {
+                    double w = ridgeWeight[coarseClass + r * RIDGE_NODES + node];
+                    if (w != 0 && (channel.dependsOn(r, k) || channel.dependsOn(r, k + 1))) {
+                        change += ownChange(w, ResponseLikelihood.coarse(channel, t, row, r, x, -1, 0),
+                                ResponseLikelihood.coarse(channel, scratch, 0, r, x, -1, 0));
+                    }
+                }
+            }
+        }
+        return change;
+    }
+
+    /** weight * log(after / before), 0 without weight. */
+    private static double ownChange(double weight, double before, double after) {
+        return weight == 0 ? 0 : weight * Math.log(after / before);
     }
 
     /** Whether thresholds k + h and k+1 - h of the row at {@code base} keep increasing order (MODEL.md 3). */
