@@ -30,8 +30,12 @@ import org.rungs.priors.StandardNormal;
  * ({@link #spreadStep}), then a few block moves of tau_a with every a[g,j] redrawn from a
  * normal approximation of its full conditional ({@link #blockStep}). Each respondent's normal cdf at every threshold and
  * N_i come cached from the threshold update ({@link ChainState#cdf}), so the move of a[g,j]
- * alone costs one multiply-add and one ratio per respondent. Scales adapt during warm-up only
- * (Roberts & Rosenthal 2009, section 3).
+ * alone costs one multiply-add and one ratio per respondent. The ridge moves, the moves of a[g,j]
+ * alone and the block moves use delayed acceptance (Christen & Fox 2005, Markov chain Monte Carlo
+ * using an approximation, JCGS 14, section 2): a first stage on the likelihood read from a grid
+ * of latent levels per group, and only for a proposal that passes it the exact ratio over the
+ * respondents, divided by the first stage's. Scales adapt during warm-up only (Roberts &
+ * Rosenthal 2009, section 3), on the acceptance of both stages together.
  */
 final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDensity {
     private static final double TARGET_ACCEPTANCE = 0.44;
@@ -57,7 +61,7 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
     private static final double WIDENING = 1.2;
     private final ChainState state;
     private final int blockSteps;
-    /** Whether the ridge moves take their first stage on the grid ({@link #ridgeChange}); false only in tests. */
+    /** Whether the ridge moves and the moves of a[g,j] alone take their first stage on the grid; false only in tests. */
     private final boolean ridgeFirstStage;
     private final UniformRandomProvider rng;
     private final ZigguratSampler.NormalizedGaussian normal;
@@ -128,6 +132,8 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
     private final double[] ridgeSpacing;
     private final int[] ridgeCount;
     private final double[] ridgeWeight;
+    /** Per group and node: the full-scale respondents' weights summed over the answers. */
+    private final double[] ridgeTotal;
     private final double[] ridgeCdf;
     private double sumOfSquares;
     private int warmupStep;
@@ -179,6 +185,7 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
         this.ridgeCount = new int[state.groups];
         this.ridgeWeight = new double[state.groups * 2 * m * RIDGE_NODES];
         this.ridgeCdf = new double[state.groups * RIDGE_NODES * (m + 1)];
+        this.ridgeTotal = new double[state.groups * RIDGE_NODES];
         for (int j = 0; j < attracted.length; j++) {
             jointLogScale[j] = Math.log(0.1);
             for (int g = 0; g < state.groups; g++) {
@@ -197,7 +204,7 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
         return new AttractionUpdate(state, priors, rng, blockSteps, true);
     }
 
-    /** For tests: without the ridge moves' first stage on the grid ({@link #ridgeChange}), plain Metropolis steps. */
+    /** For tests: without the first stage on the grid ({@link #ridgeChange}, {@link #stepChange}), plain Metropolis steps. */
     static AttractionUpdate withoutRidgeFirstStage(ChainState state, Priors priors, UniformRandomProvider rng) {
         return new AttractionUpdate(state, priors, rng, BLOCK_STEPS, false);
     }
@@ -346,6 +353,14 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
                 ridgeWeight[at + 2] -= a * t * c / 2;
                 ridgeWeight[at + 3] += a * t * b / 6;
             }
+            int full = g * 2 * m * RIDGE_NODES;
+            for (int node = 0; node < nodes; node++) {
+                double total = 0;
+                for (int r = 0; r < m; r++) {
+                    total += ridgeWeight[full + r * RIDGE_NODES + node];
+                }
+                ridgeTotal[g * RIDGE_NODES + node] = total;
+            }
             ridgeCdfs(g, 1, m - 1);
         }
     }
@@ -389,10 +404,7 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
             for (int node = 0; node < ridgeCount[g]; node++) {
                 double x = ridgeLow[g] + (node - 1) * ridgeSpacing[g];
                 int at = (g * RIDGE_NODES + node) * stride;
-                double weight = 0;
-                for (int r = 0; r < m; r++) {
-                    weight += ridgeWeight[full + r * RIDGE_NODES + node];
-                }
+                double weight = ridgeTotal[g * RIDGE_NODES + node];
                 if (weight != 0) {
                     double n = 1;
                     for (int a : attracted) {
@@ -532,24 +544,18 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
         double current = s.attraction[g * m + k];
         double proposed = current + Math.exp(logScale[slot]) * normal.sample();
         double oddsChange = Math.exp(proposed) - Math.exp(current);
-        double logRatio = answers(g, k) * (proposed - current);
-        double product = 1;
+        double terms = answers(g, k) * (proposed - current) + attractionPriorChange(k, current, proposed);
         int from = s.start[g * m];
         int to = s.start[(g + 1) * m];
-        for (int i = from; i < to; i++) {
-            if (coarse(i)) {
-                continue;
-            }
-            double n = s.normaliser[i];
-            int at = i * (m + 1);
-            product *= n / (n + (s.cdf[at + k + 1] - s.cdf[at + k]) * oddsChange);
-            if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
-                logRatio += Math.log(product);
-                product = 1;
-            }
+        double approximate = ridgeFirstStage ? stepChange(g, k, oddsChange) : Double.NaN;
+        boolean accept;
+        if (Double.isFinite(approximate)) {
+            // delayed acceptance on the ridge moves' grid (Christen & Fox 2005, section 2)
+            accept = Math.log(rng.nextDouble()) < terms + approximate
+                    && Math.log(rng.nextDouble()) < stepLikelihoodChange(from, to, k, oddsChange) - approximate;
+        } else {
+            accept = Math.log(rng.nextDouble()) < terms + stepLikelihoodChange(from, to, k, oddsChange);
         }
-        logRatio += Math.log(product) + attractionPriorChange(k, current, proposed);
-        boolean accept = Math.log(rng.nextDouble()) < logRatio;
         if (accept) {
             s.attraction[g * m + k] = proposed;
             if (s.groups == 1) {
@@ -564,6 +570,48 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
         if (adapt) {
             logScale[slot] += Math.pow(warmupStep + 1.0, -0.6) * ((accept ? 1 : 0) - TARGET_ACCEPTANCE);
         }
+    }
+
+    /** Sum over full-scale respondents from..to-1 of log N_i - log N_i' when exp(a[g,k]) grows by oddsChange. */
+    private double stepLikelihoodChange(int from, int to, int k, double oddsChange) {
+        ChainState s = state;
+        int m = s.categories;
+        double change = 0;
+        double product = 1;
+        for (int i = from; i < to; i++) {
+            if (coarse(i)) {
+                continue;
+            }
+            double n = s.normaliser[i];
+            int at = i * (m + 1);
+            product *= n / (n + (s.cdf[at + k + 1] - s.cdf[at + k]) * oddsChange);
+            if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
+                change += Math.log(product);
+                product = 1;
+            }
+        }
+        return change + Math.log(product);
+    }
+
+    /** {@link #stepLikelihoodChange} for group g read from its grid ({@link #tabulateRidges}); not finite where that fails. */
+    private double stepChange(int g, int k, double oddsChange) {
+        ChainState s = state;
+        int m = s.categories;
+        int base = g * m;
+        double change = 0;
+        for (int node = 0; node < ridgeCount[g]; node++) {
+            double weight = ridgeTotal[g * RIDGE_NODES + node];
+            if (weight == 0) {
+                continue;
+            }
+            int at = (g * RIDGE_NODES + node) * (m + 1);
+            double n = 1;
+            for (int a : attracted) {
+                n += (ridgeCdf[at + a + 1] - ridgeCdf[at + a]) * excess[base + a];
+            }
+            change += weight * Math.log(n / (n + (ridgeCdf[at + k + 1] - ridgeCdf[at + k]) * oddsChange));
+        }
+        return change;
     }
 
     /** How many of group g's full-scale respondents answered position k (respondents are sorted by category). */
