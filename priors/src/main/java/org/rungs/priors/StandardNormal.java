@@ -95,27 +95,10 @@ public final class StandardNormal {
      * exponential and a rational function.
      */
     private static double tableTail(double y, double[] density, int at) {
-        // interpolate(y, 3) and interpolate(y, 0) from one basis, the same doubles: with the basis
-        // shared, the compiled method stays small enough for the compiler to inline it into the
-        // callers' loops (it did not with two calls to interpolate)
-        double s = y * PER_UNIT;
-        int j = (int) s;
-        double t = s - j;
-        double t2 = t * t;
-        double t3 = t2 * t;
-        double u = 1 - t;
-        double u3 = u * u * u;
-        double b5 = t3 * (10 - 15 * t + 6 * t2);
-        double b1 = t * u3 * (1 + 3 * t);
-        double b2 = t2 * u3;
-        double b4 = -t3 * u * (4 - 3 * t);
-        double b3 = t3 * u * u;
-        double[] v = NODES;
-        int i = 6 * j;
         if (density != null) {
-            density[at] = (1 - b5) * v[i + 3] + b1 * v[i + 4] + b2 * v[i + 5] + b5 * v[i + 9] + b4 * v[i + 10] + b3 * v[i + 11];
+            density[at] = interpolate(y, 3);
         }
-        return (1 - b5) * v[i] + b1 * v[i + 1] + b2 * v[i + 2] + b5 * v[i + 6] + b4 * v[i + 7] + b3 * v[i + 8];
+        return interpolate(y, 0);
     }
 
     /** Quintic Hermite interpolation at y of the node column at {@code column}: 0 for Q, 3 for phi. */

@@ -30,8 +30,8 @@ import org.rungs.priors.StandardNormal;
  * ({@link #spreadStep}), then a few block moves of tau_a with every a[g,j] redrawn from a
  * normal approximation of its full conditional ({@link #blockStep}). Each respondent's normal cdf at every threshold and
  * N_i come cached from the threshold update ({@link ChainState#cdf}), so the move of a[g,j]
- * alone costs one multiply-add and one ratio per respondent. The ridge moves, the moves of a[g,j]
- * alone and the block moves use delayed acceptance (Christen & Fox 2005, Markov chain Monte Carlo
+ * alone costs one multiply-add and one ratio per respondent. The ridge moves and the block moves
+ * use delayed acceptance (Christen & Fox 2005, Markov chain Monte Carlo
  * using an approximation, JCGS 14, section 2): a first stage on the likelihood read from a grid
  * of latent levels per group, and only for a proposal that passes it the exact ratio over the
  * respondents, divided by the first stage's. Scales adapt during warm-up only (Roberts &
@@ -61,7 +61,7 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
     private static final double WIDENING = 1.2;
     private final ChainState state;
     private final int blockSteps;
-    /** Whether the ridge moves and the moves of a[g,j] alone take their first stage on the grid; false only in tests. */
+    /** Whether the ridge moves take their first stage on the grid ({@link #ridgeChange}); false only in tests. */
     private final boolean ridgeFirstStage;
     private final UniformRandomProvider rng;
     private final ZigguratSampler.NormalizedGaussian normal;
@@ -204,7 +204,7 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
         return new AttractionUpdate(state, priors, rng, blockSteps, true);
     }
 
-    /** For tests: without the first stage on the grid ({@link #ridgeChange}, {@link #stepChange}), plain Metropolis steps. */
+    /** For tests: without the ridge moves' first stage on the grid ({@link #ridgeChange}), plain Metropolis steps. */
     static AttractionUpdate withoutRidgeFirstStage(ChainState state, Priors priors, UniformRandomProvider rng) {
         return new AttractionUpdate(state, priors, rng, BLOCK_STEPS, false);
     }
@@ -406,10 +406,7 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
                 int at = (g * RIDGE_NODES + node) * stride;
                 double weight = ridgeTotal[g * RIDGE_NODES + node];
                 if (weight != 0) {
-                    double n = 1;
-                    for (int a : attracted) {
-                        n += (ridgeCdf[at + a + 1] - ridgeCdf[at + a]) * excess[base + a];
-                    }
+                    double n = ridgeNormaliser(at, base);
                     double below = ridgeCdf[at + k - 1];
                     double low = ridgeCdf[at + k];
                     double high = ridgeCdf[at + k + 1];
@@ -436,6 +433,15 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
             }
         }
         return change;
+    }
+
+    /** N = 1 + sum_k pi_k (exp(a[g,k]) - 1) at the node whose cdfs start at {@code at}, group g's attractions at {@code base}. */
+    private double ridgeNormaliser(int at, int base) {
+        double n = 1;
+        for (int a : attracted) {
+            n += (ridgeCdf[at + a + 1] - ridgeCdf[at + a]) * excess[base + a];
+        }
+        return n;
     }
 
     /** weight * log(after / before), 0 without weight. */
@@ -547,15 +553,7 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
         double terms = answers(g, k) * (proposed - current) + attractionPriorChange(k, current, proposed);
         int from = s.start[g * m];
         int to = s.start[(g + 1) * m];
-        double approximate = ridgeFirstStage ? stepChange(g, k, oddsChange) : Double.NaN;
-        boolean accept;
-        if (Double.isFinite(approximate)) {
-            // delayed acceptance on the ridge moves' grid (Christen & Fox 2005, section 2)
-            accept = Math.log(rng.nextDouble()) < terms + approximate
-                    && Math.log(rng.nextDouble()) < stepLikelihoodChange(from, to, k, oddsChange) - approximate;
-        } else {
-            accept = Math.log(rng.nextDouble()) < terms + stepLikelihoodChange(from, to, k, oddsChange);
-        }
+        boolean accept = Math.log(rng.nextDouble()) < terms + stepLikelihoodChange(from, to, k, oddsChange);
         if (accept) {
             s.attraction[g * m + k] = proposed;
             if (s.groups == 1) {
@@ -591,27 +589,6 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
             }
         }
         return change + Math.log(product);
-    }
-
-    /** {@link #stepLikelihoodChange} for group g read from its grid ({@link #tabulateRidges}); not finite where that fails. */
-    private double stepChange(int g, int k, double oddsChange) {
-        ChainState s = state;
-        int m = s.categories;
-        int base = g * m;
-        double change = 0;
-        for (int node = 0; node < ridgeCount[g]; node++) {
-            double weight = ridgeTotal[g * RIDGE_NODES + node];
-            if (weight == 0) {
-                continue;
-            }
-            int at = (g * RIDGE_NODES + node) * (m + 1);
-            double n = 1;
-            for (int a : attracted) {
-                n += (ridgeCdf[at + a + 1] - ridgeCdf[at + a]) * excess[base + a];
-            }
-            change += weight * Math.log(n / (n + (ridgeCdf[at + k + 1] - ridgeCdf[at + k]) * oddsChange));
-        }
-        return change;
     }
 
     /** How many of group g's full-scale respondents answered position k (respondents are sorted by category). */

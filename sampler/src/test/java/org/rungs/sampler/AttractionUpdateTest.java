@@ -44,11 +44,10 @@ class AttractionUpdateTest {
     }
 
     /**
-     * The ridge moves (abar[j], every a[g,j] and category j's width together) and the moves of
-     * a[g,j] alone take a first stage on a grid of latent levels and only then the exact
-     * likelihood (delayed acceptance): chains with and without that first stage must agree on the
-     * means of what the moves change, the width of categories 2 and 4, abar[2], abar[4] and
-     * a[0,2], within 4.5 standard errors as above.
+     * The ridge moves (abar[j], every a[g,j] and category j's width together) take a first stage
+     * on a grid of latent levels and only then the exact likelihood (delayed acceptance): chains
+     * with and without that first stage must agree on the means of what the moves change, the
+     * width of categories 2 and 4, abar[2], abar[4] and a[0,2], within 4.5 standard errors as above.
      * With the second stage's ratio not divided by the first's, abar[2]'s means differed by 0.12
      * (z = 23.5).
      */
