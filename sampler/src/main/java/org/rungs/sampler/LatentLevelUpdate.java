@@ -37,6 +37,10 @@ final class LatentLevelUpdate implements Update {
     /** A run's covariate sums and cross-products with the latent values, passed to {@link LatentCells#addRun}. */
     private final double[] runX = new double[4];
     private final double[] runXz = new double[4];
+    /** A run's rejected draws (redraw scheme): count-weighted covariate sums and their 4 x 4 products, packed to p x p. */
+    private final double[] runExtra = new double[4];
+    private final double[] runGram = new double[16];
+    private final double[] runGramPacked = new double[16];
 
     private LatentLevelUpdate(ChainState state, UniformRandomProvider rng) {
         this.state = state;
@@ -137,6 +141,21 @@ final class LatentLevelUpdate implements Update {
         double z1 = 0;
         double z2 = 0;
         double z3 = 0;
+        double e = 0;
+        double e0 = 0;
+        double e1 = 0;
+        double e2 = 0;
+        double e3 = 0;
+        double g00 = 0;
+        double g01 = 0;
+        double g02 = 0;
+        double g03 = 0;
+        double g11 = 0;
+        double g12 = 0;
+        double g13 = 0;
+        double g22 = 0;
+        double g23 = 0;
+        double g33 = 0;
         for (int i = from; i < to; i++) {
             double v0 = x0[i];
             double v1 = x1[i];
@@ -148,7 +167,29 @@ final class LatentLevelUpdate implements Update {
                 continue;
             }
             if (attraction) {
-                redraw(i, g, eta);
+                int rejected = redrawRun(i, g, eta);
+                if (rejected > 0) {
+                    // the rejected draws' design rows, each respondent's weighted by its count
+                    double w0 = rejected * v0;
+                    double w1 = rejected * v1;
+                    double w2 = rejected * v2;
+                    double w3 = rejected * v3;
+                    e += rejected;
+                    e0 += w0;
+                    e1 += w1;
+                    e2 += w2;
+                    e3 += w3;
+                    g00 += w0 * v0;
+                    g01 += w0 * v1;
+                    g02 += w0 * v2;
+                    g03 += w0 * v3;
+                    g11 += w1 * v1;
+                    g12 += w1 * v2;
+                    g13 += w1 * v3;
+                    g22 += w2 * v2;
+                    g23 += w2 * v3;
+                    g33 += w3 * v3;
+                }
             }
             double z = eta + truncatedNormal.sample(lower - eta, upper - eta);
             n += 1;
@@ -172,6 +213,30 @@ final class LatentLevelUpdate implements Update {
         runXz[2] = z2;
         runXz[3] = z3;
         s.cells.addRun(c, n, s1, s2, runX, runXz);
+        if (e > 0) {
+            runExtra[0] = e0;
+            runExtra[1] = e1;
+            runExtra[2] = e2;
+            runExtra[3] = e3;
+            double[] gram = runGram;
+            gram[0] = g00;
+            gram[1] = g01;
+            gram[2] = g02;
+            gram[3] = g03;
+            gram[4 + 1] = g11;
+            gram[4 + 2] = g12;
+            gram[4 + 3] = g13;
+            gram[8 + 2] = g22;
+            gram[8 + 3] = g23;
+            gram[12 + 3] = g33;
+            // the first p rows and columns of the symmetric 4 x 4, row-major p x p
+            for (int j = 0; j < p; j++) {
+                for (int k = 0; k < p; k++) {
+                    runGramPacked[j * p + k] = j <= k ? gram[4 * j + k] : gram[4 * k + j];
+                }
+            }
+            level.addExtraRun(g, e, runExtra, runGramPacked);
+        }
     }
 
     /** A coarse responder's intended answer and latent level drawn together (MODEL.md 4a), added to the intended cell. */
@@ -201,19 +266,37 @@ final class LatentLevelUpdate implements Update {
         }
     }
 
-    /** The category k with t[k] < y <= t[k+1] in the row at {@code row}, by bisection. */
-    static int categoryOf(double[] t, int row, int m, double y) {
-        int low = 0;
-        int high = m - 1;
-        while (low < high) {
-            int mid = (low + high + 1) >>> 1;
-            if (t[row + mid] < y) {
-                low = mid;
-            } else {
-                high = mid - 1;
+    /**
+     * The rejected draws of full-scale respondent i, the redraw scheme run to its first acceptance,
+     * each added to its cell; returns their number, for the caller to add to the design.
+     */
+    private int redrawRun(int i, int g, double eta) {
+        ChainState s = state;
+        int m = s.categories;
+        int row = g * (m + 1);
+        int rejected = 0;
+        while (true) {
+            double y = eta + normal.sample();
+            int k = categoryOf(s.thresholds, row, m, y);
+            if (rng.nextDouble() < acceptance[g * m + k]) {
+                return rejected;
             }
+            s.cells.add(g * m + k, s.level.columns, i, y);
+            rejected++;
         }
-        return low;
+    }
+
+    /**
+     * The category k with t[k] < y <= t[k+1] in the row at {@code row}: the number of inner
+     * thresholds below y, counted without branches (a bisection's branches depend on the draw, and
+     * mispredicted they cost more than the comparisons).
+     */
+    static int categoryOf(double[] t, int row, int m, double y) {
+        int k = 0;
+        for (int j = 1; j < m; j++) {
+            k += t[row + j] < y ? 1 : 0;
+        }
+        return k;
     }
 
     /**

@@ -82,6 +82,23 @@ final class RegressionBlock implements Checkpointed {
         }
     }
 
+    /**
+     * Adds to group g's design the rejected draws of a run of respondents with one to four
+     * covariates: their number, and per covariate the count-weighted sums {@code x} of its values
+     * and {@code gram} (row-major, count x count) of the products of two.
+     */
+    void addExtraRun(int g, double n, double[] x, double[] gram) {
+        extraCount[g] += n;
+        double[] groupRow = extraGroupCovariate[g];
+        for (int j = 0; j < count; j++) {
+            groupRow[j] += x[j];
+            double[] gramRow = extraGram[j];
+            for (int k = 0; k < count; k++) {
+                gramRow[k] += gram[j * count + k];
+            }
+        }
+    }
+
     /** Moves the intercepts and their mean together (with one group the intercept is the mean). */
     void shiftIntercepts(double amount) {
         mean += amount;
