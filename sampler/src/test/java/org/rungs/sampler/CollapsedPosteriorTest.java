@@ -27,7 +27,7 @@ class CollapsedPosteriorTest {
     }
 
     /** n respondents in three groups on 0..6 with one level covariate and, if asked, one style covariate. */
-    private static Survey survey(int n, boolean style) {
+    static Survey survey(int n, boolean style) {
         UniformRandomProvider rng = RandomSource.XO_RO_SHI_RO_128_PP.create(11L);
         ZigguratSampler.NormalizedGaussian normal = ZigguratSampler.NormalizedGaussian.of(rng);
         int[] group = new int[n];
