@@ -65,6 +65,39 @@ class AttractionUpdateTest {
         }
     }
 
+    /**
+     * After each sweep of the update every respondent's N_i (MODEL.md 4b), which the later steps
+     * read, is the one recomputed from the state it leaves, coarse-class respondents included.
+     * Tolerance 1e-12 relative: the moves of a[g,j] alone update N_i by increments, the
+     * recomputation sums it afresh. When the spread moves kept the N_i their pass computed
+     * without storing them, or left the coarse respondents' (which that pass skips) as they were,
+     * the test failed (DEVELOPERS.md, eighteenth session).
+     */
+    @Test
+    void theNormalisersItLeavesAreThoseOfTheStateItKeeps() {
+        ChainState s = CollapsedPosteriorTest.state(true, true, true, 0.5);
+        UniformRandomProvider rng = RandomSource.XO_RO_SHI_RO_128_PP.create(41L);
+        Priors priors = Priors.defaults();
+        ThresholdUpdate thresholds = ThresholdUpdate.of(s, s.start, priors, rng);
+        thresholds.refresh();
+        for (int i = 0; i < s.size; i++) {
+            s.coarse[i] = (byte) (s.channel.isPoint(s.category[i]) && i % 3 == 0 ? 1 : 0);
+        }
+        AttractionUpdate update = AttractionUpdate.of(s, priors, rng);
+        double[] kept = new double[s.size];
+        int m = s.categories;
+        for (int sweep = 0; sweep < 30; sweep++) {
+            update.update(sweep < 15);
+            System.arraycopy(s.normaliser, 0, kept, 0, s.size);
+            for (int g = 0; g < s.groups; g++) {
+                s.refreshNormalisers(g, s.start[g * m], s.start[(g + 1) * m]);
+            }
+            for (int i = 0; i < s.size; i++) {
+                assertEquals(s.normaliser[i], kept[i], 1e-12 * s.normaliser[i], "sweep " + sweep + ", respondent " + i);
+            }
+        }
+    }
+
     /** The block moves must do what they are for: log tau_a's lag-1 autocorrelation falls. */
     @Test
     void blockMovesMixTheSpread() {
