@@ -1,5 +1,7 @@
 package org.rungs.priors;
 
+import java.math.BigDecimal;
+
 /**
  * The standard normal distribution: density, distribution function {@code Phi}, its tails on
  * the natural and the log scale, quantile, and the log-probability of an interval. Static,
@@ -131,12 +133,12 @@ public final class StandardNormal {
         double[] c = new double[6 * intervals];
         for (int j = 0; j < intervals; j++) {
             int i = 6 * j + column;
-            java.math.BigDecimal v0 = new java.math.BigDecimal(NODES[i]);
-            java.math.BigDecimal d0 = new java.math.BigDecimal(NODES[i + 1]);
-            java.math.BigDecimal s0 = new java.math.BigDecimal(NODES[i + 2]);
-            java.math.BigDecimal dv = new java.math.BigDecimal(NODES[i + 6]).subtract(v0);
-            java.math.BigDecimal d1 = new java.math.BigDecimal(NODES[i + 7]);
-            java.math.BigDecimal s1 = new java.math.BigDecimal(NODES[i + 8]);
+            BigDecimal v0 = new BigDecimal(NODES[i]);
+            BigDecimal d0 = new BigDecimal(NODES[i + 1]);
+            BigDecimal s0 = new BigDecimal(NODES[i + 2]);
+            BigDecimal dv = new BigDecimal(NODES[i + 6]).subtract(v0);
+            BigDecimal d1 = new BigDecimal(NODES[i + 7]);
+            BigDecimal s1 = new BigDecimal(NODES[i + 8]);
             c[6 * j] = NODES[i];
             c[6 * j + 1] = NODES[i + 1];
             c[6 * j + 2] = NODES[i + 2];
@@ -148,11 +150,11 @@ public final class StandardNormal {
     }
 
     /** a dv + b d0 + c s0 + d d1 + e s1, exactly, rounded once to a double. */
-    private static double combine(java.math.BigDecimal dv, java.math.BigDecimal d0, java.math.BigDecimal s0,
-                                  java.math.BigDecimal d1, java.math.BigDecimal s1, int a, int b, int c, int d, int e) {
-        return dv.multiply(java.math.BigDecimal.valueOf(a)).add(d0.multiply(java.math.BigDecimal.valueOf(b)))
-                .add(s0.multiply(java.math.BigDecimal.valueOf(c))).add(d1.multiply(java.math.BigDecimal.valueOf(d)))
-                .add(s1.multiply(java.math.BigDecimal.valueOf(e))).doubleValue();
+    private static double combine(BigDecimal dv, BigDecimal d0, BigDecimal s0,
+                                  BigDecimal d1, BigDecimal s1, int a, int b, int c, int d, int e) {
+        return dv.multiply(BigDecimal.valueOf(a)).add(d0.multiply(BigDecimal.valueOf(b)))
+                .add(s0.multiply(BigDecimal.valueOf(c))).add(d1.multiply(BigDecimal.valueOf(d)))
+                .add(s1.multiply(BigDecimal.valueOf(e))).doubleValue();
     }
 
     /** phi(x) = exp(-x^2/2) / sqrt(2 pi) (from the table within 6 sd). */

@@ -94,11 +94,6 @@ final class LatentCells {
         return sums[c * width];
     }
 
-    /** For tests: the sum of covariate j over cell c's values. */
-    double covariateSum(int c, int j) {
-        return sums[c * width + 3 + j];
-    }
-
     /**
      * The change of sum (z - alpha - x' beta)^2 over cell c when every z becomes A + s z and the
      * intercept alpha becomes alphaNew, with beta as in {@link #prepare}. With B = A - alphaNew,

@@ -95,7 +95,7 @@ final class LatentLevelUpdate implements Update {
                     continue;
                 }
                 if (attraction) {
-                    redraw(i, g, eta);
+                    level.addExtra(i, g, redraw(i, g, eta));
                 }
                 double latent = eta + truncatedNormal.sample(thresholds[g * stride + r] - eta, thresholds[g * stride + r + 1] - eta);
                 cells.add(c, columns, i, latent);
@@ -167,7 +167,7 @@ final class LatentLevelUpdate implements Update {
                 continue;
             }
             if (attraction) {
-                int rejected = redrawRun(i, g, eta);
+                int rejected = redraw(i, g, eta);
                 if (rejected > 0) {
                     // the rejected draws' design rows, each respondent's weighted by its count
                     double w0 = rejected * v0;
@@ -249,28 +249,11 @@ final class LatentLevelUpdate implements Update {
         s.cells.add(g * s.categories + cell, s.level.columns, i, latent);
     }
 
-    /** The rejected draws of full-scale respondent i: the redraw scheme run to its first acceptance. */
-    private void redraw(int i, int g, double eta) {
-        ChainState s = state;
-        RegressionBlock level = s.level;
-        int m = s.categories;
-        int row = g * (m + 1);
-        while (true) {
-            double y = eta + normal.sample();
-            int k = categoryOf(s.thresholds, row, m, y);
-            if (rng.nextDouble() < acceptance[g * m + k]) {
-                return;
-            }
-            s.cells.add(g * m + k, level.columns, i, y);
-            level.addExtra(i, g);
-        }
-    }
-
     /**
      * The rejected draws of full-scale respondent i, the redraw scheme run to its first acceptance,
      * each added to its cell; returns their number, for the caller to add to the design.
      */
-    private int redrawRun(int i, int g, double eta) {
+    private int redraw(int i, int g, double eta) {
         ChainState s = state;
         int m = s.categories;
         int row = g * (m + 1);

@@ -68,12 +68,15 @@ final class RegressionBlock implements Checkpointed {
         }
     }
 
-    /** Adds one more latent value of respondent i in group g to the design. */
-    void addExtra(int i, int g) {
-        extraCount[g]++;
+    /** Adds {@code times} more latent values of respondent i in group g to the design. */
+    void addExtra(int i, int g, int times) {
+        if (times == 0) {
+            return;
+        }
+        extraCount[g] += times;
         double[] groupRow = extraGroupCovariate[g];
         for (int j = 0; j < count; j++) {
-            double xj = columns[j][i];
+            double xj = times * columns[j][i];
             groupRow[j] += xj;
             double[] gramRow = extraGram[j];
             for (int k = 0; k < count; k++) {
