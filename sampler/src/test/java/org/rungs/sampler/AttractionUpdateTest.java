@@ -33,14 +33,7 @@ class AttractionUpdateTest {
     void blockMovesKeepTheConditionalPosterior() {
         double[][] with = run(AttractionUpdate.BLOCK_STEPS, 21L);
         double[][] without = run(0, 22L);
-        String[] names = {"log attraction_sd", "abar[2]", "abar[4]", "a[0,2]"};
-        for (int q = 0; q < names.length; q++) {
-            double[] a = batchMeanAndError(with[q]);
-            double[] b = batchMeanAndError(without[q]);
-            double z = (a[0] - b[0]) / Math.sqrt(a[1] * a[1] + b[1] * b[1]);
-            assertTrue(Math.abs(z) < 4.5, names[q] + ": " + a[0] + " +- " + a[1] + " with the block moves, "
-                    + b[0] + " +- " + b[1] + " without (z = " + z + ")");
-        }
+        assertSameMeans(with, without, "with the block moves", "log attraction_sd", "abar[2]", "abar[4]", "a[0,2]");
     }
 
     /**
@@ -55,14 +48,8 @@ class AttractionUpdateTest {
     void gridFirstStagesKeepTheConditionalPosterior() {
         double[][] with = run(AttractionUpdate.BLOCK_STEPS, 25L, true);
         double[][] without = run(AttractionUpdate.BLOCK_STEPS, 26L, false);
-        String[] names = {"log attraction_sd", "abar[2]", "abar[4]", "a[0,2]", "width of category 2", "width of category 4"};
-        for (int q = 0; q < names.length; q++) {
-            double[] a = batchMeanAndError(with[q]);
-            double[] b = batchMeanAndError(without[q]);
-            double z = (a[0] - b[0]) / Math.sqrt(a[1] * a[1] + b[1] * b[1]);
-            assertTrue(Math.abs(z) < 4.5, names[q] + ": " + a[0] + " +- " + a[1] + " with the first stage, "
-                    + b[0] + " +- " + b[1] + " without (z = " + z + ")");
-        }
+        assertSameMeans(with, without, "with the first stage", "log attraction_sd", "abar[2]", "abar[4]", "a[0,2]",
+                "width of category 2", "width of category 4");
     }
 
     /**
@@ -209,6 +196,20 @@ class AttractionUpdateTest {
         }
         assertTrue(m == 7);
         return out;
+    }
+
+    /**
+     * The means of each named series of two chains, {@code with[q]} and {@code without[q]}, differ
+     * by less than 4.5 standard errors of the difference, each from {@link #batchMeanAndError}.
+     */
+    static void assertSameMeans(double[][] with, double[][] without, String withLabel, String... names) {
+        for (int q = 0; q < names.length; q++) {
+            double[] a = batchMeanAndError(with[q]);
+            double[] b = batchMeanAndError(without[q]);
+            double z = (a[0] - b[0]) / Math.sqrt(a[1] * a[1] + b[1] * b[1]);
+            assertTrue(Math.abs(z) < 4.5, names[q] + ": " + a[0] + " +- " + a[1] + " " + withLabel + ", "
+                    + b[0] + " +- " + b[1] + " without (z = " + z + ")");
+        }
     }
 
     static double[] batchMeanAndError(double[] x) {

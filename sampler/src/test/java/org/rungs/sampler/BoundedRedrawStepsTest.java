@@ -75,14 +75,8 @@ class BoundedRedrawStepsTest {
     void aBindingBoundLeavesThePosteriorUnchanged() {
         double[][] bound = run(0.8, 31L);
         double[][] free = run(Double.POSITIVE_INFINITY, 32L);
-        String[] names = {"level coefficient", "intercept[0]", "threshold[1,2]", "abar[2]", "a[0,2]", "log attraction_sd"};
-        for (int q = 0; q < names.length; q++) {
-            double[] a = AttractionUpdateTest.batchMeanAndError(bound[q]);
-            double[] b = AttractionUpdateTest.batchMeanAndError(free[q]);
-            double z = (a[0] - b[0]) / Math.sqrt(a[1] * a[1] + b[1] * b[1]);
-            assertTrue(Math.abs(z) < 4.5, names[q] + ": " + a[0] + " +- " + a[1] + " with the bound at 0.8, "
-                    + b[0] + " +- " + b[1] + " without (z = " + z + ")");
-        }
+        AttractionUpdateTest.assertSameMeans(bound, free, "with the bound at 0.8", "level coefficient", "intercept[0]",
+                "threshold[1,2]", "abar[2]", "a[0,2]", "log attraction_sd");
     }
 
     private static double[][] run(double maxRange, long seed) {
