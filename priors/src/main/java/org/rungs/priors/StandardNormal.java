@@ -41,7 +41,9 @@ public final class StandardNormal {
     private static final double LOG_TAIL_OVERFLOW = 1.9e154;
     /** The table's nodes per unit of |x| and its end (see {@link #tableTail}). */
     private static final int PER_UNIT = 256;
-    private static final double TABLE_END = 6;
+    public static final double TABLE_END = 6;
+    /** The largest double below {@link #TABLE_END}: {@link #smallerTailInTable} clamps |x| to it. */
+    private static final double LAST_IN_TABLE = Math.nextDown(TABLE_END);
 
     private static final double[] A = {
         2.2352520354606839287, 161.02823106855587881, 1067.6894854603709582,
@@ -259,6 +261,20 @@ public final class StandardNormal {
     public static double smallerTail(double x) {
         double y = Math.abs(x);
         return y < TABLE_END ? tableTail(y, null, 0) : tailBeyondCentral(y);
+    }
+
+    /**
+     * {@link #smallerTail(double)}, bit for bit, for |x| < {@link #TABLE_END}; beyond it a finite
+     * value of no meaning (|x| is clamped to the table), so the caller checks |x| and takes
+     * {@link #smallerTail(double)} there. It neither branches nor calls: a loop over a
+     * respondent's thresholds that reads it stays free of calls, which HotSpot's C2 needs to
+     * schedule the loop well. Through {@link #smallerTail(double)}, whose far branch C2 inlined
+     * or left a call depending on the profile, the exact density pass of the benchmark's complete
+     * model at a million respondents cost 52 or 68 to 100 ns per respondent from one process to
+     * the next.
+     */
+    public static double smallerTailInTable(double x) {
+        return interpolate(Math.min(Math.abs(x), LAST_IN_TABLE), 0);
     }
 
     /**

@@ -247,6 +247,23 @@ class StandardNormalTest {
     }
 
     /**
+     * The table-only tail equals the general one bit for bit inside the table (on a grid that
+     * falls between its nodes, and at the last double before its end), and the general one
+     * differs beyond it, where callers must take it instead.
+     */
+    @Test
+    void tableOnlyTailIsTheTailInsideTheTable() {
+        for (double x = -5.9999; x < 6; x += 1e-3 * Math.E) {
+            assertEquals(StandardNormal.smallerTail(x), StandardNormal.smallerTailInTable(x), 0.0, "at " + x);
+        }
+        double last = Math.nextDown(StandardNormal.TABLE_END);
+        assertEquals(StandardNormal.smallerTail(last), StandardNormal.smallerTailInTable(last), 0.0);
+        assertEquals(StandardNormal.smallerTail(-last), StandardNormal.smallerTailInTable(-last), 0.0);
+        assertTrue(StandardNormal.smallerTailInTable(7) > 100 * StandardNormal.smallerTail(7),
+                "beyond the table the clamped value stays at Q(6), far above Q(7)");
+    }
+
+    /**
      * The interpolated body (|x| < 6) on a fine grid that falls between the table's nodes,
      * against the log-scale functions, which still compute Cody's approximation directly, and
      * against exp(-x^2/2) / sqrt(2 pi). Tolerance 2e-14: the table's own error is at most 3e-15,

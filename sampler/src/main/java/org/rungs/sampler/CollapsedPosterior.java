@@ -880,22 +880,15 @@ final class CollapsedPosterior {
         double sumEta = 0;
         double sumZeta = 0;
         double[] kept = keptCdf;
+        double[] out = kept != null ? kept : cdf;
         for (int i = from; i < to; i++) {
             // eta as RegressionBlock.linear sums it (a missing covariate adds 0), and each cdf as
             // StandardNormal.cdf takes it, so that the kept cdfs are the ones the threshold update computes
             double eta = intercept + x0[i] * b0 + x1[i] * b1 + x2[i] * b2 + x3[i] * b3;
-            double normaliser = top;
-            for (int k = 1; k < m; k++) {
-                double below = rows[base + k] - eta;
-                double smaller = grad ? StandardNormal.smallerTail(below, thresholdDensity, k) : StandardNormal.smallerTail(below);
-                offset[k] = below;
-                tail[k] = smaller;
-                double phi = below > 0 ? 1 - smaller : smaller;
-                cdf[k] = phi;
-                normaliser += phi * change[k];
-            }
-            if (kept != null) {
-                System.arraycopy(cdf, 1, kept, i * (m + 1) + 1, m - 1);
+            int o = kept != null ? i * (m + 1) : 0;
+            double normaliser = grad ? Double.NaN : tableCdfs(base, eta, top, out, o);
+            if (Double.isNaN(normaliser)) {
+                normaliser = cdfs(base, eta, top, out, o, grad);
             }
             double zeta = 0;
             if (channel != null) {
@@ -988,6 +981,58 @@ final class CollapsedPosterior {
             }
         }
         return total;
+    }
+
+    /**
+     * For {@link #attractedCell}: c[g,k] - eta, its smaller tail and Phi(c[g,k] - eta) for k =
+     * 1..M-1 into {@link #offset}, {@link #tail} and out[o + k] (with the densities into
+     * {@link #thresholdDensity} if grad); returns N_i = top + sum_k Phi(c[g,k] - eta) change[k]
+     * (summation by parts), in two running sums so that successive thresholds' additions do not
+     * wait on each other.
+     */
+    private double cdfs(int base, double eta, double top, double[] out, int o, boolean grad) {
+        double even = top;
+        double odd = 0;
+        for (int k = 1; k < m; k++) {
+            double below = rows[base + k] - eta;
+            double smaller = grad ? StandardNormal.smallerTail(below, thresholdDensity, k) : StandardNormal.smallerTail(below);
+            offset[k] = below;
+            tail[k] = smaller;
+            double phi = below > 0 ? 1 - smaller : smaller;
+            out[o + k] = phi;
+            if ((k & 1) == 0) {
+                even += phi * change[k];
+            } else {
+                odd += phi * change[k];
+            }
+        }
+        return even + odd;
+    }
+
+    /**
+     * {@link #cdfs} without densities, bit for bit, from the normal table alone
+     * ({@link StandardNormal#smallerTailInTable}): a loop without calls. NaN when some threshold
+     * lies beyond the table, where the caller takes {@link #cdfs}.
+     */
+    private double tableCdfs(int base, double eta, double top, double[] out, int o) {
+        double even = top;
+        double odd = 0;
+        boolean inTable = true;
+        for (int k = 1; k < m; k++) {
+            double below = rows[base + k] - eta;
+            inTable &= Math.abs(below) < StandardNormal.TABLE_END;
+            double smaller = StandardNormal.smallerTailInTable(below);
+            offset[k] = below;
+            tail[k] = smaller;
+            double phi = below > 0 ? 1 - smaller : smaller;
+            out[o + k] = phi;
+            if ((k & 1) == 0) {
+                even += phi * change[k];
+            } else {
+                odd += phi * change[k];
+            }
+        }
+        return inTable ? even + odd : Double.NaN;
     }
 
     /**
