@@ -299,12 +299,13 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
                 excess[g * m + k] = Math.expm1(s.attraction[g * m + k]);
                 int from = s.start[g * m];
                 int to = s.start[(g + 1) * m];
+                int low = k * s.size;
+                int high = low + s.size;
                 for (int i = from; i < to; i++) {
-                    int at = i * stride;
                     // a coarse reporter whose point's range does not end at k or k+1 was not computed
                     boolean computed = !coarse(i) || !Double.isNaN(proposedLow[i]);
-                    s.cdf[at + k] = computed ? proposedLow[i] : StandardNormal.cdf(s.thresholds[row + k] - eta[i]);
-                    s.cdf[at + k + 1] = computed ? proposedHigh[i] : StandardNormal.cdf(s.thresholds[row + k + 1] - eta[i]);
+                    s.cdf[low + i] = computed ? proposedLow[i] : StandardNormal.cdf(s.thresholds[row + k] - eta[i]);
+                    s.cdf[high + i] = computed ? proposedHigh[i] : StandardNormal.cdf(s.thresholds[row + k + 1] - eta[i]);
                 }
                 s.refreshNormalisers(g, from, to);
                 if (ridgeFirstStage) {
@@ -479,6 +480,9 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
         double[] t = s.thresholds;
         double change = 0;
         double product = 1;
+        int n = s.size;
+        double[] cdf = s.cdf;
+        int column = k * n;
         for (int g = 0; g < s.groups; g++) {
             int row = g * stride;
             System.arraycopy(t, row, scratch, 0, stride);
@@ -489,7 +493,7 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
             for (int i = s.start[g * m], end = s.start[(g + 1) * m]; i < end; i++) {
                 int r = s.category[i];
                 double x = eta[i];
-                int at = i * stride;
+                int at = column + i;
                 if (coarse(i)) {
                     RoundingChannel channel = s.channel;
                     if (channel.dependsOn(r, k) || channel.dependsOn(r, k + 1)) {
@@ -498,8 +502,8 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
                         proposedLow[i] = lowAfter;
                         proposedHigh[i] = highAfter;
                         // from the cached cdfs as for the full-scale answers below, above EXACT_ENOUGH
-                        double before = coarseFromCdfs(channel, s.cdf, at, r, k, s.cdf[at + k], s.cdf[at + k + 1]);
-                        double after = coarseFromCdfs(channel, s.cdf, at, r, k, lowAfter, highAfter);
+                        double before = coarseFromCdfs(channel, cdf, n, i, r, k, cdf[at], cdf[at + n]);
+                        double after = coarseFromCdfs(channel, cdf, n, i, r, k, lowAfter, highAfter);
                         if (before > EXACT_ENOUGH && after > EXACT_ENOUGH) {
                             product *= after / before;
                         } else {
@@ -511,23 +515,23 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
                     }
                     continue;
                 }
-                double low = s.cdf[at + k];
-                double high = s.cdf[at + k + 1];
+                double low = cdf[at];
+                double high = cdf[at + n];
                 double lowAfter = StandardNormal.cdf(scratch[k] - x);
                 double highAfter = StandardNormal.cdf(scratch[k + 1] - x);
                 proposedLow[i] = lowAfter;
                 proposedHigh[i] = highAfter;
-                double n = s.normaliser[i];
-                double moved = n
+                double normaliser = s.normaliser[i];
+                double moved = normaliser
                         + (lowAfter - low) * excess[base + k - 1]
                         + (highAfter - lowAfter) * excessAfter - (high - low) * excess[base + k]
                         + (high - highAfter) * excess[base + k + 1];
-                product *= n / moved;
+                product *= normaliser / moved;
                 if (r >= k - 1 && r <= k + 1) {
                     // from the cached cdfs: their differences carry an absolute error near 1e-16, so
                     // above EXACT_ENOUGH the ratio is good to 1e-10; below it, the tail-exact path
-                    double before = r == k ? high - low : r < k ? low - s.cdf[at + k - 1] : s.cdf[at + k + 2] - high;
-                    double after = r == k ? highAfter - lowAfter : r < k ? lowAfter - s.cdf[at + k - 1] : s.cdf[at + k + 2] - highAfter;
+                    double before = r == k ? high - low : r < k ? low - cdf[at - n] : cdf[at + 2 * n] - high;
+                    double after = r == k ? highAfter - lowAfter : r < k ? lowAfter - cdf[at - n] : cdf[at + 2 * n] - highAfter;
                     if (before <= EXACT_ENOUGH || after <= EXACT_ENOUGH) {
                         before = ResponseLikelihood.full(t, row, r, x, -1, 0);
                         after = ResponseLikelihood.full(scratch, 0, r, x, -1, 0);
@@ -551,25 +555,25 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
     }
 
     /**
-     * P(r | coarse) of MODEL.md 4a for coarse point r from respondent's cdfs at {@code at}, with
-     * those at thresholds k and k+1 replaced by lowK and highK1: the point's full range and half
-     * of each tie category beside it.
+     * P(r | coarse) of MODEL.md 4a for coarse point r from respondent i's cdfs (columns of n, as
+     * {@link ChainState#cdf}), with those at thresholds k and k+1 replaced by lowK and highK1: the
+     * point's full range and half of each tie category beside it.
      */
-    private static double coarseFromCdfs(RoundingChannel channel, double[] cdf, int at, int r, int k, double lowK, double highK1) {
+    private static double coarseFromCdfs(RoundingChannel channel, double[] cdf, int n, int i, int r, int k, double lowK, double highK1) {
         int low = channel.fullLow(r);
         int high = channel.fullHigh(r) + 1;
-        double p = cdfAt(cdf, at, high, k, lowK, highK1) - cdfAt(cdf, at, low, k, lowK, highK1);
+        double p = cdfAt(cdf, n, i, high, k, lowK, highK1) - cdfAt(cdf, n, i, low, k, lowK, highK1);
         if (channel.tieBelow(r)) {
-            p += 0.5 * (cdfAt(cdf, at, low, k, lowK, highK1) - cdfAt(cdf, at, low - 1, k, lowK, highK1));
+            p += 0.5 * (cdfAt(cdf, n, i, low, k, lowK, highK1) - cdfAt(cdf, n, i, low - 1, k, lowK, highK1));
         }
         if (channel.tieAbove(r)) {
-            p += 0.5 * (cdfAt(cdf, at, high + 1, k, lowK, highK1) - cdfAt(cdf, at, high, k, lowK, highK1));
+            p += 0.5 * (cdfAt(cdf, n, i, high + 1, k, lowK, highK1) - cdfAt(cdf, n, i, high, k, lowK, highK1));
         }
         return p;
     }
 
-    private static double cdfAt(double[] cdf, int at, int t, int k, double lowK, double highK1) {
-        return t == k ? lowK : t == k + 1 ? highK1 : cdf[at + t];
+    private static double cdfAt(double[] cdf, int n, int i, int t, int k, double lowK, double highK1) {
+        return t == k ? lowK : t == k + 1 ? highK1 : cdf[t * n + i];
     }
 
     private static double sq(double x) {
@@ -607,9 +611,10 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
                 s.attractionMean[k] = proposed;
             }
             excess[g * m + k] = Math.expm1(proposed);
+            int low = k * s.size;
+            int high = low + s.size;
             for (int i = from; i < to; i++) {
-                int at = i * (m + 1);
-                s.normaliser[i] += (s.cdf[at + k + 1] - s.cdf[at + k]) * oddsChange;
+                s.normaliser[i] += (s.cdf[high + i] - s.cdf[low + i]) * oddsChange;
             }
         }
         if (adapt) {
@@ -623,13 +628,14 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
         int m = s.categories;
         double change = 0;
         double product = 1;
+        int low = k * s.size;
+        int high = low + s.size;
         for (int i = from; i < to; i++) {
             if (coarse(i)) {
                 continue;
             }
             double n = s.normaliser[i];
-            int at = i * (m + 1);
-            product *= n / (n + (s.cdf[at + k + 1] - s.cdf[at + k]) * oddsChange);
+            product *= n / (n + (s.cdf[high + i] - s.cdf[low + i]) * oddsChange);
             if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
                 change += Math.log(product);
                 product = 1;
@@ -680,11 +686,10 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
             if (coarse(i)) {
                 continue;
             }
-            int at = i * (m + 1);
             int base = s.group[i] * m;
             double n = 1;
             for (int k : attracted) {
-                n += (s.cdf[at + k + 1] - s.cdf[at + k]) * proposedExcess[base + k];
+                n += (s.cdf[(k + 1) * s.size + i] - s.cdf[k * s.size + i]) * proposedExcess[base + k];
             }
             product *= s.normaliser[i] / n;
             if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
@@ -919,12 +924,11 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
             if (coarse(i)) {
                 continue;
             }
-            int c = i * (m + 1);
             int base = s.group[i] * m;
             double before = 1;
             double after = 1;
             for (int k : attracted) {
-                double pi = s.cdf[c + k + 1] - s.cdf[c + k];
+                double pi = s.cdf[(k + 1) * s.size + i] - s.cdf[k * s.size + i];
                 before += pi * excess[base + k];
                 after += pi * proposedExcess[base + k];
             }

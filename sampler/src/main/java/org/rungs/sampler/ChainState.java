@@ -49,9 +49,11 @@ final class ChainState implements Checkpointed {
     final double[] attractionMean;
     double attractionSd;
     /**
-     * Under attraction, per respondent in sorted order: Phi(c[g,k] - eta_i) for k = 0..M (0 and 1
-     * at the ends), M+1 each, and the normaliser N_i = sum_k pi[g,k](eta_i) exp(a[g,k]) of
-     * MODEL.md 4b. Filled by {@link ThresholdUpdate} at the start of a sweep and kept current by
+     * Under attraction, Phi(c[g,k] - eta_i) for k = 0..M (0 and 1 at the ends) threshold by
+     * threshold, at k * size + i for respondent i in sorted order, so that a step that moves one
+     * threshold or one attraction reads a contiguous column (one respondent after another in the
+     * other layout read a cache line each for one or two doubles); and the normaliser N_i =
+     * sum_k pi[g,k](eta_i) exp(a[g,k]) of MODEL.md 4b. Filled by {@link ThresholdUpdate} at the start of a sweep and kept current by
      * every later update that moves a threshold or an attraction before the levels move; empty
      * when attraction is off.
      */
@@ -93,9 +95,9 @@ final class ChainState implements Checkpointed {
         this.attractionMean = new double[categories];
         this.cdf = new double[attracted.length > 0 ? size * (categories + 1) : 0];
         this.spareCdf = new double[cdf.length];
-        for (int at = categories; at < cdf.length; at += categories + 1) {
-            cdf[at] = 1;
-            spareCdf[at] = 1;
+        if (cdf.length > 0) {
+            java.util.Arrays.fill(cdf, categories * size, cdf.length, 1);
+            java.util.Arrays.fill(spareCdf, categories * size, cdf.length, 1);
         }
         this.normaliser = new double[attracted.length > 0 ? size : 0];
         this.excess = new double[categories];
@@ -130,10 +132,9 @@ final class ChainState implements Checkpointed {
             excess[k] = Math.expm1(attraction[g * m + k]);
         }
         for (int i = from; i < to; i++) {
-            int at = i * (m + 1);
             double n = 1;
             for (int k : attracted) {
-                n += (cdf[at + k + 1] - cdf[at + k]) * excess[k];
+                n += (cdf[(k + 1) * size + i] - cdf[k * size + i]) * excess[k];
             }
             normaliser[i] = n;
         }

@@ -881,14 +881,15 @@ final class CollapsedPosterior {
         double sumZeta = 0;
         double[] kept = keptCdf;
         double[] out = kept != null ? kept : cdf;
+        int step = kept != null ? state.size : 1;
         for (int i = from; i < to; i++) {
             // eta as RegressionBlock.linear sums it (a missing covariate adds 0), and each cdf as
             // StandardNormal.cdf takes it, so that the kept cdfs are the ones the threshold update computes
             double eta = intercept + x0[i] * b0 + x1[i] * b1 + x2[i] * b2 + x3[i] * b3;
-            int o = kept != null ? i * (m + 1) : 0;
-            double normaliser = grad ? Double.NaN : tableCdfs(base, eta, top, out, o);
+            int o = kept != null ? i : 0;
+            double normaliser = grad ? Double.NaN : tableCdfs(base, eta, top, out, o, step);
             if (Double.isNaN(normaliser)) {
-                normaliser = cdfs(base, eta, top, out, o, grad);
+                normaliser = cdfs(base, eta, top, out, o, step, grad);
             }
             double zeta = 0;
             if (channel != null) {
@@ -985,12 +986,12 @@ final class CollapsedPosterior {
 
     /**
      * For {@link #attractedCell}: c[g,k] - eta, its smaller tail and Phi(c[g,k] - eta) for k =
-     * 1..M-1 into {@link #offset}, {@link #tail} and out[o + k] (with the densities into
+     * 1..M-1 into {@link #offset}, {@link #tail} and out[o + k step] (with the densities into
      * {@link #thresholdDensity} if grad); returns N_i = top + sum_k Phi(c[g,k] - eta) change[k]
      * (summation by parts), in two running sums so that successive thresholds' additions do not
      * wait on each other.
      */
-    private double cdfs(int base, double eta, double top, double[] out, int o, boolean grad) {
+    private double cdfs(int base, double eta, double top, double[] out, int o, int step, boolean grad) {
         double even = top;
         double odd = 0;
         for (int k = 1; k < m; k++) {
@@ -999,7 +1000,7 @@ final class CollapsedPosterior {
             offset[k] = below;
             tail[k] = smaller;
             double phi = below > 0 ? 1 - smaller : smaller;
-            out[o + k] = phi;
+            out[o + k * step] = phi;
             if ((k & 1) == 0) {
                 even += phi * change[k];
             } else {
@@ -1014,7 +1015,7 @@ final class CollapsedPosterior {
      * ({@link StandardNormal#smallerTailInTable}): a loop without calls. NaN when some threshold
      * lies beyond the table, where the caller takes {@link #cdfs}.
      */
-    private double tableCdfs(int base, double eta, double top, double[] out, int o) {
+    private double tableCdfs(int base, double eta, double top, double[] out, int o, int step) {
         double even = top;
         double odd = 0;
         boolean inTable = true;
@@ -1025,7 +1026,7 @@ final class CollapsedPosterior {
             offset[k] = below;
             tail[k] = smaller;
             double phi = below > 0 ? 1 - smaller : smaller;
-            out[o + k] = phi;
+            out[o + k * step] = phi;
             if ((k & 1) == 0) {
                 even += phi * change[k];
             } else {

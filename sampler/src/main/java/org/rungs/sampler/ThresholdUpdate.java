@@ -211,9 +211,8 @@ final class ThresholdUpdate extends ThresholdMoves {
                 if (current) {
                     continue;
                 }
-                int at = i * (m + 1);
                 for (int k = 1; k < m; k++) {
-                    s.cdf[at + k] = StandardNormal.cdf(s.thresholds[row + k] - eta);
+                    s.cdf[k * s.size + i] = StandardNormal.cdf(s.thresholds[row + k] - eta);
                 }
             }
             s.refreshNormalisers(g, from, to);
@@ -334,6 +333,7 @@ final class ThresholdUpdate extends ThresholdMoves {
         RoundingChannel channel = s.channel;
         double change = 0;
         double product = 1;
+        int column = k * s.size;
         for (int g = firstGroup(b); g <= lastGroup(b); g++) {
             int row = g * stride;
             double alpha = s.level.intercept[g];
@@ -345,7 +345,7 @@ final class ThresholdUpdate extends ThresholdMoves {
                 double eta = alpha + covariatePart[i];
                 double movedCdf = StandardNormal.cdf(cut + delta - eta);
                 double before = s.normaliser[i];
-                double after = before + (movedCdf - s.cdf[i * (m + 1) + k]) * shift;
+                double after = before + (movedCdf - s.cdf[column + i]) * shift;
                 proposedCdf[i] = movedCdf;
                 proposedNormaliser[i] = after;
                 int r = s.category[i];
@@ -375,10 +375,10 @@ final class ThresholdUpdate extends ThresholdMoves {
     private void keepProposedCaches(int b, int k) {
         ChainState s = state;
         int m = s.categories;
-        for (int i = s.start[firstGroup(b) * m], end = s.start[(lastGroup(b) + 1) * m]; i < end; i++) {
-            s.cdf[i * (m + 1) + k] = proposedCdf[i];
-            s.normaliser[i] = proposedNormaliser[i];
-        }
+        int from = s.start[firstGroup(b) * m];
+        int to = s.start[(lastGroup(b) + 1) * m];
+        System.arraycopy(proposedCdf, from, s.cdf, k * s.size + from, to - from);
+        System.arraycopy(proposedNormaliser, from, s.normaliser, from, to - from);
     }
 
     /**

@@ -54,7 +54,7 @@ class JointHamiltonianUpdateTest {
                 int row = s.group[i] * (m + 1);
                 for (int k = 0; k <= m; k++) {
                     double expected = k == 0 ? 0 : k == m ? 1 : StandardNormal.cdf(s.thresholds[row + k] - s.eta(i));
-                    assertEquals(expected, s.cdf[i * (m + 1) + k], 0.0, "respondent " + i + ", threshold " + k + ", trajectory " + t);
+                    assertEquals(expected, s.cdf[k * s.size + i], 0.0, "respondent " + i + ", threshold " + k + ", trajectory " + t);
                 }
             }
         }
