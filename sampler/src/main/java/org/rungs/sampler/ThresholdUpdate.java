@@ -157,7 +157,7 @@ final class ThresholdUpdate extends ThresholdMoves {
         int m = s.categories;
         for (int g = 0; g < s.groups; g++) {
             for (int j = 0; j < m; j++) {
-                if (!read[j]) {
+                if (!read[j] && !s.attractionOn()) {
                     continue;
                 }
                 boolean point = s.channel != null && s.channel.isPoint(j);
@@ -205,12 +205,9 @@ final class ThresholdUpdate extends ThresholdMoves {
             int row = g * stride;
             int from = s.start[g * m];
             int to = s.start[(g + 1) * m];
-            for (int i = from; i < to; i++) {
+            // refresh filled covariatePart for every respondent (under attraction every category is read)
+            for (int i = from; i < to && !current; i++) {
                 double eta = s.level.linear(i, g);
-                covariatePart[i] = eta - s.level.intercept[g];
-                if (current) {
-                    continue;
-                }
                 for (int k = 1; k < m; k++) {
                     s.cdf[k * s.size + i] = StandardNormal.cdf(s.thresholds[row + k] - eta);
                 }
