@@ -988,26 +988,16 @@ final class CollapsedPosterior {
      * For {@link #attractedCell}: c[g,k] - eta, its smaller tail and Phi(c[g,k] - eta) for k =
      * 1..M-1 into {@link #offset}, {@link #tail} and out[o + k step] (with the densities into
      * {@link #thresholdDensity} if grad); returns N_i = top + sum_k Phi(c[g,k] - eta) change[k]
-     * (summation by parts), in two running sums so that successive thresholds' additions do not
-     * wait on each other.
+     * (summation by parts).
      */
     private double cdfs(int base, double eta, double top, double[] out, int o, int step, boolean grad) {
-        double even = top;
-        double odd = 0;
+        double normaliser = top;
         for (int k = 1; k < m; k++) {
             double below = rows[base + k] - eta;
             double smaller = grad ? StandardNormal.smallerTail(below, thresholdDensity, k) : StandardNormal.smallerTail(below);
-            offset[k] = below;
-            tail[k] = smaller;
-            double phi = below > 0 ? 1 - smaller : smaller;
-            out[o + k * step] = phi;
-            if ((k & 1) == 0) {
-                even += phi * change[k];
-            } else {
-                odd += phi * change[k];
-            }
+            normaliser += keepThreshold(k, below, smaller, out, o + k * step);
         }
-        return even + odd;
+        return normaliser;
     }
 
     /**
@@ -1016,24 +1006,23 @@ final class CollapsedPosterior {
      * lies beyond the table, where the caller takes {@link #cdfs}.
      */
     private double tableCdfs(int base, double eta, double top, double[] out, int o, int step) {
-        double even = top;
-        double odd = 0;
+        double normaliser = top;
         boolean inTable = true;
         for (int k = 1; k < m; k++) {
             double below = rows[base + k] - eta;
             inTable &= Math.abs(below) < StandardNormal.TABLE_END;
-            double smaller = StandardNormal.smallerTailInTable(below);
-            offset[k] = below;
-            tail[k] = smaller;
-            double phi = below > 0 ? 1 - smaller : smaller;
-            out[o + k * step] = phi;
-            if ((k & 1) == 0) {
-                even += phi * change[k];
-            } else {
-                odd += phi * change[k];
-            }
+            normaliser += keepThreshold(k, below, StandardNormal.smallerTailInTable(below), out, o + k * step);
         }
-        return inTable ? even + odd : Double.NaN;
+        return inTable ? normaliser : Double.NaN;
+    }
+
+    /** Keeps threshold k's offset, smaller tail and cdf (at out[index]); returns its term of N_i, Phi change[k]. */
+    private double keepThreshold(int k, double below, double smaller, double[] out, int index) {
+        offset[k] = below;
+        tail[k] = smaller;
+        double phi = below > 0 ? 1 - smaller : smaller;
+        out[index] = phi;
+        return phi * change[k];
     }
 
     /**
