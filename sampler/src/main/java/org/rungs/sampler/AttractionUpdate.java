@@ -625,7 +625,6 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
     /** Sum over full-scale respondents from..to-1 of log N_i - log N_i' when exp(a[g,k]) grows by oddsChange. */
     private double stepLikelihoodChange(int from, int to, int k, double oddsChange) {
         ChainState s = state;
-        int m = s.categories;
         double change = 0;
         double product = 1;
         int low = k * s.size;

@@ -53,9 +53,9 @@ final class ChainState implements Checkpointed {
      * threshold, at k * size + i for respondent i in sorted order, so that a step that moves one
      * threshold or one attraction reads a contiguous column (one respondent after another in the
      * other layout read a cache line each for one or two doubles); and the normaliser N_i =
-     * sum_k pi[g,k](eta_i) exp(a[g,k]) of MODEL.md 4b. Filled by {@link ThresholdUpdate} at the start of a sweep and kept current by
-     * every later update that moves a threshold or an attraction before the levels move; empty
-     * when attraction is off.
+     * sum_k pi[g,k](eta_i) exp(a[g,k]) of MODEL.md 4b. Filled by {@link ThresholdUpdate} at the
+     * start of a sweep and kept current by every later update that moves a threshold or an
+     * attraction before the levels move; empty when attraction is off.
      */
     double[] cdf;
     final double[] normaliser;
