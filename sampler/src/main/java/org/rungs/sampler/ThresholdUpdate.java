@@ -36,6 +36,9 @@ final class ThresholdUpdate extends ThresholdMoves {
     private final int[][] visited;
     /** Per respondent: x_i' beta, fixed while the thresholds move (the level moves with alpha). */
     private final double[] covariatePart;
+    /** Under attraction, per (group, category) cell: the smallest and largest of its covariate parts. */
+    private final double[] covariateLow;
+    private final double[] covariateHigh;
     /** Per respondent: the smaller normal tail at the lower and at the upper bound of its category. */
     final double[] lowerTail;
     final double[] upperTail;
@@ -56,6 +59,14 @@ final class ThresholdUpdate extends ThresholdMoves {
     private final double[] excess;
     private final double[] proposedCdf;
     private final double[] proposedNormaliser;
+    /**
+     * Under attraction, the running products of the likelihoods after and before a step (their
+     * ratio is the likelihood ratio; kept apart, a respondent costs no division) and the logs
+     * taken of their ratio so far.
+     */
+    private double after;
+    private double before;
+    private double change;
     /** The log-ratio beyond what {@link #mixtureRatio} returned, since the caller last took it. */
     private double beyondProduct;
     /** Whether only the two end thresholds are stepped (see {@link #ends}). */
@@ -76,6 +87,8 @@ final class ThresholdUpdate extends ThresholdMoves {
         this.excess = new double[attraction ? state.groups * state.categories : 0];
         this.proposedCdf = new double[attraction ? state.size : 0];
         this.proposedNormaliser = new double[attraction ? state.size : 0];
+        this.covariateLow = new double[attraction ? state.groups * state.categories : 0];
+        this.covariateHigh = new double[attraction ? state.groups * state.categories : 0];
         this.visited = new int[cuts + 1][];
         for (int k = 1; k <= cuts; k++) {
             int kk = k;
@@ -161,16 +174,25 @@ final class ThresholdUpdate extends ThresholdMoves {
                     continue;
                 }
                 boolean point = s.channel != null && s.channel.isPoint(j);
+                boolean tails = j >= 1 && moves(j) || j + 1 <= cuts && moves(j + 1);
                 int at = g * stride + j;
                 int off = gap[g * m + j];
+                double lowest = Double.POSITIVE_INFINITY;
+                double highest = Double.NEGATIVE_INFINITY;
                 for (int i = start[g * m + j], end = start[g * m + j + 1]; i < end; i++) {
                     int slot = i - off;
                     double part = level.linear(i, g) - level.intercept[g];
                     covariatePart[slot] = part;
+                    lowest = Math.min(lowest, part);
+                    highest = Math.max(highest, part);
                     double eta = level.intercept[g] + part;
                     if (!point) {
-                        lowerTail[slot] = tail(t[at] - eta);
-                        upperTail[slot] = tail(t[at + 1] - eta);
+                        // under attraction every category's covariate parts are read, its tails only
+                        // beside a stepped threshold
+                        if (tails) {
+                            lowerTail[slot] = tail(t[at] - eta);
+                            upperTail[slot] = tail(t[at + 1] - eta);
+                        }
                     } else {
                         double linear = s.style.linear(i, g);
                         if (linear != lastLinear) {
@@ -181,6 +203,10 @@ final class ThresholdUpdate extends ThresholdMoves {
                         mixtureQ[slot] = lastQ;
                         refreshMixture(slot, g * stride, j, eta);
                     }
+                }
+                if (s.attractionOn()) {
+                    covariateLow[g * m + j] = lowest;
+                    covariateHigh[g * m + j] = highest;
                 }
             }
         }
@@ -321,16 +347,17 @@ final class ThresholdUpdate extends ThresholdMoves {
     /**
      * Under attraction: the log-likelihood change of every respondent of block b when threshold k
      * moves by delta relative to the levels, through its own category (as without attraction)
-     * and through N_i; keeps the moved cdf and N_i for {@link #keepProposedCaches}.
+     * and through N_i; keeps the moved cdf and N_i for {@link #keepProposedCaches}. Cell by
+     * (group, category) cell, so that what the category decides is decided once per cell.
      */
     private double attractedLikelihoodChange(int b, int k, double delta) {
         ChainState s = state;
         int m = s.categories;
         double[] t = s.thresholds;
         RoundingChannel channel = s.channel;
-        double change = 0;
-        double product = 1;
-        int column = k * s.size;
+        after = 1;
+        before = 1;
+        change = 0;
         for (int g = firstGroup(b); g <= lastGroup(b); g++) {
             int row = g * stride;
             double alpha = s.level.intercept[g];
@@ -338,34 +365,142 @@ final class ThresholdUpdate extends ThresholdMoves {
             double cut = t[row + k];
             double upper = t[row + k + 1];
             double shift = excess[g * m + k - 1] - excess[g * m + k];
-            for (int i = s.start[g * m], end = s.start[(g + 1) * m]; i < end; i++) {
-                double eta = alpha + covariatePart[i];
-                double movedCdf = StandardNormal.cdf(cut + delta - eta);
-                double before = s.normaliser[i];
-                double after = before + (movedCdf - s.cdf[column + i]) * shift;
-                proposedCdf[i] = movedCdf;
-                proposedNormaliser[i] = after;
-                int r = s.category[i];
-                if (channel != null && channel.isPoint(r)) {
-                    double odds = excess[g * m + r] + 1;
-                    product *= mixtureRatio(i, row, r, eta, k, delta, odds / before, odds / after);
-                } else {
-                    product *= before / after;
-                    if (r == k - 1) {
-                        product *= ownFactor(i, eta, lower, cut, true, delta);
-                    } else if (r == k) {
-                        product *= ownFactor(i, eta, cut, upper, false, delta);
-                    }
+            for (int r = 0; r < m; r++) {
+                int cell = g * m + r;
+                int from = s.start[cell];
+                int to = s.start[cell + 1];
+                if (from == to) {
+                    continue;
                 }
-                if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
-                    change += Math.log(product);
-                    product = 1;
+                // every x = cut + delta - eta of the cell lies between those at the cell's extreme
+                // covariate parts (rounding is monotone): inside the table, the cdf is read from it
+                double nearest = cut + delta - (alpha + covariateHigh[cell]);
+                double farthest = cut + delta - (alpha + covariateLow[cell]);
+                movedCdfs(from, to, alpha, cut, delta,
+                        nearest > -StandardNormal.TABLE_END && farthest < StandardNormal.TABLE_END);
+                if (channel != null && channel.isPoint(r)) {
+                    pointCellChange(from, to, row, r, k, delta, alpha, shift, excess[cell] + 1);
+                } else if (r == k - 1 || r == k) {
+                    neighbourCellChange(from, to, r == k - 1, alpha, r == k - 1 ? lower : cut,
+                            r == k - 1 ? cut : upper, delta, k, shift);
+                } else {
+                    otherCellChange(from, to, k, shift);
                 }
             }
         }
         change += beyondProduct;
         beyondProduct = 0;
-        return change + Math.log(product);
+        return change + Math.log(after / before);
+    }
+
+    /** Multiplies a respondent's likelihood ratio into {@link #after}, taking the log when a product leaves the bounds. */
+    private void multiply(double ratio) {
+        after *= ratio;
+        if (after < PRODUCT_LOW || after > PRODUCT_HIGH || before < PRODUCT_LOW || before > PRODUCT_HIGH) {
+            change += Math.log(after / before);
+            after = 1;
+            before = 1;
+        }
+    }
+
+    /**
+     * The log-likelihood change of a cell whose category neither borders threshold k nor is a
+     * coarse point: only N_i moves; the moved cdfs are in {@link #proposedCdf} ({@link #movedCdfs}).
+     */
+    private void otherCellChange(int from, int to, int k, double shift) {
+        ChainState s = state;
+        double[] cdf = s.cdf;
+        double[] normaliser = s.normaliser;
+        int column = k * s.size;
+        // the running products in registers: through the fields each step waits on a store
+        double likelihoodAfter = after;
+        double likelihoodBefore = before;
+        double change = this.change;
+        for (int i = from; i < to; i++) {
+            double movedCdf = proposedCdf[i];
+            double normaliserBefore = normaliser[i];
+            double normaliserAfter = normaliserBefore + (movedCdf - cdf[column + i]) * shift;
+            proposedNormaliser[i] = normaliserAfter;
+            // the likelihood is proportional to 1 / N_i
+            likelihoodAfter *= normaliserBefore;
+            likelihoodBefore *= normaliserAfter;
+            if (likelihoodAfter < PRODUCT_LOW || likelihoodAfter > PRODUCT_HIGH
+                    || likelihoodBefore < PRODUCT_LOW || likelihoodBefore > PRODUCT_HIGH) {
+                change += Math.log(likelihoodAfter / likelihoodBefore);
+                likelihoodAfter = 1;
+                likelihoodBefore = 1;
+            }
+        }
+        after = likelihoodAfter;
+        before = likelihoodBefore;
+        this.change = change;
+    }
+
+    /** As {@link #otherCellChange}, for a cell of category k-1 ({@code upperMoves}) or k: its own interval moves too. */
+    private void neighbourCellChange(int from, int to, boolean upperMoves, double alpha, double lowerBound,
+                                     double upperBound, double delta, int k, double shift) {
+        ChainState s = state;
+        int column = k * s.size;
+        for (int i = from; i < to; i++) {
+            double eta = alpha + covariatePart[i];
+            double normaliserBefore = s.normaliser[i];
+            double normaliserAfter = normaliserBefore + (proposedCdf[i] - s.cdf[column + i]) * shift;
+            proposedNormaliser[i] = normaliserAfter;
+            before *= normaliserAfter;
+            multiply(normaliserBefore * ownFactor(i, eta, lowerBound, upperBound, upperMoves, delta));
+        }
+    }
+
+    /**
+     * As {@link #otherCellChange}, for the cell of coarse point r (odds exp(a[g,r])), whose
+     * class is summed out ({@link #mixtureRatio}); where neither P(r | full) nor P(r | coarse)
+     * depends on threshold k, the ratio from the cached ones, as {@link #mixtureRatio} computes it.
+     */
+    private void pointCellChange(int from, int to, int row, int r, int k, double delta, double alpha,
+                                 double shift, double odds) {
+        ChainState s = state;
+        int column = k * s.size;
+        boolean moves = r == k - 1 || r == k || s.channel.dependsOn(r, k);
+        for (int i = from; i < to; i++) {
+            double eta = alpha + covariatePart[i];
+            double normaliserBefore = s.normaliser[i];
+            double normaliserAfter = normaliserBefore + (proposedCdf[i] - s.cdf[column + i]) * shift;
+            proposedNormaliser[i] = normaliserAfter;
+            if (!moves) {
+                // (1 - q) w P(r | full) + q P(r | coarse) with w = exp(a) / N_i, times N_i: full A, coarse B
+                double full = (1 - mixtureQ[i]) * odds * mixtureFull[i];
+                double coarse = mixtureQ[i] * mixtureCoarse[i];
+                double timesBefore = full + coarse * normaliserBefore;
+                double timesAfter = full + coarse * normaliserAfter;
+                if (timesAfter > 1e-280 * normaliserAfter && timesBefore > 1e-280 * normaliserBefore) {
+                    before *= timesBefore * normaliserAfter;
+                    multiply(timesAfter * normaliserBefore);
+                    continue;
+                }
+            }
+            multiply(mixtureRatio(i, row, r, eta, k, delta, odds / normaliserBefore, odds / normaliserAfter));
+        }
+    }
+
+    /**
+     * Phi(cut + delta - eta_i) for the cell's respondents into {@link #proposedCdf}; with
+     * {@code inTable} (every |x| below {@link StandardNormal#TABLE_END}) from the table alone, bit
+     * for bit {@link StandardNormal#cdf}, in a loop without calls (DEVELOPERS.md, "Benchmark":
+     * with a call in a loop, even on a branch never taken, C2 schedules it worse, and which way it
+     * compiles changes from one process to the next).
+     */
+    private void movedCdfs(int from, int to, double alpha, double cut, double delta, boolean inTable) {
+        if (inTable) {
+            for (int i = from; i < to; i++) {
+                double x = cut + delta - (alpha + covariatePart[i]);
+                double tail = StandardNormal.smallerTailInTable(x);
+                proposedCdf[i] = x > 0 ? 1 - tail : tail;
+            }
+        } else {
+            for (int i = from; i < to; i++) {
+                proposedCdf[i] = StandardNormal.cdf(cut + delta - (alpha + covariatePart[i]));
+            }
+        }
     }
 
     /** After an accepted move under attraction: the cdf at threshold k and N_i as proposed. */

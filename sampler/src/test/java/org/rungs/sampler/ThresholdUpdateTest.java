@@ -76,6 +76,58 @@ class ThresholdUpdateTest {
         }
     }
 
+    /**
+     * Under number attraction (MODEL.md 4b; coarse points 0, 3 and 6, numbers 2 and 4 attracted)
+     * the step's likelihood change, from the cached cdfs and N_i cell by cell, equals the change
+     * of the sum over respondents of {@link org.rungs.models.ResponseLikelihood#logRespondentAttracted}
+     * with the class summed out (4c), for every block and threshold, in both threshold modes, with
+     * one group's levels 6 and 40 above the scale's middle: its cells leave the normal table
+     * (the general cdf path), and at 40 their probabilities fall below 1e-300 (the log-space
+     * path). Tolerance 1e-9 as above; with the coarse-point cells' N_i taken before and after the
+     * wrong way round, the test failed.
+     */
+    @Test
+    void attractedLikelihoodChangeMatchesTheModel() {
+        for (double far : new double[] {6, 40}) {
+            for (boolean byGroup : new boolean[] {true, false}) {
+                ChainState s = CollapsedPosteriorTest.state(byGroup, true, true, far);
+                org.apache.commons.rng.UniformRandomProvider rng = org.apache.commons.rng.simple.RandomSource.XO_RO_SHI_RO_128_PP.create(6L);
+                ThresholdUpdate update = ThresholdUpdate.of(s, s.start, org.rungs.priors.Priors.defaults(), rng);
+                update.refresh();
+                int m = s.categories;
+                int stride = m + 1;
+                int blocks = byGroup ? s.groups + 1 : 1;
+                for (int b = 0; b < blocks; b++) {
+                    boolean common = b == blocks - 1;
+                    for (int k = 1; k < m; k++) {
+                        for (double delta : new double[] {0.07, -0.04}) {
+                            double[] moved = s.thresholds.clone();
+                            for (int g = 0; g < s.groups; g++) {
+                                if (common || g == b) {
+                                    moved[g * stride + k] += delta;
+                                    assertTrue(moved[g * stride + k] > moved[g * stride + k - 1]
+                                            && moved[g * stride + k] < moved[g * stride + k + 1], "the moved thresholds stay ordered");
+                                }
+                            }
+                            double expected = 0;
+                            double[] a = new double[m];
+                            for (int i = 0; i < s.size; i++) {
+                                int g = s.group[i];
+                                System.arraycopy(s.attraction, g * m, a, 0, m);
+                                double q = org.rungs.priors.StandardNormal.cdf(s.style.linear(i, g));
+                                int r = s.category[i];
+                                expected += org.rungs.models.ResponseLikelihood.logRespondentAttracted(s.channel, moved, g * stride, r, s.eta(i), q, a)
+                                        - org.rungs.models.ResponseLikelihood.logRespondentAttracted(s.channel, s.thresholds, g * stride, r, s.eta(i), q, a);
+                            }
+                            assertEquals(expected, update.logLikelihoodChange(b, k, delta), 1e-9,
+                                    "block " + b + " threshold " + k + " delta " + delta + " byGroup " + byGroup + " far " + far);
+                        }
+                    }
+                }
+            }
+        }
+    }
+
     /** After a sweep of accepted and rejected moves, the tails kept up to date equal freshly computed ones. */
     @Test
     void cachedTailsFollowAcceptedMoves() {
