@@ -69,8 +69,10 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
     private final HalfNormal sdPrior;
     private final SliceSampler slice;
     private final int[] attracted;
-    /** eta_i per respondent. */
+    /** eta_i per respondent, and per (group, category) cell its smallest and largest. */
     private final double[] eta;
+    private final double[] etaLow;
+    private final double[] etaHigh;
     /** exp(a[g,k]) - 1 by group and position. */
     private final double[] excess;
     /** Per respondent: the cdf at the two moved thresholds of a pending joint move. */
@@ -150,6 +152,8 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
         this.attracted = state.attracted;
         int m = state.categories;
         this.eta = new double[state.size];
+        this.etaLow = new double[state.groups * state.categories];
+        this.etaHigh = new double[state.groups * state.categories];
         this.proposedLow = new double[state.size];
         this.proposedHigh = new double[state.size];
         this.excess = new double[state.groups * m];
@@ -247,8 +251,18 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
         for (int at = 0; at < excess.length; at++) {
             excess[at] = Math.expm1(s.attraction[at]);
         }
-        for (int i = 0; i < s.size; i++) {
-            eta[i] = s.eta(i);
+        int m = s.categories;
+        for (int cell = 0; cell < etaLow.length; cell++) {
+            double low = Double.POSITIVE_INFINITY;
+            double high = Double.NEGATIVE_INFINITY;
+            for (int i = s.start[cell]; i < s.start[cell + 1]; i++) {
+                double x = s.eta(i);
+                eta[i] = x;
+                low = Math.min(low, x);
+                high = Math.max(high, x);
+            }
+            etaLow[cell] = low;
+            etaHigh[cell] = high;
         }
     }
 
@@ -301,12 +315,9 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
                 int to = s.start[(g + 1) * m];
                 int low = k * s.size;
                 int high = low + s.size;
-                for (int i = from; i < to; i++) {
-                    // a coarse reporter whose point's range does not end at k or k+1 was not computed
-                    boolean computed = !coarse(i) || !Double.isNaN(proposedLow[i]);
-                    s.cdf[low + i] = computed ? proposedLow[i] : StandardNormal.cdf(s.thresholds[row + k] - eta[i]);
-                    s.cdf[high + i] = computed ? proposedHigh[i] : StandardNormal.cdf(s.thresholds[row + k + 1] - eta[i]);
-                }
+                // the moved cdfs of every respondent, as the exact stage computed them
+                System.arraycopy(proposedLow, from, s.cdf, low + from, to - from);
+                System.arraycopy(proposedHigh, from, s.cdf, high + from, to - from);
                 s.refreshNormalisers(g, from, to);
                 if (ridgeFirstStage) {
                     ridgeCdfs(g, k, k + 1);
@@ -471,84 +482,171 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
 
     /**
      * Log-likelihood change of every respondent when thresholds k and k+1 of every group move by
-     * +h and -h and every a[g,k] gains e.
+     * +h and -h and every a[g,k] gains e; (group, category) cell by cell, so that what the
+     * category decides is decided once per cell. Leaves every respondent's moved cdfs in
+     * {@link #proposedLow} and {@link #proposedHigh}.
      */
     private double jointLikelihoodChange(int k, double e, double h) {
         ChainState s = state;
         int m = s.categories;
         int stride = m + 1;
         double[] t = s.thresholds;
+        RoundingChannel channel = s.channel;
         double change = 0;
-        double product = 1;
+        for (int g = 0; g < s.groups; g++) {
+            System.arraycopy(t, g * stride, scratch, 0, stride);
+            scratch[k] += h;
+            scratch[k + 1] -= h;
+            double excessAfter = Math.expm1(s.attraction[g * m + k] + e);
+            for (int r = 0; r < m; r++) {
+                int cell = g * m + r;
+                int from = s.start[cell];
+                int to = s.start[cell + 1];
+                if (from == to) {
+                    continue;
+                }
+                movedCdfs(from, to, scratch[k], scratch[k + 1], etaLow[cell], etaHigh[cell]);
+                boolean own = r >= k - 1 && r <= k + 1;
+                boolean coarseMoves = channel != null && (channel.dependsOn(r, k) || channel.dependsOn(r, k + 1));
+                change += own || coarseMoves
+                        ? bordering(from, to, g, r, k, e, excessAfter)
+                        : normaliserChange(from, to, g * m, k, excessAfter);
+            }
+        }
+        return change;
+    }
+
+    /**
+     * Phi(lowAfter - eta_i) and Phi(highAfter - eta_i) for respondents from..to-1 into
+     * {@link #proposedLow} and {@link #proposedHigh}; where every eta of the range (between
+     * etaLow and etaHigh; rounding is monotone) keeps both inside the normal table, from the
+     * table alone, bit for bit {@link StandardNormal#cdf}, in a loop without calls (DEVELOPERS.md,
+     * "Benchmark").
+     */
+    private void movedCdfs(int from, int to, double lowAfter, double highAfter, double etaLow, double etaHigh) {
+        double end = StandardNormal.TABLE_END;
+        if (lowAfter - etaHigh > -end && highAfter - etaLow < end) {
+            for (int i = from; i < to; i++) {
+                double x = lowAfter - eta[i];
+                double y = highAfter - eta[i];
+                double tailX = StandardNormal.smallerTailInTable(x);
+                double tailY = StandardNormal.smallerTailInTable(y);
+                proposedLow[i] = x > 0 ? 1 - tailX : tailX;
+                proposedHigh[i] = y > 0 ? 1 - tailY : tailY;
+            }
+        } else {
+            for (int i = from; i < to; i++) {
+                proposedLow[i] = StandardNormal.cdf(lowAfter - eta[i]);
+                proposedHigh[i] = StandardNormal.cdf(highAfter - eta[i]);
+            }
+        }
+    }
+
+    /**
+     * The change of a cell whose answer neither borders the moved thresholds nor, for a coarse
+     * reporter, depends on them: only the full-scale respondents' N_i moves. The likelihoods after
+     * and before in two running products, so that a respondent costs no division.
+     */
+    private double normaliserChange(int from, int to, int base, int k, double excessAfter) {
+        ChainState s = state;
+        int n = s.size;
+        double[] cdf = s.cdf;
+        double[] normaliser = s.normaliser;
+        byte[] classes = s.coarse;
+        int column = k * n;
+        double below = excess[base + k - 1];
+        double at = excess[base + k];
+        double above = excess[base + k + 1];
+        double change = 0;
+        double after = 1;
+        double before = 1;
+        for (int i = from; i < to; i++) {
+            if (classes != null && classes[i] == 1) {
+                continue;
+            }
+            double low = cdf[column + i];
+            double high = cdf[column + n + i];
+            double lowAfter = proposedLow[i];
+            double highAfter = proposedHigh[i];
+            double current = normaliser[i];
+            double moved = current
+                    + (lowAfter - low) * below
+                    + (highAfter - lowAfter) * excessAfter - (high - low) * at
+                    + (high - highAfter) * above;
+            // the likelihood is proportional to 1 / N_i
+            after *= current;
+            before *= moved;
+            if (after < PRODUCT_LOW || after > PRODUCT_HIGH || before < PRODUCT_LOW || before > PRODUCT_HIGH) {
+                change += Math.log(after / before);
+                after = 1;
+                before = 1;
+            }
+        }
+        return change + Math.log(after / before);
+    }
+
+    /** The change of a cell of answer r beside the moved thresholds, or a coarse point depending on them. */
+    private double bordering(int from, int to, int g, int r, int k, double e, double excessAfter) {
+        ChainState s = state;
+        int m = s.categories;
+        int row = g * (m + 1);
+        int base = g * m;
+        double[] t = s.thresholds;
         int n = s.size;
         double[] cdf = s.cdf;
         int column = k * n;
-        for (int g = 0; g < s.groups; g++) {
-            int row = g * stride;
-            System.arraycopy(t, row, scratch, 0, stride);
-            scratch[k] += h;
-            scratch[k + 1] -= h;
-            int base = g * m;
-            double excessAfter = Math.expm1(s.attraction[base + k] + e);
-            for (int i = s.start[g * m], end = s.start[(g + 1) * m]; i < end; i++) {
-                int r = s.category[i];
-                double x = eta[i];
-                int at = column + i;
-                if (coarse(i)) {
-                    RoundingChannel channel = s.channel;
-                    if (channel.dependsOn(r, k) || channel.dependsOn(r, k + 1)) {
-                        double lowAfter = StandardNormal.cdf(scratch[k] - x);
-                        double highAfter = StandardNormal.cdf(scratch[k + 1] - x);
-                        proposedLow[i] = lowAfter;
-                        proposedHigh[i] = highAfter;
-                        // from the cached cdfs as for the full-scale answers below, above EXACT_ENOUGH
-                        double before = coarseFromCdfs(channel, cdf, n, i, r, k, cdf[at], cdf[at + n]);
-                        double after = coarseFromCdfs(channel, cdf, n, i, r, k, lowAfter, highAfter);
-                        if (before > EXACT_ENOUGH && after > EXACT_ENOUGH) {
-                            product *= after / before;
-                        } else {
-                            change += ResponseLikelihood.logCoarse(channel, scratch, 0, r, x, -1, 0)
-                                    - ResponseLikelihood.logCoarse(channel, t, row, r, x, -1, 0);
-                        }
-                    } else {
-                        proposedLow[i] = Double.NaN;
-                    }
-                    continue;
-                }
-                double low = cdf[at];
-                double high = cdf[at + n];
-                double lowAfter = StandardNormal.cdf(scratch[k] - x);
-                double highAfter = StandardNormal.cdf(scratch[k + 1] - x);
-                proposedLow[i] = lowAfter;
-                proposedHigh[i] = highAfter;
-                double normaliser = s.normaliser[i];
-                double moved = normaliser
-                        + (lowAfter - low) * excess[base + k - 1]
-                        + (highAfter - lowAfter) * excessAfter - (high - low) * excess[base + k]
-                        + (high - highAfter) * excess[base + k + 1];
-                product *= normaliser / moved;
-                if (r >= k - 1 && r <= k + 1) {
-                    // from the cached cdfs: their differences carry an absolute error near 1e-16, so
-                    // above EXACT_ENOUGH the ratio is good to 1e-10; below it, the tail-exact path
-                    double before = r == k ? high - low : r < k ? low - cdf[at - n] : cdf[at + 2 * n] - high;
-                    double after = r == k ? highAfter - lowAfter : r < k ? lowAfter - cdf[at - n] : cdf[at + 2 * n] - highAfter;
-                    if (before <= EXACT_ENOUGH || after <= EXACT_ENOUGH) {
-                        before = ResponseLikelihood.full(t, row, r, x, -1, 0);
-                        after = ResponseLikelihood.full(scratch, 0, r, x, -1, 0);
-                    }
-                    if (before > 1e-280 && after > 1e-280) {
+        RoundingChannel channel = s.channel;
+        boolean coarseMoves = channel != null && (channel.dependsOn(r, k) || channel.dependsOn(r, k + 1));
+        double change = 0;
+        double product = 1;
+        for (int i = from; i < to; i++) {
+            double x = eta[i];
+            int at = column + i;
+            double lowAfter = proposedLow[i];
+            double highAfter = proposedHigh[i];
+            if (coarse(i)) {
+                if (coarseMoves) {
+                    // from the cached cdfs as for the full-scale answers below, above EXACT_ENOUGH
+                    double before = coarseFromCdfs(channel, cdf, n, i, r, k, cdf[at], cdf[at + n]);
+                    double after = coarseFromCdfs(channel, cdf, n, i, r, k, lowAfter, highAfter);
+                    if (before > EXACT_ENOUGH && after > EXACT_ENOUGH) {
                         product *= after / before;
                     } else {
-                        change += ResponseLikelihood.logFull(scratch, 0, r, x) - ResponseLikelihood.logFull(t, row, r, x);
-                    }
-                    if (r == k) {
-                        change += e;
+                        change += ResponseLikelihood.logCoarse(channel, scratch, 0, r, x, -1, 0)
+                                - ResponseLikelihood.logCoarse(channel, t, row, r, x, -1, 0);
                     }
                 }
-                if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
-                    change += Math.log(product);
-                    product = 1;
+                continue;
+            }
+            double low = cdf[at];
+            double high = cdf[at + n];
+            double normaliser = s.normaliser[i];
+            double moved = normaliser
+                    + (lowAfter - low) * excess[base + k - 1]
+                    + (highAfter - lowAfter) * excessAfter - (high - low) * excess[base + k]
+                    + (high - highAfter) * excess[base + k + 1];
+            product *= normaliser / moved;
+            if (r >= k - 1 && r <= k + 1) {
+                // from the cached cdfs: their differences carry an absolute error near 1e-16, so
+                // above EXACT_ENOUGH the ratio is good to 1e-10; below it, the tail-exact path
+                double before = r == k ? high - low : r < k ? low - cdf[at - n] : cdf[at + 2 * n] - high;
+                double after = r == k ? highAfter - lowAfter : r < k ? lowAfter - cdf[at - n] : cdf[at + 2 * n] - highAfter;
+                if (before <= EXACT_ENOUGH || after <= EXACT_ENOUGH) {
+                    before = ResponseLikelihood.full(t, row, r, x, -1, 0);
+                    after = ResponseLikelihood.full(scratch, 0, r, x, -1, 0);
                 }
+                if (before > 1e-280 && after > 1e-280) {
+                    product *= after / before;
+                } else {
+                    change += ResponseLikelihood.logFull(scratch, 0, r, x) - ResponseLikelihood.logFull(t, row, r, x);
+                }
+                if (r == k) {
+                    change += e;
+                }
+            }
+            if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
+                change += Math.log(product);
+                product = 1;
             }
         }
         return change + Math.log(product);
