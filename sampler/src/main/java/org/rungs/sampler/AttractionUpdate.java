@@ -80,6 +80,9 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
     private final double[] proposedHigh;
     /** A group's thresholds as a joint move proposes them. */
     private final double[] scratch;
+    /** Scratch of {@link #normaliserChange}: one group's exp(a) - 1 before and after, by position in A. */
+    private final double[] weightBefore;
+    private final double[] weightAfter;
     private final double[] logScale;
     private final double[] jointLogScale;
     private final double commonPriorPrecision;
@@ -158,6 +161,8 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
         this.proposedHigh = new double[state.size];
         this.excess = new double[state.groups * m];
         this.scratch = new double[m + 1];
+        this.weightBefore = new double[attracted.length];
+        this.weightAfter = new double[attracted.length];
         this.logScale = new double[state.groups * attracted.length];
         this.jointLogScale = new double[attracted.length];
         this.commonPriorPrecision = priors.threshold().precision();
@@ -720,25 +725,39 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
         }
     }
 
+    /** For tests: the likelihood part of a move of a[g,k] alone to {@code proposed}. */
+    double singleChange(int g, int k, double proposed) {
+        int m = state.categories;
+        double oddsChange = Math.exp(proposed) - Math.exp(state.attraction[g * m + k]);
+        return stepLikelihoodChange(state.start[g * m], state.start[(g + 1) * m], k, oddsChange);
+    }
+
     /** Sum over full-scale respondents from..to-1 of log N_i - log N_i' when exp(a[g,k]) grows by oddsChange. */
     private double stepLikelihoodChange(int from, int to, int k, double oddsChange) {
         ChainState s = state;
+        double[] cdf = s.cdf;
+        double[] normaliser = s.normaliser;
+        byte[] classes = s.coarse;
         double change = 0;
-        double product = 1;
+        double after = 1;
+        double before = 1;
         int low = k * s.size;
         int high = low + s.size;
         for (int i = from; i < to; i++) {
-            if (coarse(i)) {
+            if (classes != null && classes[i] == 1) {
                 continue;
             }
-            double n = s.normaliser[i];
-            product *= n / (n + (s.cdf[high + i] - s.cdf[low + i]) * oddsChange);
-            if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
-                change += Math.log(product);
-                product = 1;
+            // the likelihood is proportional to 1 / N_i: two products, no division per respondent
+            double n = normaliser[i];
+            after *= n;
+            before *= n + (cdf[high + i] - cdf[low + i]) * oddsChange;
+            if (after < PRODUCT_LOW || after > PRODUCT_HIGH || before < PRODUCT_LOW || before > PRODUCT_HIGH) {
+                change += Math.log(after / before);
+                after = 1;
+                before = 1;
             }
         }
-        return change + Math.log(product);
+        return change + Math.log(after / before);
     }
 
     /** How many of group g's full-scale respondents answered position k (respondents are sorted by category). */
@@ -778,23 +797,7 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
                 logRatio += answers(g, k) * (proposed[at] - s.attraction[at]);
             }
         }
-        double product = 1;
-        for (int i = 0; i < s.size; i++) {
-            if (coarse(i)) {
-                continue;
-            }
-            int base = s.group[i] * m;
-            double n = 1;
-            for (int k : attracted) {
-                n += (s.cdf[(k + 1) * s.size + i] - s.cdf[k * s.size + i]) * proposedExcess[base + k];
-            }
-            product *= s.normaliser[i] / n;
-            if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
-                logRatio += Math.log(product);
-                product = 1;
-            }
-        }
-        logRatio += Math.log(product);
+        logRatio += normaliserChange(null, proposedExcess);
         boolean accept = Math.log(rng.nextDouble()) < logRatio;
         if (accept) {
             s.attractionSd *= ratio;
@@ -1013,29 +1016,67 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
      * a block move's ratio.
      */
     private double exactChange() {
+        return normaliserChange(excess, proposedExcess);
+    }
+
+    /**
+     * For tests: the exact stage of the block moves (or, with {@code cachedBefore}, of the spread
+     * move, which reads the cached N_i) for the attractions {@code proposedAttraction}, by group
+     * and position.
+     */
+    double normaliserChange(double[] proposedAttraction, boolean cachedBefore) {
+        cache();
+        for (int at = 0; at < proposedExcess.length; at++) {
+            proposedExcess[at] = Math.expm1(proposedAttraction[at]);
+        }
+        return normaliserChange(cachedBefore ? null : excess, proposedExcess);
+    }
+
+    /**
+     * Sum over full-scale respondents of log N_i - log N_i', N_i' from the cached cdfs and the
+     * attractions' exp(a) - 1 in {@code after} (by group and position), N_i likewise from
+     * {@code before}, or the cached N_i where that is null. Group by group, with the likelihoods
+     * after and before in two running products, so that a respondent costs no division.
+     */
+    private double normaliserChange(double[] before, double[] after) {
         ChainState s = state;
         int m = s.categories;
-        double logRatio = 0;
-        double product = 1;
-        for (int i = 0; i < s.size; i++) {
-            if (coarse(i)) {
-                continue;
+        int n = s.size;
+        int na = attracted.length;
+        double[] cdf = s.cdf;
+        byte[] classes = s.coarse;
+        double change = 0;
+        double likelihoodAfter = 1;
+        double likelihoodBefore = 1;
+        for (int g = 0; g < s.groups; g++) {
+            for (int j = 0; j < na; j++) {
+                weightBefore[j] = before == null ? 0 : before[g * m + attracted[j]];
+                weightAfter[j] = after[g * m + attracted[j]];
             }
-            int base = s.group[i] * m;
-            double before = 1;
-            double after = 1;
-            for (int k : attracted) {
-                double pi = s.cdf[(k + 1) * s.size + i] - s.cdf[k * s.size + i];
-                before += pi * excess[base + k];
-                after += pi * proposedExcess[base + k];
-            }
-            product *= before / after;
-            if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
-                logRatio += Math.log(product);
-                product = 1;
+            for (int i = s.start[g * m], end = s.start[(g + 1) * m]; i < end; i++) {
+                if (classes != null && classes[i] == 1) {
+                    continue;
+                }
+                double normaliserBefore = 1;
+                double normaliserAfter = 1;
+                for (int j = 0; j < na; j++) {
+                    int k = attracted[j];
+                    double pi = cdf[(k + 1) * n + i] - cdf[k * n + i];
+                    normaliserBefore += pi * weightBefore[j];
+                    normaliserAfter += pi * weightAfter[j];
+                }
+                // the likelihood is proportional to 1 / N_i
+                likelihoodAfter *= before == null ? s.normaliser[i] : normaliserBefore;
+                likelihoodBefore *= normaliserAfter;
+                if (likelihoodAfter < PRODUCT_LOW || likelihoodAfter > PRODUCT_HIGH
+                        || likelihoodBefore < PRODUCT_LOW || likelihoodBefore > PRODUCT_HIGH) {
+                    change += Math.log(likelihoodAfter / likelihoodBefore);
+                    likelihoodAfter = 1;
+                    likelihoodBefore = 1;
+                }
             }
         }
-        return logRatio + Math.log(product);
+        return change + Math.log(likelihoodAfter / likelihoodBefore);
     }
 
     /**
