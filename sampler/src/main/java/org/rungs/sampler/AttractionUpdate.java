@@ -42,8 +42,6 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
     /** Bounds of the running product of likelihood ratios before its log is taken. */
     private static final double PRODUCT_LOW = 1e-150;
     private static final double PRODUCT_HIGH = 1e150;
-    /** Category probabilities above this are taken as differences of cached cdfs. */
-    private static final double EXACT_ENOUGH = 1e-6;
     /**
      * Block moves of tau_a and the a[g,j] per sweep ({@link #blockStep}). On the attraction demo
      * (seeds 2 and 1) the bulk ESS of attraction_sd went from 24 and 50 without them to 91 and
@@ -611,10 +609,10 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
             double highAfter = proposedHigh[i];
             if (coarse(i)) {
                 if (coarseMoves) {
-                    // from the cached cdfs as for the full-scale answers below, above EXACT_ENOUGH
-                    double before = coarseFromCdfs(channel, cdf, n, i, r, k, cdf[at], cdf[at + n]);
-                    double after = coarseFromCdfs(channel, cdf, n, i, r, k, lowAfter, highAfter);
-                    if (before > EXACT_ENOUGH && after > EXACT_ENOUGH) {
+                    // from the cached cdfs as for the full-scale answers below, above ChainState.EXACT_ENOUGH
+                    double before = ChainState.coarseFromCdfs(channel, cdf, n, i, r, k, cdf[at], cdf[at + n]);
+                    double after = ChainState.coarseFromCdfs(channel, cdf, n, i, r, k, lowAfter, highAfter);
+                    if (before > ChainState.EXACT_ENOUGH && after > ChainState.EXACT_ENOUGH) {
                         product *= after / before;
                     } else {
                         change += ResponseLikelihood.logCoarse(channel, scratch, 0, r, x, -1, 0)
@@ -633,10 +631,10 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
             product *= normaliser / moved;
             if (r >= k - 1 && r <= k + 1) {
                 // from the cached cdfs: their differences carry an absolute error near 1e-16, so
-                // above EXACT_ENOUGH the ratio is good to 1e-10; below it, the tail-exact path
+                // above ChainState.EXACT_ENOUGH the ratio is good to 1e-10; below it, the tail-exact path
                 double before = r == k ? high - low : r < k ? low - cdf[at - n] : cdf[at + 2 * n] - high;
                 double after = r == k ? highAfter - lowAfter : r < k ? lowAfter - cdf[at - n] : cdf[at + 2 * n] - highAfter;
-                if (before <= EXACT_ENOUGH || after <= EXACT_ENOUGH) {
+                if (before <= ChainState.EXACT_ENOUGH || after <= ChainState.EXACT_ENOUGH) {
                     before = ResponseLikelihood.full(t, row, r, x, -1, 0);
                     after = ResponseLikelihood.full(scratch, 0, r, x, -1, 0);
                 }
@@ -655,28 +653,6 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
             }
         }
         return change + Math.log(product);
-    }
-
-    /**
-     * P(r | coarse) of MODEL.md 4a for coarse point r from respondent i's cdfs (columns of n, as
-     * {@link ChainState#cdf}), with those at thresholds k and k+1 replaced by lowK and highK1: the
-     * point's full range and half of each tie category beside it.
-     */
-    private static double coarseFromCdfs(RoundingChannel channel, double[] cdf, int n, int i, int r, int k, double lowK, double highK1) {
-        int low = channel.fullLow(r);
-        int high = channel.fullHigh(r) + 1;
-        double p = cdfAt(cdf, n, i, high, k, lowK, highK1) - cdfAt(cdf, n, i, low, k, lowK, highK1);
-        if (channel.tieBelow(r)) {
-            p += 0.5 * (cdfAt(cdf, n, i, low, k, lowK, highK1) - cdfAt(cdf, n, i, low - 1, k, lowK, highK1));
-        }
-        if (channel.tieAbove(r)) {
-            p += 0.5 * (cdfAt(cdf, n, i, high + 1, k, lowK, highK1) - cdfAt(cdf, n, i, high, k, lowK, highK1));
-        }
-        return p;
-    }
-
-    private static double cdfAt(double[] cdf, int n, int i, int t, int k, double lowK, double highK1) {
-        return t == k ? lowK : t == k + 1 ? highK1 : cdf[t * n + i];
     }
 
     private static double sq(double x) {

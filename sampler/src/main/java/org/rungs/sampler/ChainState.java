@@ -14,6 +14,12 @@ import org.rungs.models.survey.Survey;
  * category k of group g lies between {@code thresholds[g*(M+1)+k]} and the next entry.
  */
 final class ChainState implements Checkpointed {
+    /**
+     * Category probabilities above this are taken as differences of the cached cdfs (absolute
+     * error near 1e-16, so relative error below 1e-10); below it the tail-exact computation.
+     */
+    static final double EXACT_ENOUGH = 1e-6;
+
     final Survey survey;
     final byte[] category;
     final int[] group;
@@ -138,6 +144,28 @@ final class ChainState implements Checkpointed {
             }
             normaliser[i] = n;
         }
+    }
+
+    /**
+     * P(r | coarse) of MODEL.md 4a for coarse point r from respondent i's cdfs (columns of n, as
+     * {@link ChainState#cdf}), with those at thresholds k and k+1 replaced by lowK and highK1: the
+     * point's full range and half of each tie category beside it.
+     */
+    static double coarseFromCdfs(RoundingChannel channel, double[] cdf, int n, int i, int r, int k, double lowK, double highK1) {
+        int low = channel.fullLow(r);
+        int high = channel.fullHigh(r) + 1;
+        double p = cdfAt(cdf, n, i, high, k, lowK, highK1) - cdfAt(cdf, n, i, low, k, lowK, highK1);
+        if (channel.tieBelow(r)) {
+            p += 0.5 * (cdfAt(cdf, n, i, low, k, lowK, highK1) - cdfAt(cdf, n, i, low - 1, k, lowK, highK1));
+        }
+        if (channel.tieAbove(r)) {
+            p += 0.5 * (cdfAt(cdf, n, i, high + 1, k, lowK, highK1) - cdfAt(cdf, n, i, high, k, lowK, highK1));
+        }
+        return p;
+    }
+
+    private static double cdfAt(double[] cdf, int n, int i, int t, int k, double lowK, double highK1) {
+        return t == k ? lowK : t == k + 1 ? highK1 : cdf[t * n + i];
     }
 
     /** Makes {@link #spareCdf} the current {@link #cdf} and the current one the spare. */

@@ -163,6 +163,9 @@ final class ThresholdUpdate extends ThresholdMoves {
      */
     void refresh() {
         ChainState s = state;
+        if (s.attractionOn()) {
+            fillCdfs();
+        }
         double lastLinear = Double.NaN;
         double lastQ = 0;
         RegressionBlock level = s.level;
@@ -201,7 +204,11 @@ final class ThresholdUpdate extends ThresholdMoves {
                             lastLinear = linear;
                         }
                         mixtureQ[slot] = lastQ;
-                        refreshMixture(slot, g * stride, j, eta);
+                        if (s.attractionOn()) {
+                            mixtureFromCdfs(slot, i, g * stride, j, eta);
+                        } else {
+                            refreshMixture(slot, g * stride, j, eta);
+                        }
                     }
                 }
                 if (s.attractionOn()) {
@@ -215,31 +222,50 @@ final class ThresholdUpdate extends ThresholdMoves {
         }
     }
 
-    /**
-     * Fills {@link ChainState#cdf} (unless the joint step left it current, {@link ChainState#cdfCurrent})
-     * and {@link ChainState#normaliser} and the odds of the attraction.
-     */
+    /** Fills {@link ChainState#cdf}, unless the joint step left it current ({@link ChainState#cdfCurrent}). */
+    private void fillCdfs() {
+        ChainState s = state;
+        int m = s.categories;
+        if (s.cdfCurrent) {
+            s.cdfCurrent = false;
+            return;
+        }
+        for (int g = 0; g < s.groups; g++) {
+            int row = g * stride;
+            for (int i = s.start[g * m], to = s.start[(g + 1) * m]; i < to; i++) {
+                double eta = s.level.linear(i, g);
+                for (int k = 1; k < m; k++) {
+                    s.cdf[k * s.size + i] = StandardNormal.cdf(s.thresholds[row + k] - eta);
+                }
+            }
+        }
+    }
+
+    /** Fills {@link ChainState#normaliser} and the odds of the attraction from the cdfs. */
     private void refreshAttraction() {
         ChainState s = state;
         int m = s.categories;
         for (int at = 0; at < excess.length; at++) {
             excess[at] = Math.expm1(s.attraction[at]);
         }
-        boolean current = s.cdfCurrent;
-        s.cdfCurrent = false;
         for (int g = 0; g < s.groups; g++) {
-            int row = g * stride;
-            int from = s.start[g * m];
-            int to = s.start[(g + 1) * m];
-            // refresh filled covariatePart for every respondent (under attraction every category is read)
-            for (int i = from; i < to && !current; i++) {
-                double eta = s.level.linear(i, g);
-                for (int k = 1; k < m; k++) {
-                    s.cdf[k * s.size + i] = StandardNormal.cdf(s.thresholds[row + k] - eta);
-                }
-            }
-            s.refreshNormalisers(g, from, to);
+            s.refreshNormalisers(g, s.start[g * m], s.start[(g + 1) * m]);
         }
+    }
+
+    /**
+     * Under attraction, {@link #refreshMixture} from respondent i's cached cdfs: the two
+     * probabilities as their differences above {@link ChainState#EXACT_ENOUGH} (good to 1e-10
+     * relative), computed from the tails below it.
+     */
+    private void mixtureFromCdfs(int slot, int i, int row, int j, double eta) {
+        ChainState s = state;
+        int n = s.size;
+        double full = s.cdf[(j + 1) * n + i] - s.cdf[j * n + i];
+        mixtureFull[slot] = full > ChainState.EXACT_ENOUGH ? full : ResponseLikelihood.full(s.thresholds, row, j, eta, -1, 0);
+        double coarse = ChainState.coarseFromCdfs(s.channel, s.cdf, n, i, j, -2, 0, 0);
+        mixtureCoarse[slot] = coarse > ChainState.EXACT_ENOUGH ? coarse
+                : ResponseLikelihood.coarse(s.channel, s.thresholds, row, j, eta, -1, 0);
     }
 
     private void refreshMixture(int i, int row, int j, double eta) {
