@@ -312,16 +312,10 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
                 int row = g * stride;
                 s.thresholds[row + k] += h;
                 s.thresholds[row + k + 1] -= h;
+                double at = excess[g * m + k];
                 s.attraction[g * m + k] += e;
                 excess[g * m + k] = Math.expm1(s.attraction[g * m + k]);
-                int from = s.start[g * m];
-                int to = s.start[(g + 1) * m];
-                int low = k * s.size;
-                int high = low + s.size;
-                // the moved cdfs of every respondent, as the exact stage computed them
-                System.arraycopy(proposedLow, from, s.cdf, low + from, to - from);
-                System.arraycopy(proposedHigh, from, s.cdf, high + from, to - from);
-                s.refreshNormalisers(g, from, to);
+                keepRidgeMove(g, k, at);
                 if (ridgeFirstStage) {
                     ridgeCdfs(g, k, k + 1);
                 }
@@ -329,6 +323,38 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
         }
         if (adapt) {
             jointLogScale[j] += Math.pow(warmupStep + 1.0, -0.6) * ((accept ? 1 : 0) - TARGET_ACCEPTANCE);
+        }
+    }
+
+    /**
+     * After an accepted ridge move of number k: group g's moved cdfs, as the exact stage computed
+     * them for every respondent, and N_i moved by the same terms as there ({@link #normaliserChange}),
+     * {@code at} being exp(a[g,k]) - 1 before the move: the three other columns and the other
+     * attractions' terms do not change, so no pass over every attraction
+     * ({@link ChainState#refreshNormalisers}, which the threshold refresh runs each sweep).
+     */
+    private void keepRidgeMove(int g, int k, double at) {
+        ChainState s = state;
+        int m = s.categories;
+        int base = g * m;
+        double[] cdf = s.cdf;
+        double[] normaliser = s.normaliser;
+        int low = k * s.size;
+        int high = low + s.size;
+        double below = excess[base + k - 1];
+        double excessAfter = excess[base + k];
+        double above = excess[base + k + 1];
+        for (int i = s.start[base], to = s.start[base + m]; i < to; i++) {
+            double lowBefore = cdf[low + i];
+            double highBefore = cdf[high + i];
+            double lowAfter = proposedLow[i];
+            double highAfter = proposedHigh[i];
+            normaliser[i] = normaliser[i]
+                    + (lowAfter - lowBefore) * below
+                    + (highAfter - lowAfter) * excessAfter - (highBefore - lowBefore) * at
+                    + (highBefore - highAfter) * above;
+            cdf[low + i] = lowAfter;
+            cdf[high + i] = highAfter;
         }
     }
 
