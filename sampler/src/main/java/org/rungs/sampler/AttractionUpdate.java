@@ -39,9 +39,6 @@ import org.rungs.priors.StandardNormal;
  */
 final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDensity {
     private static final double TARGET_ACCEPTANCE = 0.44;
-    /** Bounds of the running product of likelihood ratios before its log is taken. */
-    private static final double PRODUCT_LOW = 1e-150;
-    private static final double PRODUCT_HIGH = 1e150;
     /**
      * Block moves of tau_a and the a[g,j] per sweep ({@link #blockStep}). On the attraction demo
      * (seeds 2 and 1) the bulk ESS of attraction_sd went from 24 and 50 without them to 91 and
@@ -605,7 +602,7 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
             // the likelihood is proportional to 1 / N_i
             after *= current;
             before *= moved;
-            if (after < PRODUCT_LOW || after > PRODUCT_HIGH || before < PRODUCT_LOW || before > PRODUCT_HIGH) {
+            if (RunningProducts.outside(after, before)) {
                 change += Math.log(after / before);
                 after = 1;
                 before = 1;
@@ -673,7 +670,7 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
                     change += e;
                 }
             }
-            if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
+            if (product < RunningProducts.LOW || product > RunningProducts.HIGH) {
                 change += Math.log(product);
                 product = 1;
             }
@@ -753,7 +750,7 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
             double n = normaliser[i];
             after *= n;
             before *= n + (cdf[high + i] - cdf[low + i]) * oddsChange;
-            if (after < PRODUCT_LOW || after > PRODUCT_HIGH || before < PRODUCT_LOW || before > PRODUCT_HIGH) {
+            if (RunningProducts.outside(after, before)) {
                 change += Math.log(after / before);
                 after = 1;
                 before = 1;
@@ -1070,8 +1067,7 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
                 // the likelihood is proportional to 1 / N_i
                 likelihoodAfter *= before == null ? s.normaliser[i] : normaliserBefore;
                 likelihoodBefore *= normaliserAfter;
-                if (likelihoodAfter < PRODUCT_LOW || likelihoodAfter > PRODUCT_HIGH
-                        || likelihoodBefore < PRODUCT_LOW || likelihoodBefore > PRODUCT_HIGH) {
+                if (RunningProducts.outside(likelihoodAfter, likelihoodBefore)) {
                     change += Math.log(likelihoodAfter / likelihoodBefore);
                     likelihoodAfter = 1;
                     likelihoodBefore = 1;

@@ -36,9 +36,6 @@ import org.rungs.priors.StandardNormal;
  */
 final class StyleClassUpdate implements Update, Checkpointed {
     private static final double TARGET_ACCEPTANCE = 0.44;
-    /** Bounds of the running product of likelihood ratios before its log is taken. */
-    private static final double PRODUCT_LOW = 1e-150;
-    private static final double PRODUCT_HIGH = 1e150;
     private final ChainState state;
     private final UniformRandomProvider rng;
     private final TruncatedNormalSampler truncatedNormal;
@@ -369,8 +366,8 @@ final class StyleClassUpdate implements Update, Checkpointed {
     /**
      * Without style covariates: the change of the coarse-point reporters' log mixtures in group g
      * when every one's class probit moves from {@code before} to {@code after}, as the log of a
-     * running product of likelihood ratios (one logarithm per {@link #PRODUCT_LOW} to
-     * {@link #PRODUCT_HIGH} of it, not one per respondent); a respondent whose mixture is too small
+     * running product of likelihood ratios (one logarithm each time it leaves the bounds of
+     * {@link RunningProducts}, not one per respondent); a respondent whose mixture is too small
      * for a ratio enters in log space.
      */
     private double sharedShareChange(int g, double before, double after) {
@@ -386,7 +383,7 @@ final class StyleClassUpdate implements Update, Checkpointed {
                 double moved = (1 - qAfter) * full[at] + qAfter * coarse[at];
                 if (now > 1e-280 && moved > 1e-280) {
                     product *= moved / now;
-                    if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
+                    if (product < RunningProducts.LOW || product > RunningProducts.HIGH) {
                         change += Math.log(product);
                         product = 1;
                     }

@@ -26,9 +26,6 @@ final class ThresholdUpdate extends ThresholdMoves {
      * than a second sweep (demo: bulk ESS of the group thresholds roughly doubled).
      */
     private static final int PASSES = 2;
-    /** Bounds of the running product of likelihood ratios before its log is taken. */
-    private static final double PRODUCT_LOW = 1e-150;
-    private static final double PRODUCT_HIGH = 1e150;
     /**
      * For each threshold k, the reported categories whose likelihood depends on it: k-1 and k,
      * and the coarse points whose coarse-class probability has k as an outer boundary.
@@ -317,7 +314,7 @@ final class ThresholdUpdate extends ThresholdMoves {
                     double product = 1;
                     for (int i = from; i < to; i++) {
                         product *= mixtureRatio(i, row, j, s.level.intercept[g] + covariatePart[i], k, delta, 1, 1);
-                        if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
+                        if (product < RunningProducts.LOW || product > RunningProducts.HIGH) {
                             change += Math.log(product);
                             product = 1;
                         }
@@ -345,7 +342,7 @@ final class ThresholdUpdate extends ThresholdMoves {
         double product = 1;
         for (int i = from; i < to; i++) {
             product *= ownFactor(i, alpha + covariatePart[i], lowerBound, upperBound, upperMoves, delta);
-            if (product < PRODUCT_LOW || product > PRODUCT_HIGH) {
+            if (product < RunningProducts.LOW || product > RunningProducts.HIGH) {
                 change += Math.log(product);
                 product = 1;
             }
@@ -422,7 +419,7 @@ final class ThresholdUpdate extends ThresholdMoves {
     /** Multiplies a respondent's likelihood ratio into {@link #after}, taking the log when a product leaves the bounds. */
     private void multiply(double ratio) {
         after *= ratio;
-        if (after < PRODUCT_LOW || after > PRODUCT_HIGH || before < PRODUCT_LOW || before > PRODUCT_HIGH) {
+        if (RunningProducts.outside(after, before)) {
             change += Math.log(after / before);
             after = 1;
             before = 1;
@@ -450,8 +447,7 @@ final class ThresholdUpdate extends ThresholdMoves {
             // the likelihood is proportional to 1 / N_i
             likelihoodAfter *= normaliserBefore;
             likelihoodBefore *= normaliserAfter;
-            if (likelihoodAfter < PRODUCT_LOW || likelihoodAfter > PRODUCT_HIGH
-                    || likelihoodBefore < PRODUCT_LOW || likelihoodBefore > PRODUCT_HIGH) {
+            if (RunningProducts.outside(likelihoodAfter, likelihoodBefore)) {
                 change += Math.log(likelihoodAfter / likelihoodBefore);
                 likelihoodAfter = 1;
                 likelihoodBefore = 1;
@@ -542,8 +538,8 @@ final class ThresholdUpdate extends ThresholdMoves {
     /**
      * Multiplies the running product of likelihood ratios by after/before; where either
      * probability underflows, by the ratio computed in log space instead. The caller takes the
-     * log of the product whenever it leaves [PRODUCT_LOW, PRODUCT_HIGH], so one log serves many
-     * respondents without overflow.
+     * log of the product whenever it leaves the bounds of {@link RunningProducts}, so one log
+     * serves many respondents without overflow.
      */
     private static double accumulate(double product, double before, double after,
                                      double low, double high, double newLow, double newHigh) {
