@@ -476,7 +476,8 @@ final class ThresholdUpdate extends ThresholdMoves {
     /**
      * As {@link #otherCellChange}, for the cell of coarse point r (odds exp(a[g,r])), whose
      * class is summed out ({@link #mixtureRatio}); where neither P(r | full) nor P(r | coarse)
-     * depends on threshold k, the ratio from the cached ones, as {@link #mixtureRatio} computes it.
+     * depends on threshold k, the ratio from the cached ones, each side times its N_i so that it
+     * enters the two products without a division.
      */
     private void pointCellChange(int from, int to, int row, int r, int k, double delta, double alpha,
                                  double shift, double odds) {
