@@ -64,14 +64,17 @@ final class ChainState implements Checkpointed {
      * attraction before the levels move; empty when attraction is off.
      */
     double[] cdf;
-    final double[] normaliser;
+    double[] normaliser;
     /**
      * Under attraction, a second array shaped as {@link #cdf}, which the joint step fills at its
      * proposal and swaps in when it accepts ({@link JointHamiltonianUpdate}); and whether
      * {@link #cdf} holds, bit for bit, what {@link ThresholdUpdate#refresh} would compute at the
-     * current state (set by the joint step, cleared by that refresh), so that it need not.
+     * current state, and {@link #normaliser} the N_i of the joint step's pass there (set by the
+     * joint step, cleared by that refresh), so that it need not recompute them.
      */
     double[] spareCdf;
+    /** N_i beside {@link #spareCdf}, swapped with it. */
+    double[] spareNormaliser;
     boolean cdfCurrent;
     /** exp(a[g,k]) - 1 of the group being refreshed, by position. */
     private final double[] excess;
@@ -106,6 +109,7 @@ final class ChainState implements Checkpointed {
             java.util.Arrays.fill(spareCdf, categories * size, cdf.length, 1);
         }
         this.normaliser = new double[attracted.length > 0 ? size : 0];
+        this.spareNormaliser = new double[normaliser.length];
         this.excess = new double[categories];
         common = new double[categories + 1];
         thresholds = new double[groups * (categories + 1)];
@@ -168,11 +172,14 @@ final class ChainState implements Checkpointed {
         return t == k ? lowK : t == k + 1 ? highK1 : cdf[t * n + i];
     }
 
-    /** Makes {@link #spareCdf} the current {@link #cdf} and the current one the spare. */
+    /** Makes {@link #spareCdf} and {@link #spareNormaliser} the current ones and the current ones the spares. */
     void swapCdf() {
         double[] current = cdf;
         cdf = spareCdf;
         spareCdf = current;
+        double[] normalisers = normaliser;
+        normaliser = spareNormaliser;
+        spareNormaliser = normalisers;
     }
 
     /** Copies the common thresholds into every group's row (shared mode). */

@@ -134,6 +134,8 @@ final class CollapsedPosterior {
     private int sampled = 1;
     /** Where the density pass writes each respondent's cdfs, or null ({@link #logDensity(double[], double[])}). */
     private double[] keptCdf;
+    /** Where the density pass writes each respondent's N_i beside its cdfs, or null. */
+    private double[] keptNormaliser;
     /** False while {@link #gradientOnly} runs: the probability paths then skip each respondent's logarithm. */
     private boolean densityWanted = true;
     /** The running product of {@link #keep} and its power of 2 besides: the product is product * 2^productExponent. */
@@ -495,11 +497,24 @@ final class CollapsedPosterior {
      * {@link #keepsCdfs}.
      */
     double logDensity(double[] theta, double[] cdfs) {
+        return logDensity(theta, cdfs, null);
+    }
+
+    /**
+     * {@link #logDensity(double[], double[])}, also writing each respondent's N_i of MODEL.md 4b to
+     * {@code normalisers} (by position in sorted order, as {@link ChainState#normaliser}): the
+     * pass's own, by summation by parts, where it keeps about 10 digits or more, else
+     * sum_k pi[g,k] (exp(a[g,k]) - 1) + 1 from the kept cdfs, as
+     * {@link ChainState#refreshNormalisers} sums it.
+     */
+    double logDensity(double[] theta, double[] cdfs, double[] normalisers) {
         keptCdf = cdfs;
+        keptNormaliser = normalisers;
         try {
             return evaluate(theta, null);
         } finally {
             keptCdf = null;
+            keptNormaliser = null;
         }
     }
 
@@ -880,6 +895,7 @@ final class CollapsedPosterior {
         double sumEta = 0;
         double sumZeta = 0;
         double[] kept = keptCdf;
+        double[] keptN = kept != null ? keptNormaliser : null;
         double[] out = kept != null ? kept : cdf;
         int step = kept != null ? state.size : 1;
         for (int i = from; i < to; i++) {
@@ -890,6 +906,9 @@ final class CollapsedPosterior {
             double normaliser = grad ? Double.NaN : tableCdfs(base, eta, top, out, o, step);
             if (Double.isNaN(normaliser)) {
                 normaliser = cdfs(base, eta, top, out, o, step, grad);
+            }
+            if (keptN != null) {
+                keptN[i] = normaliser > floor ? normaliser : summedNormaliser(row, out, i);
             }
             double zeta = 0;
             if (channel != null) {
@@ -1014,6 +1033,16 @@ final class CollapsedPosterior {
             normaliser += keepThreshold(k, below, StandardNormal.smallerTailInTable(below), out, o + k * step);
         }
         return inTable ? normaliser : Double.NaN;
+    }
+
+    /** N_i from respondent i's kept cdfs, term by term over the attracted numbers of the group whose row is at {@code row}. */
+    private double summedNormaliser(int row, double[] kept, int i) {
+        int n = state.size;
+        double normaliser = 1;
+        for (int k : attracted) {
+            normaliser += (kept[(k + 1) * n + i] - kept[k * n + i]) * Math.expm1(attraction[row + k]);
+        }
+        return normaliser;
     }
 
     /** Keeps threshold k's offset, smaller tail and cdf (at out[index]); returns its term of N_i, Phi change[k]. */

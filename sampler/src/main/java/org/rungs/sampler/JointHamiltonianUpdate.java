@@ -172,7 +172,7 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
         // ...and its passes leave each respondent's cdfs, the current state's or the proposal's,
         // for the threshold and attraction steps after it (ChainState.cdfCurrent)
         boolean keepCdfs = forceAtEnds && posterior.keepsCdfs();
-        double start = keepCdfs ? posterior.logDensity(theta, state.cdf)
+        double start = keepCdfs ? posterior.logDensity(theta, state.cdf, state.normaliser)
                 : forceAtEnds ? posterior.logDensity(theta) : posterior.gradient(theta, gradient);
         if (forceAtEnds) {
             posterior.force(theta, gradient);
@@ -210,7 +210,7 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
             } else {
                 end = posterior.force(proposal, gradient);
                 if (end != Double.NEGATIVE_INFINITY && !Double.isNaN(end)) {
-                    end = keepCdfs ? posterior.logDensity(proposal, state.spareCdf) : posterior.logDensity(proposal);
+                    end = keepCdfs ? posterior.logDensity(proposal, state.spareCdf, state.spareNormaliser) : posterior.logDensity(proposal);
                 }
             }
             whiten(gradient);

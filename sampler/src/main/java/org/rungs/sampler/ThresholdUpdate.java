@@ -160,9 +160,7 @@ final class ThresholdUpdate extends ThresholdMoves {
      */
     void refresh() {
         ChainState s = state;
-        if (s.attractionOn()) {
-            fillCdfs();
-        }
+        boolean kept = s.attractionOn() && fillCdfs();
         double lastLinear = Double.NaN;
         double lastQ = 0;
         RegressionBlock level = s.level;
@@ -215,17 +213,18 @@ final class ThresholdUpdate extends ThresholdMoves {
             }
         }
         if (s.attractionOn()) {
-            refreshAttraction();
+            refreshAttraction(kept);
         }
     }
 
     /** Fills {@link ChainState#cdf}, unless the joint step left it current ({@link ChainState#cdfCurrent}). */
-    private void fillCdfs() {
+    /** Fills {@link ChainState#cdf} unless the joint step left it current; returns whether it did. */
+    private boolean fillCdfs() {
         ChainState s = state;
         int m = s.categories;
         if (s.cdfCurrent) {
             s.cdfCurrent = false;
-            return;
+            return true;
         }
         for (int g = 0; g < s.groups; g++) {
             int row = g * stride;
@@ -236,16 +235,20 @@ final class ThresholdUpdate extends ThresholdMoves {
                 }
             }
         }
+        return false;
     }
 
-    /** Fills {@link ChainState#normaliser} and the odds of the attraction from the cdfs. */
-    private void refreshAttraction() {
+    /**
+     * The odds of the attraction, and {@link ChainState#normaliser} from the cdfs unless the joint
+     * step's pass left it with them ({@code kept}).
+     */
+    private void refreshAttraction(boolean kept) {
         ChainState s = state;
         int m = s.categories;
         for (int at = 0; at < excess.length; at++) {
             excess[at] = Math.expm1(s.attraction[at]);
         }
-        for (int g = 0; g < s.groups; g++) {
+        for (int g = 0; g < s.groups && !kept; g++) {
             s.refreshNormalisers(g, s.start[g * m], s.start[(g + 1) * m]);
         }
     }
