@@ -264,6 +264,14 @@ public final class StandardNormal {
     }
 
     /**
+     * {@link #density(double)}, bit for bit, for |x| < {@link #TABLE_END}; beyond it a finite value
+     * of no meaning, as {@link #smallerTailInTable}, which this accompanies.
+     */
+    public static double densityInTable(double x) {
+        return interpolate(Math.min(Math.abs(x), LAST_IN_TABLE), 3);
+    }
+
+    /**
      * {@link #smallerTail(double)}, bit for bit, for |x| < {@link #TABLE_END}; beyond it a finite
      * value of no meaning (|x| is clamped to the table), so the caller checks |x| and takes
      * {@link #smallerTail(double)} there. It neither branches nor calls: a loop over a

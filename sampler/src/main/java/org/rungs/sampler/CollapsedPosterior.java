@@ -785,6 +785,8 @@ final class CollapsedPosterior {
                 if (floor > 0) {
                     // no grid for this group: the exact gradient's own path, so the force is that gradient bit for bit
                     total += attractedCell(g, r, from, to, floor, true);
+                } else if (gridBuilt && gridCells() && (channel == null || !channel.isPoint(r))) {
+                    gridCell(g, r, from, to);
                 } else {
                     for (int i = from; i < to; i++) {
                         total += respondent(i, g, r, true, gridBuilt);
@@ -1609,6 +1611,105 @@ final class CollapsedPosterior {
         }
         chainRule(i, g, gradEta, gradZeta);
         return 0;
+    }
+
+    /** Whether {@link #gridCell} can take a cell: one to four level covariates, at most four style covariates. */
+    private boolean gridCells() {
+        return levelCount >= 1 && levelCount <= 4 && styleCount <= 4;
+    }
+
+    /**
+     * {@link #attractedOnGrid} for the respondents from..to-1 of group g whose answer r is not a
+     * coarse point, in one loop: the full-scale part is then the whole likelihood (its weight is
+     * 1), so N_i itself is never read, only the slope of log N from the grid; the answer's tails
+     * and densities come from the normal table without calls, and the cell's shares of the
+     * thresholds' and attraction's gradients are summed in registers. A respondent beyond the table,
+     * with a class probit far out or an answer too improbable for the probability path takes
+     * {@link #respondent}.
+     */
+    private void gridCell(int g, int r, int from, int to) {
+        double[][] x = state.level.columns;
+        int p = levelCount;
+        double[] x0 = x[0];
+        double[] x1 = p > 1 ? x[1] : x0;
+        double[] x2 = p > 2 ? x[2] : x0;
+        double[] x3 = p > 3 ? x[3] : x0;
+        double b0 = beta[0];
+        double b1 = p > 1 ? beta[1] : 0;
+        double b2 = p > 2 ? beta[2] : 0;
+        double b3 = p > 3 ? beta[3] : 0;
+        boolean classes = channel != null;
+        int sc = classes ? styleCount : 0;
+        double[][] w = sc > 0 ? state.style.columns : null;
+        double[] w0 = sc > 0 ? w[0] : x0;
+        double[] w1 = sc > 1 ? w[1] : w0;
+        double[] w2 = sc > 2 ? w[2] : w0;
+        double[] w3 = sc > 3 ? w[3] : w0;
+        double d0 = sc > 0 ? delta[0] : 0;
+        double d1 = sc > 1 ? delta[1] : 0;
+        double d2 = sc > 2 ? delta[2] : 0;
+        double d3 = sc > 3 ? delta[3] : 0;
+        double intercept = alpha[g];
+        double zetaIntercept = classes ? gamma[g] : 0;
+        int base = g * (m + 1);
+        double lowerCut = rows[base + r];
+        double upperCut = rows[base + r + 1];
+        boolean hasLower = r > 0;
+        boolean hasUpper = r < m - 1;
+        double sumLower = 0;
+        double sumUpper = 0;
+        double sumEta = 0;
+        double sumZeta = 0;
+        double answered = 0;
+        for (int i = from; i < to; i++) {
+            double eta = intercept + x0[i] * b0 + x1[i] * b1 + x2[i] * b2 + x3[i] * b3;
+            double zeta = zetaIntercept + w0[i] * d0 + w1[i] * d1 + w2[i] * d2 + w3[i] * d3;
+            double lower = lowerCut - eta;
+            double upper = upperCut - eta;
+            double lowerTail = hasLower ? StandardNormal.smallerTailInTable(lower) : 0;
+            double upperTail = hasUpper ? StandardNormal.smallerTailInTable(upper) : 0;
+            double pi = StandardNormal.intervalFromTails(lower, upper, lowerTail, upperTail);
+            if (!(pi > PLAIN_FLOOR) || Math.abs(zeta) > PLAIN_PROBIT
+                    || hasLower && !(Math.abs(lower) < StandardNormal.TABLE_END)
+                    || hasUpper && !(Math.abs(upper) < StandardNormal.TABLE_END)) {
+                respondent(i, g, r, true, true);
+                continue;
+            }
+            grid.locate(eta);
+            grid.add(1);
+            double gradEta = -grid.logSlope();
+            double inverse = 1 / pi;
+            if (hasLower) {
+                double v = -StandardNormal.densityInTable(lower) * inverse;
+                sumLower += v;
+                gradEta -= v;
+            }
+            if (hasUpper) {
+                double v = StandardNormal.densityInTable(upper) * inverse;
+                sumUpper += v;
+                gradEta -= v;
+            }
+            answered += 1;
+            sumEta += gradEta;
+            if (respondentGradEta != null) {
+                respondentGradEta[i] = gradEta;
+            }
+            if (classes) {
+                double q = classProbit(zeta);
+                double gradZeta = -lastPhi / (1 - q);
+                sumZeta += gradZeta;
+                if (respondentGradZeta != null) {
+                    respondentGradZeta[i] = gradZeta;
+                }
+            }
+        }
+        gradRows[base + r] += sumLower;
+        gradRows[base + r + 1] += sumUpper;
+        gradAttraction[g * m + r] += answered;
+        gradAlpha[g] += sumEta;
+        if (classes) {
+            gradGamma[g] += sumZeta;
+        }
     }
 
     /**
