@@ -31,7 +31,7 @@ final class DemoCommand implements Callable<Integer> {
             sampling.seed = 1L;
         }
         if (sampling.thin == null) {
-            sampling.thin = SamplingOptions.DEMO_THIN;
+            sampling.thin = sampling.model().attraction().on() ? SamplingOptions.DEMO_THIN_ATTRACTION : SamplingOptions.DEMO_THIN;
         }
         Demo.Prepared demo;
         try {
