@@ -80,7 +80,7 @@ final class Chain implements Checkpointed {
             sweep.add(StyleClassUpdate.of(state, priors, rng));
         }
         if (state.attractionOn()) {
-            sweep.add(AttractionUpdate.of(state, priors, rng));
+            sweep.add(AttractionUpdate.held(state, priors, rng, warmup));
         }
         ThresholdRescaleUpdate thresholds = ThresholdRescaleUpdate.of(state, order.start(), priors, rng);
         List<Update> levelSteps = List.of(LatentLevelUpdate.of(state, rng), thresholds,

@@ -25,11 +25,12 @@ import org.rungs.posteriors.Draws;
  */
 final class ChainCheckpoint implements Closeable {
     /**
-     * "RUNGSCK5": marks the file and its format (3: the joint Hamiltonian step's state in the
+     * "RUNGSCK6": marks the file and its format (3: the joint Hamiltonian step's state in the
      * sweep; 4: under attraction, the counters of {@link BoundedRedrawSteps} and the attraction
-     * update's block-move scale and warm-up sums; 5: the joint step's leapfrog and wall counts).
+     * update's block-move scale and warm-up sums; 5: the joint step's leapfrog and wall counts;
+     * 6: the attraction update's count of warm-up sweeps, for its hold at the start).
      */
-    private static final long MAGIC = 0x52554E4753434B35L;
+    private static final long MAGIC = 0x52554E4753434B36L;
 
     /** Iterations done (warm-up included) and kept draws at a save. */
     record Position(int iterations, int kept) {

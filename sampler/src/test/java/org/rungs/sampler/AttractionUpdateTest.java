@@ -53,6 +53,30 @@ class AttractionUpdateTest {
     }
 
     /**
+     * The chain's attraction update holds the attractions for the first quarter of warm-up
+     * ({@link AttractionUpdate#held}): unchanged through 25 sweeps of a 100-sweep warm-up (bit for
+     * bit), moved within the 25 after. With the hold left out of the update the first check fails.
+     */
+    @Test
+    void theChainsUpdateHoldsTheAttractionsForTheFirstQuarterOfWarmUp() {
+        ChainState s = CollapsedPosteriorTest.state(true, true, true, 0.5);
+        UniformRandomProvider rng = RandomSource.XO_RO_SHI_RO_128_PP.create(43L);
+        Priors priors = Priors.defaults();
+        ThresholdUpdate.of(s, s.start, priors, rng).refresh();
+        AttractionUpdate update = AttractionUpdate.held(s, priors, rng, 100);
+        double[] start = s.attraction.clone();
+        double sd = s.attractionSd;
+        for (int sweep = 0; sweep < 25; sweep++) {
+            update.update(true);
+        }
+        assertTrue(java.util.Arrays.equals(start, s.attraction) && sd == s.attractionSd, "moved during the hold");
+        for (int sweep = 0; sweep < 25; sweep++) {
+            update.update(true);
+        }
+        assertTrue(!java.util.Arrays.equals(start, s.attraction) && sd != s.attractionSd, "held after the first quarter");
+    }
+
+    /**
      * After each sweep of the update every respondent's N_i (MODEL.md 4b), which the later steps
      * read, is the one recomputed from the state it leaves, coarse-class respondents included.
      * Tolerance 1e-12 relative: the moves of a[g,j] alone update N_i by increments, the
