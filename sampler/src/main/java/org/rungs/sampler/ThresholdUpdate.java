@@ -217,8 +217,10 @@ final class ThresholdUpdate extends ThresholdMoves {
         }
     }
 
-    /** Fills {@link ChainState#cdf}, unless the joint step left it current ({@link ChainState#cdfCurrent}). */
-    /** Fills {@link ChainState#cdf} unless the joint step left it current; returns whether it did. */
+    /**
+     * Fills {@link ChainState#cdf}, unless the joint step left it current, and N_i with it
+     * ({@link ChainState#cdfCurrent}); returns whether the joint step had.
+     */
     private boolean fillCdfs() {
         ChainState s = state;
         int m = s.categories;

@@ -35,7 +35,9 @@ class JointHamiltonianUpdateTest {
     /**
      * Under attraction the step's density passes leave each respondent's cdfs at the state the
      * step keeps, bit for bit those that the threshold update computes (which then skips them),
-     * whether the trajectory was accepted or rejected.
+     * and its N_i of MODEL.md 4b, sum_k pi_k exp(a[g,k]), within 1e-12 relative of the sum term by
+     * term (the pass sums it by parts, so it differs in rounding), whether the trajectory was
+     * accepted or rejected. With the N_i left unswapped when a trajectory is accepted, it fails.
      */
     @Test
     void theCdfsItLeavesAreThoseOfTheStateItKeeps() {
@@ -56,6 +58,11 @@ class JointHamiltonianUpdateTest {
                     double expected = k == 0 ? 0 : k == m ? 1 : StandardNormal.cdf(s.thresholds[row + k] - s.eta(i));
                     assertEquals(expected, s.cdf[k * s.size + i], 0.0, "respondent " + i + ", threshold " + k + ", trajectory " + t);
                 }
+                double normaliser = 1;
+                for (int k : s.attracted) {
+                    normaliser += (s.cdf[(k + 1) * s.size + i] - s.cdf[k * s.size + i]) * Math.expm1(s.attraction[s.group[i] * m + k]);
+                }
+                assertEquals(normaliser, s.normaliser[i], 1e-12 * normaliser, "N_i of respondent " + i + ", trajectory " + t);
             }
         }
         double rate = step.acceptanceRate();
