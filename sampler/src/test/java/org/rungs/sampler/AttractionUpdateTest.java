@@ -59,10 +59,9 @@ class AttractionUpdateTest {
      */
     @Test
     void theChainsUpdateHoldsTheAttractionsForTheFirstQuarterOfWarmUp() {
-        ChainState s = CollapsedPosteriorTest.state(true, true, true, 0.5);
         UniformRandomProvider rng = RandomSource.XO_RO_SHI_RO_128_PP.create(43L);
         Priors priors = Priors.defaults();
-        ThresholdUpdate.of(s, s.start, priors, rng).refresh();
+        ChainState s = refreshed(priors, rng);
         AttractionUpdate update = AttractionUpdate.held(s, priors, rng, 100);
         double[] start = s.attraction.clone();
         double sd = s.attractionSd;
@@ -127,10 +126,9 @@ class AttractionUpdateTest {
      */
     @Test
     void blockMovesReadTheLikelihoodFromTheGridToInterpolationError() {
-        ChainState s = CollapsedPosteriorTest.state(true, true, true, 0.5);
         UniformRandomProvider rng = RandomSource.XO_RO_SHI_RO_128_PP.create(3L);
         Priors priors = Priors.defaults();
-        ThresholdUpdate.of(s, s.start, priors, rng).refresh();
+        ChainState s = refreshed(priors, rng);
         AttractionUpdate update = AttractionUpdate.of(s, priors, rng);
         double[] point = {0.4, -0.7};
         for (int g = 0; g < s.groups; g++) {
@@ -198,10 +196,9 @@ class AttractionUpdateTest {
     }
 
     private static double[][] run(int blockSteps, long seed, boolean ridgeFirstStage) {
-        ChainState s = CollapsedPosteriorTest.state(true, true, true, 0.5);
         UniformRandomProvider rng = RandomSource.XO_RO_SHI_RO_128_PP.create(seed);
         Priors priors = Priors.defaults();
-        ThresholdUpdate.of(s, s.start, priors, rng).refresh();
+        ChainState s = refreshed(priors, rng);
         AttractionUpdate update = ridgeFirstStage ? AttractionUpdate.of(s, priors, rng, blockSteps)
                 : AttractionUpdate.withoutRidgeFirstStage(s, priors, rng);
         for (int t = 0; t < WARMUP; t++) {
@@ -269,5 +266,12 @@ class AttractionUpdateTest {
             }
         }
         return cross / squares;
+    }
+
+    /** The three-group survey of {@link CollapsedPosteriorTest#state} with attraction, its cdfs and N_i filled by the threshold update's refresh. */
+    private static ChainState refreshed(Priors priors, UniformRandomProvider rng) {
+        ChainState s = CollapsedPosteriorTest.state(true, true, true, 0.5);
+        ThresholdUpdate.of(s, s.start, priors, rng).refresh();
+        return s;
     }
 }
