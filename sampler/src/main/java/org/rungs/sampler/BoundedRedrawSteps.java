@@ -11,15 +11,14 @@ import java.util.List;
  * {@link LatentLevelUpdate} has a bounded cost: in every group the attractions span at most
  * {@link #MAX_RANGE}, so a respondent's acceptance probability is at least exp(-MAX_RANGE) and
  * its expected number of rejected draws below 1,000 whatever its level. Otherwise the sweep skips
- * them; the joint step, the collapsed threshold steps and the attraction update still run.
+ * them; the joint step, the collapsed threshold steps and the attraction steps still run.
  *
- * <p>Exact: call R the set of states whose attractions are bounded so. Each step inside leaves the
- * posterior restricted to R invariant: the steps that hold the attractions leave the posterior
- * given them invariant, and the attraction steps of the threshold rescaling refuse any proposal
- * outside R. The sweep runs them on R and stays put outside it, so it never carries a state
- * between R and the rest, and the mixture leaves the joint posterior invariant. A chain far from
- * the posterior (early warm-up, or a run-away start) could otherwise stall in the scheme: its
- * cost grows like exp(max a - min a).
+ * <p>Exact: the steps inside leave the attractions unchanged and each leaves the joint posterior
+ * invariant, so each leaves the posterior given the attractions invariant; whether they run
+ * depends on the attractions alone, so the sweep's kernel is, for each value of the attractions,
+ * either one that leaves that conditional invariant or the identity, and the mixture leaves the
+ * joint posterior invariant. A chain far from the posterior (early warm-up, or a run-away start)
+ * could otherwise stall in the scheme: its cost grows like exp(max a - min a).
  */
 final class BoundedRedrawSteps implements Update, Checkpointed {
     /** log(1,000): the largest spread max a - min a (0 included) in a group at which the steps run. */

@@ -82,7 +82,7 @@ final class Chain implements Checkpointed {
         if (state.attractionOn()) {
             sweep.add(AttractionUpdate.held(state, priors, rng, warmup));
         }
-        ThresholdRescaleUpdate thresholds = ThresholdRescaleUpdate.of(state, order.start(), priors, rng, maxRange);
+        ThresholdRescaleUpdate thresholds = ThresholdRescaleUpdate.of(state, order.start(), priors, rng);
         List<Update> levelSteps = List.of(LatentLevelUpdate.of(state, rng), thresholds,
                 RegressionUpdate.of(state.level, priors.level(), priors.groupMean(), rng));
         if (state.attractionOn()) {

@@ -25,13 +25,12 @@ import org.rungs.posteriors.Draws;
  */
 final class ChainCheckpoint implements Closeable {
     /**
-     * "RUNGSCK7": marks the file and its format (3: the joint Hamiltonian step's state in the
+     * "RUNGSCK6": marks the file and its format (3: the joint Hamiltonian step's state in the
      * sweep; 4: under attraction, the counters of {@link BoundedRedrawSteps} and the attraction
      * update's block-move scale and warm-up sums; 5: the joint step's leapfrog and wall counts;
-     * 6: the attraction update's count of warm-up sweeps, for its hold at the start; 7: the
-     * threshold rescaling's scales of the attraction steps).
+     * 6: the attraction update's count of warm-up sweeps, for its hold at the start).
      */
-    private static final long MAGIC = 0x52554E4753434B37L;
+    private static final long MAGIC = 0x52554E4753434B36L;
 
     /** Iterations done (warm-up included) and kept draws at a save. */
     record Position(int iterations, int kept) {

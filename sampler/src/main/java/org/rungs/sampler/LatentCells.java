@@ -24,9 +24,6 @@ final class LatentCells {
     /** Per cell, for the coefficients of {@link #prepare}: sum of x_i' beta and of z x_i' beta. */
     private final double[] linearSum;
     private final double[] linearCross;
-    /** Per cell, under number attraction: the full-scale answers (accepted draws) and the rejected draws. */
-    private final double[] answered;
-    private final double[] rejected;
 
     LatentCells(int cells, int count) {
         this.cells = cells;
@@ -37,34 +34,12 @@ final class LatentCells {
         this.scale = new double[cells];
         this.linearSum = new double[cells];
         this.linearCross = new double[cells];
-        this.answered = new double[cells];
-        this.rejected = new double[cells];
     }
 
     void clear() {
         Arrays.fill(sums, 0);
         Arrays.fill(shift, 0);
         Arrays.fill(scale, 1);
-        Arrays.fill(answered, 0);
-        Arrays.fill(rejected, 0);
-    }
-
-    /** Counts n full-scale answers in cell c (their values are added as any other). */
-    void countAnswers(int c, double n) {
-        answered[c] += n;
-    }
-
-    /** Counts a rejected draw of the redraw scheme in cell c (its value is added as any other). */
-    void countRejected(int c) {
-        rejected[c]++;
-    }
-
-    double answered(int c) {
-        return answered[c];
-    }
-
-    double rejected(int c) {
-        return rejected[c];
     }
 
     /** Adds latent value z of respondent i (covariate columns x) to cell c. Allocation-free. */

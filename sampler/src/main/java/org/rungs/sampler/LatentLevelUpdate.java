@@ -21,9 +21,8 @@ import org.rungs.priors.StandardNormal;
  * independent of it given eta, a geometric number of draws from the rejected part (Rao, Lin &
  * Dunson 2016, Data augmentation for models based on rejection sampling, Biometrika 103,
  * section 2), so they are drawn by running the scheme until its first acceptance. Every draw is
- * a Normal(eta, 1) value, so all of them enter the conjugate update; the attraction steps of the
- * threshold rescaling read their count by cell ({@link LatentCells#countRejected}). They are
- * not kept one by one.
+ * a Normal(eta, 1) value, so all of them enter the conjugate update; no other update conditions
+ * on them, so they are not kept.
  */
 final class LatentLevelUpdate implements Update {
     private final ChainState state;
@@ -100,7 +99,6 @@ final class LatentLevelUpdate implements Update {
                 }
                 double latent = eta + truncatedNormal.sample(thresholds[g * stride + r] - eta, thresholds[g * stride + r + 1] - eta);
                 cells.add(c, columns, i, latent);
-                cells.countAnswers(c, 1);
             }
         }
         cells.finish(level, m);
@@ -215,7 +213,6 @@ final class LatentLevelUpdate implements Update {
         runXz[2] = z2;
         runXz[3] = z3;
         s.cells.addRun(c, n, s1, s2, runX, runXz);
-        s.cells.countAnswers(c, n);
         if (e > 0) {
             runExtra[0] = e0;
             runExtra[1] = e1;
@@ -268,7 +265,6 @@ final class LatentLevelUpdate implements Update {
                 return rejected;
             }
             s.cells.add(g * m + k, s.level.columns, i, y);
-            s.cells.countRejected(g * m + k);
             rejected++;
         }
     }
