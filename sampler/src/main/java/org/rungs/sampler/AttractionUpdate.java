@@ -35,7 +35,8 @@ import org.rungs.priors.StandardNormal;
  * using an approximation, JCGS 14, section 2): a first stage on the likelihood read from a grid
  * of latent levels per group, and only for a proposal that passes it the exact ratio over the
  * respondents, divided by the first stage's. Scales adapt during warm-up only (Roberts &
- * Rosenthal 2009, section 3), on the acceptance of both stages together.
+ * Rosenthal 2009, section 3), on the acceptance of both stages together. All of these hold the
+ * thresholds of the groups; {@link AttractionTradeUpdate}, next in the sweep, moves tau_a with them.
  */
 final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDensity {
     private static final double TARGET_ACCEPTANCE = 0.44;

@@ -20,14 +20,16 @@ import org.rungs.posteriors.Draws;
 /**
  * One Markov chain: its state and the cycle of updates of one sweep, in the order the joint
  * Hamiltonian step and the collapsed threshold steps (coarse class or attraction on), threshold
- * hyperparameters, style classes (when on), number attraction (when on), latent levels, threshold
+ * hyperparameters, style classes (when on), number attraction and its trade step with the
+ * thresholds (when on; {@link AttractionTradeUpdate}), latent levels, threshold
  * rescaling steps, level coefficients and group levels (under attraction only while the redraw
  * scheme's cost is bounded, {@link BoundedRedrawSteps}), their pooling, then the coarse class's
  * coefficients (with style covariates; {@link StyleClassUpdate}) and pooling.
  *
  * <p>The joint step, the collapsed threshold steps and the classes' intercepts are drawn with the
  * classes, the latent levels and the rejected draws of the attraction scheme integrated out;
- * then the classes, then the attraction given the classes, then the latent levels and rejected
+ * then the classes, then the attraction steps given the classes (the latent levels and rejected
+ * draws still integrated out), then the latent levels and rejected
  * draws given both. Each quantity integrated out is redrawn before any later step conditions on
  * it, so the cycle leaves the posterior invariant (van Dyk & Park 2008, Partially collapsed Gibbs
  * samplers, JASA 103, section 3). The rescaling steps then move every threshold with the latent
@@ -81,6 +83,10 @@ final class Chain implements Checkpointed {
         }
         if (state.attractionOn()) {
             sweep.add(AttractionUpdate.held(state, priors, rng, warmup));
+            AttractionTradeUpdate trade = AttractionTradeUpdate.of(state, priors, rng);
+            if (trade != null) {
+                sweep.add(trade);
+            }
         }
         ThresholdRescaleUpdate thresholds = ThresholdRescaleUpdate.of(state, order.start(), priors, rng);
         List<Update> levelSteps = List.of(LatentLevelUpdate.of(state, rng), thresholds,

@@ -25,12 +25,13 @@ import org.rungs.posteriors.Draws;
  */
 final class ChainCheckpoint implements Closeable {
     /**
-     * "RUNGSCK6": marks the file and its format (3: the joint Hamiltonian step's state in the
+     * "RUNGSCK7": marks the file and its format (3: the joint Hamiltonian step's state in the
      * sweep; 4: under attraction, the counters of {@link BoundedRedrawSteps} and the attraction
      * update's block-move scale and warm-up sums; 5: the joint step's leapfrog and wall counts;
-     * 6: the attraction update's count of warm-up sweeps, for its hold at the start).
+     * 6: the attraction update's count of warm-up sweeps, for its hold at the start; 7: the
+     * trade step's scale and count, {@link AttractionTradeUpdate}).
      */
-    private static final long MAGIC = 0x52554E4753434B36L;
+    private static final long MAGIC = 0x52554E4753434B37L;
 
     /** Iterations done (warm-up included) and kept draws at a save. */
     record Position(int iterations, int kept) {
