@@ -60,17 +60,23 @@ final class BoundedRedrawSteps implements Update, Checkpointed {
 
     /** True when every group's attractions, 0 included, span at most maxRange. */
     static boolean bounded(ChainState s, double maxRange) {
-        int m = s.categories;
         for (int g = 0; g < s.groups; g++) {
-            double low = 0;
-            for (int k : s.attracted) {
-                low = Math.min(low, s.attraction[g * m + k]);
-            }
-            if (!(s.attractionTop(g) - low <= maxRange)) {
+            if (!bounded(s.attraction, g * s.categories, s.attracted, maxRange)) {
                 return false;
             }
         }
         return true;
+    }
+
+    /** True when the attractions at {@code at + k} (k in attracted), 0 included, span at most maxRange. */
+    static boolean bounded(double[] attraction, int at, int[] attracted, double maxRange) {
+        double low = 0;
+        double top = 0;
+        for (int k : attracted) {
+            low = Math.min(low, attraction[at + k]);
+            top = Math.max(top, attraction[at + k]);
+        }
+        return top - low <= maxRange;
     }
 
     /** The share of sampling sweeps in which the steps were skipped; 0 before sampling. */

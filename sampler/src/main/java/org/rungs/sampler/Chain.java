@@ -83,7 +83,7 @@ final class Chain implements Checkpointed {
         }
         if (state.attractionOn()) {
             sweep.add(AttractionUpdate.held(state, priors, rng, warmup));
-            AttractionTradeUpdate trade = AttractionTradeUpdate.of(state, priors, rng);
+            AttractionTradeUpdate trade = AttractionTradeUpdate.of(state, priors, rng, maxRange);
             if (trade != null) {
                 sweep.add(trade);
             }

@@ -1,6 +1,7 @@
 package org.rungs.sampler;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import org.apache.commons.math3.distribution.NormalDistribution;
 import org.apache.commons.math3.linear.Array2DRowRealMatrix;
@@ -80,6 +81,33 @@ class AttractionTradeUpdateTest {
         for (int i = 0; i < normaliser.length; i++) {
             assertEquals(s.normaliser[i], normaliser[i], 1e-12, "kept N_i " + i);
         }
+    }
+
+    /**
+     * Across the bound of the redraw scheme's cost (BoundedRedrawSteps) the step is refused both
+     * ways; on one side of it, it is not. Group 0's deviations are 0.5 and -0.5 about abar = 0 on
+     * numbers 1 and 3 (a span of 1), against a bound of 1.5: a factor of 1.4 stays inside (1.4),
+     * 1.6 crosses (1.6); from a state at 1.6, 0.7 comes back (1.12) and 1.1 stays out.
+     */
+    @Test
+    void proposalsAcrossTheRedrawBoundAreRefused() {
+        ChainState s = state();
+        int m = s.categories;
+        for (int g = 0; g < s.groups; g++) {
+            s.attractionMean[1] = 0;
+            s.attractionMean[3] = 0;
+            s.attraction[g * m + 1] = g == 0 ? 0.5 : 0.1;
+            s.attraction[g * m + 3] = g == 0 ? -0.5 : -0.1;
+        }
+        fillCdfs(s);
+        AttractionTradeUpdate update = AttractionTradeUpdate.of(s, Priors.defaults(), RandomSource.XO_RO_SHI_RO_128_PP.create(6L), 1.5);
+        assertTrue(Double.isFinite(update.proposalChange(1.4)), "inside to inside");
+        assertTrue(Double.isNaN(update.proposalChange(1.6)), "inside to outside");
+        s.attraction[1] = 0.8;
+        s.attraction[3] = -0.8;
+        fillCdfs(s);
+        assertTrue(Double.isNaN(update.proposalChange(0.7)), "outside to inside");
+        assertTrue(Double.isFinite(update.proposalChange(1.1)), "outside to outside");
     }
 
     @Test
