@@ -1357,8 +1357,8 @@ final class CollapsedPosterior {
     /** q = Phi(zeta), and phi(zeta) in {@link #lastPhi}; 0 without the coarse class. */
     private double classProbit(double zeta) {
         if (channel != null && zeta != lastZeta) {
-            // Respondents of a group who share their style covariates share zeta: with categorical
-            // ones (or none), runs of equal values are common in the sorted survey.
+            // Respondents of a group who share their style covariates share zeta, and with
+            // categorical ones (or none) SurveyOrder places them together within each cell.
             lastQ = StandardNormal.cdf(zeta, density, 2);
             lastPhi = density[2];
             lastZeta = zeta;

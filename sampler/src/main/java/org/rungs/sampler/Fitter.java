@@ -72,7 +72,7 @@ public final class Fitter {
     public static FitResult fit(Survey survey, ModelSpec spec, SamplerSettings settings,
                                 ProgressListener progress, AtomicBoolean stop, Checkpoints checkpoints) {
         ParameterLayout layout = ParameterLayout.of(survey, spec);
-        SurveyOrder order = SurveyOrder.of(survey);
+        SurveyOrder order = SurveyOrder.of(survey, spec.attraction().on());
         boolean byGroup = spec.effectiveThresholdMode(survey.groupCount()) == ThresholdMode.BY_GROUP;
         Draws draws = new Draws(layout.names(), settings.chains(), settings.draws());
         int[] kept = new int[settings.chains()];
