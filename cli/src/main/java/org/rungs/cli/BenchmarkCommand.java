@@ -39,9 +39,10 @@ final class BenchmarkCommand implements Callable<Integer> {
     @Option(names = "--ess-draws", defaultValue = "1000", description = "Kept draws per chain of the ESS fits. Default: ${DEFAULT-VALUE}.")
     int essDraws;
 
-    @Option(names = "--models", split = ",", defaultValue = "plain,coarse,complete", paramLabel = "MODEL,...",
+    @Option(names = "--models", split = ",", defaultValue = "plain,coarse,complete,education", paramLabel = "MODEL,...",
             description = "Models whose speed is timed: plain (style classes off), coarse (the coarse class on, half the sweeps), "
-                    + "complete (attraction too, a quarter of the sweeps). Default: ${DEFAULT-VALUE}.")
+                    + "complete (attraction too, a quarter of the sweeps), education (the complete model with education "
+                    + "as the coarse class's covariate, a quarter of the sweeps). Default: ${DEFAULT-VALUE}.")
     List<String> models;
 
     @Option(names = "--out", paramLabel = "FILE", description = "Also write the Markdown report to this file.")
@@ -56,7 +57,7 @@ final class BenchmarkCommand implements Callable<Integer> {
                 try {
                     timed.add(Benchmark.Model.valueOf(m.trim().toUpperCase(Locale.ROOT)));
                 } catch (IllegalArgumentException unknown) {
-                    throw new IllegalArgumentException("--models takes plain, coarse and complete, got '" + m + "'");
+                    throw new IllegalArgumentException("--models takes plain, coarse, complete and education, got '" + m + "'");
                 }
             }
             settings = new Benchmark.Settings(sizes, sweeps, seed, essSizes, essWarmup, essDraws, timed);

@@ -65,6 +65,11 @@ final class CalibrateCommand implements Callable<Integer> {
             description = "Numeric style covariates (standard normal before standardising), with --style-classes coarse. Default: 1 with the coarse class.")
     Integer styleCovariates;
 
+    @Option(names = "--style-levels", paramLabel = "K", defaultValue = "0",
+            description = "Draw each style covariate as 0..K-1 with equal chances (a categorical covariate coded in numbers) "
+                    + "instead of standard normal; 0: normal. Default: ${DEFAULT-VALUE}.")
+    int styleLevels;
+
     @Option(names = "--attraction", paramLabel = "SET", defaultValue = "none",
             description = "Number attraction of simulation and fit (MODEL.md 4b): none, default (every number but the coarse points) or ratings such as 1,3. Default: ${DEFAULT-VALUE}.")
     String attraction;
@@ -118,7 +123,7 @@ final class CalibrateCommand implements Callable<Integer> {
             int q = styleCovariates != null ? styleCovariates : classes.coarse() ? 1 : 0;
             NumberAttraction numbers = NumberAttraction.parse(attraction);
             numbers.resolve(ratings, classes); // rejects a bad set before any replication runs
-            config = new CalibrationConfig(ratings, groups, respondents, covariates, q,
+            config = new CalibrationConfig(ratings, groups, respondents, covariates, q, styleLevels,
                     new ModelSpec(mode, simulation, classes, numbers), new ModelSpec(mode, fit, classes, numbers), study.chains, study.warmup,
                     study.draws, rankDraws, study.seed, study.replications, alpha);
             slice = shard == null ? Shard.ALL : Shard.parse(shard);

@@ -84,11 +84,12 @@ public final class Benchmark {
     }
 
     /**
-     * The models timed: the plain ordered probit, with the coarse class (half the sweeps), and the
-     * complete model with attraction too (a quarter of the sweeps).
+     * The models timed: the plain ordered probit, with the coarse class (half the sweeps), the
+     * complete model with attraction too (a quarter of the sweeps), and that model with education
+     * as the coarse class's covariate (a quarter of the sweeps).
      */
     public enum Model {
-        PLAIN(1), COARSE(2), COMPLETE(4);
+        PLAIN(1), COARSE(2), COMPLETE(4), EDUCATION(4);
 
         /** The largest size runs {@code sweeps / divisor} sweeps of this model. */
         final int divisor;
@@ -139,12 +140,24 @@ public final class Benchmark {
                         new Scenario.AttractionDeviations.Drawn(0.1)), seed);
     }
 
+    /**
+     * The full scenario with the coarse class driven by education, a categorical style covariate
+     * of three levels (the demo's shares and effects; probit intercept -0.2, so about 23% coarse).
+     */
+    public static Scenario educationScenario(int respondents, long seed) {
+        Scenario full = fullScenario(respondents, seed);
+        return new Scenario(full.scale(), full.groups(), full.levelCovariates(), full.groupLevels(), full.thresholds(),
+                full.thresholdDeviations(),
+                new Scenario.StyleClasses.Coarse(List.of(DemoScenario.EDUCATION), new Scenario.GroupLevels.Drawn(-0.2, 0.2)),
+                full.attraction(), seed);
+    }
+
     /** A simulated survey of {@code respondents}, in the simulator's row order (sorted by group only). */
     public static Survey survey(int respondents, long seed) {
         return survey(scenario(respondents, seed), seed);
     }
 
-    private static Survey survey(Scenario scenario, long seed) {
+    static Survey survey(Scenario scenario, long seed) {
         SimulatedSurvey data = Simulator.simulate(scenario, seed);
         int[] rating = data.rating();
         byte[] category = new byte[rating.length];
@@ -156,7 +169,22 @@ public final class Benchmark {
             columns.add(data.covariate(name));
         }
         return Survey.of(new Scale(0, 10), category, data.group(), data.groupLabels(),
-                Covariates.fromNumeric(data.covariateNames(), columns), Covariates.none(), null);
+                Covariates.fromNumeric(data.covariateNames(), columns), styleCovariates(data), null);
+    }
+
+    /** The survey's categorical style covariates, each with the simulator's reference level. */
+    private static Covariates styleCovariates(SimulatedSurvey data) {
+        Covariates.Builder style = Covariates.builder();
+        for (String name : data.styleCovariateNames()) {
+            String[] labels = data.category(name);
+            List<String> levels = new ArrayList<>(new java.util.LinkedHashSet<>(Arrays.asList(labels)));
+            int[] codes = new int[labels.length];
+            for (int i = 0; i < labels.length; i++) {
+                codes[i] = levels.indexOf(labels[i]);
+            }
+            style.categorical(name, codes, levels, data.referenceLevels().get(name));
+        }
+        return style.build();
     }
 
     /**
@@ -202,6 +230,10 @@ public final class Benchmark {
                 ? timings("coarse class and attraction, ", settings, n -> fullScenario(n, settings.seed()),
                         coarseModel.withAttraction(NumberAttraction.besidesCoarsePoints()), Model.COMPLETE, log)
                 : List.of();
+        List<Timing> educationTimings = models.contains(Model.EDUCATION)
+                ? timings("complete model with education, ", settings, n -> educationScenario(n, settings.seed()),
+                        coarseModel.withAttraction(NumberAttraction.besidesCoarsePoints()), Model.EDUCATION, log)
+                : List.of();
 
         List<Ess> ess = new ArrayList<>();
         for (int n : settings.essSizes()) {
@@ -220,7 +252,7 @@ public final class Benchmark {
             log.printf(Locale.ROOT, "benchmark: memory at %,d respondents: survey %.1f, fit %.1f bytes per respondent%n",
                     n, m.surveyBytes(), m.fitBytes());
         }
-        return markdown(settings, timings, coarseTimings, fullTimings, ess, memory);
+        return markdown(settings, timings, coarseTimings, fullTimings, educationTimings, ess, memory);
     }
 
     /**
@@ -364,7 +396,7 @@ public final class Benchmark {
     }
 
     private static String markdown(Settings settings, List<Timing> timings, List<Timing> coarseTimings,
-                                   List<Timing> fullTimings, List<Ess> ess, List<Memory> memory) {
+                                   List<Timing> fullTimings, List<Timing> educationTimings, List<Ess> ess, List<Memory> memory) {
         StringBuilder sb = new StringBuilder();
         sb.append("Machine: ").append(machine()).append("\n\n");
         sb.append(String.format(Locale.ROOT, "Survey: %d groups, 4 numeric level covariates, scale 0..10, by-group thresholds, seed %d.%n%n",
@@ -382,6 +414,11 @@ public final class Benchmark {
             sb.append("\nSpeed of the complete model: the coarse class and number attraction on every number but the coarse points "
                     + "(7 liked, 3 avoided).\n\n");
             timingTable(sb, fullTimings);
+        }
+        if (!educationTimings.isEmpty()) {
+            sb.append("\nSpeed of the complete model with education (three levels: 25% basic, 45% secondary, 30% tertiary) "
+                    + "as the coarse class's covariate, about 23% coarse.\n\n");
+            timingTable(sb, educationTimings);
         }
         if (!ess.isEmpty()) {
             sb.append("\nBulk ESS per second: 2 chains on 2 threads, seconds are wall clock; ESS over all parameters.\n\n");

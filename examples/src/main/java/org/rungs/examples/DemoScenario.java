@@ -40,7 +40,7 @@ public final class DemoScenario {
     private static final Scenario.GroupLevels STYLE_INTERCEPTS = new Scenario.GroupLevels.Drawn(-0.43, 0.2);
 
     /** Education: shares and effects on the probit of coarse (about 33%, 15% and 7% coarse). */
-    private static final Scenario.StyleCovariate EDUCATION = new Scenario.StyleCovariate.Categorical("education", List.of(
+    static final Scenario.StyleCovariate EDUCATION = new Scenario.StyleCovariate.Categorical("education", List.of(
             new Scenario.StyleCovariate.Category("basic", 0.25, 0),
             new Scenario.StyleCovariate.Category("secondary", 0.45, -0.6),
             new Scenario.StyleCovariate.Category("tertiary", 0.30, -1.05)), null);

@@ -40,6 +40,16 @@ final class ChainState implements Checkpointed {
     final RoundingChannel channel;
     /** 1 for respondents currently in the coarse class, 0 for full-scale ones; null when off. */
     final byte[] coarse;
+    /**
+     * Under attraction, the distinct rows of the style covariates when there are at most
+     * {@link #STYLE_ROW_LIMIT} (categorical ones, say), whose respondents share the class probit
+     * within a group: {@link CollapsedPosterior} reads one table per row and
+     * {@link StyleClassUpdate} counts a row's respondents instead of drawing their probit latents.
+     * Null otherwise (no classes, no style covariates, no attraction, or more rows).
+     */
+    final StyleRows styleRows;
+    /** See {@link #styleRows}. */
+    static final int STYLE_ROW_LIMIT = 8;
 
     /** Common thresholds c[0..M] with sentinels; they sum to zero over 1..M-1. */
     final double[] common;
@@ -99,6 +109,11 @@ final class ChainState implements Checkpointed {
         this.channel = channel;
         this.style = channel == null ? null : new RegressionBlock(survey.style(), group, groups);
         this.coarse = channel == null ? null : new byte[size];
+        // Without attraction the coarse model keeps the exact force and the drawn latents, and with
+        // them its chains as they were (with the tables the coarse demo's seed 1 took 59 s instead
+        // of about 65 but ended "not converged", the roll of the dice that a new chain brings).
+        this.styleRows = style != null && style.count > 0 && attracted.length > 0
+                ? StyleRows.of(style.columns, size, STYLE_ROW_LIMIT) : null;
         this.attracted = attracted.clone();
         this.attraction = new double[groups * categories];
         this.attractionMean = new double[categories];

@@ -145,8 +145,22 @@ final class CollapsedPosterior {
     private boolean onGrid;
     /** Under attraction, the tabulated normaliser of one group at a time; null otherwise. */
     private final NormaliserGrid grid;
-    /** Without style covariates, one group's gradient per answer tabulated in eta; null otherwise. */
-    private final AnswerGrid answers;
+    /**
+     * One group's gradient per answer tabulated in eta ({@link AnswerGrid}), one table per row of
+     * style covariates (one without them), as every respondent of a row has the same class probit;
+     * null with style covariates but no {@link ChainState#styleRows}.
+     */
+    private final AnswerGrid[] answers;
+    /** Per respondent, the number of its row of style covariates; null without style covariates or without tables. */
+    private final int[] styleRow;
+    /** The distinct rows of style covariates, [row][covariate], in order of first appearance. */
+    private final double[][] styleRows;
+    /** Respondents per (group, style row, answer), at (g * rows + row) * M + r. */
+    private final int[] rowCellCount;
+    /** Per style row: whether {@link #buildAnswers} tabulated some answer for the current group. */
+    private final boolean[] rowBuilt;
+    /** Per style row: d log P / d zeta summed over the current group's respondents read from its table. */
+    private final double[] rowGradZeta;
     /** Respondents per (group, answer), at g * M + r. */
     private final int[] cellCount;
     /** Scratch of {@link #answer}: d log P / d a[g,k] by position in the attraction set, and d log P / d zeta. */
@@ -273,12 +287,30 @@ final class CollapsedPosterior {
         offset[m] = Double.POSITIVE_INFINITY;
         probability = new double[m];
         grid = attracted.length > 0 ? new NormaliserGrid(m, attracted) : null;
-        answers = styleCount == 0 ? new AnswerGrid(m, attracted.length) : null;
         answerAttraction = new double[attracted.length];
         cellCount = new int[groups * m];
         for (int i = 0; i < state.size; i++) {
             cellCount[state.group[i] * m + state.category[i]]++;
         }
+        StyleRows distinct = state.styleRows;
+        styleRows = styleCount == 0 ? new double[1][0] : distinct == null ? null : distinct.values();
+        styleRow = distinct == null ? null : distinct.number();
+        if (styleRows == null) {
+            answers = null;
+            rowCellCount = null;
+        } else {
+            answers = new AnswerGrid[styleRows.length];
+            for (int q = 0; q < answers.length; q++) {
+                answers[q] = new AnswerGrid(m, attracted.length);
+            }
+            rowCellCount = new int[groups * answers.length * m];
+            for (int i = 0; i < state.size; i++) {
+                int q = styleRow == null ? 0 : styleRow[i];
+                rowCellCount[(state.group[i] * answers.length + q) * m + state.category[i]]++;
+            }
+        }
+        rowBuilt = new boolean[answers == null ? 0 : answers.length];
+        rowGradZeta = new double[rowBuilt.length];
         levelLow = new double[groups * levelCount];
         levelHigh = new double[groups * levelCount];
         java.util.Arrays.fill(levelLow, Double.POSITIVE_INFINITY);
@@ -551,6 +583,11 @@ final class CollapsedPosterior {
         return grid != null || answers != null;
     }
 
+    /** Whether {@link #force} may read (group, answer) cells from answer tables ({@link AnswerGrid}). */
+    boolean readsAnswerTables() {
+        return answers != null;
+    }
+
     /**
      * Whether a trajectory's ends should take {@link #force} and {@link #logDensity} instead of
      * the exact gradient: under attraction, where the gradient's normal densities at every
@@ -753,8 +790,9 @@ final class CollapsedPosterior {
     }
 
     /**
-     * The force's pass, (group, answer) cell by cell: without style covariates a cell with enough
-     * respondents reads {@link #answers} (its coefficients' gradient summed as it goes); under
+     * The force's pass, (group, answer) cell by cell: a cell, or with style covariates a run of
+     * one style row in it, with enough respondents reads {@link #answers} (its coefficients'
+     * gradient summed as it goes); under
      * attraction a group whose {@link #grid} could not be built takes {@link #attractedCell}, the
      * exact gradient's path; any other respondent takes {@link #respondent}'s path; the
      * coefficients' gradients are summed over each cell after it. Not the log density: the sum of the respondent paths' values (0 on the probability
@@ -762,7 +800,6 @@ final class CollapsedPosterior {
      */
     private double forcePass() {
         double[][] x = state.level.columns;
-        double[][] w = state.style == null ? null : state.style.columns;
         int[] start = state.start;
         double total = 0;
         lastZeta = Double.NaN;
@@ -778,28 +815,54 @@ final class CollapsedPosterior {
                 if (from == to) {
                     continue;
                 }
-                if (answersBuilt && answers.on(r)) {
-                    gradAlpha[g] += answers.read(r, x, beta, levelCount, alpha[g], from, to, gradBeta);
-                    continue;
-                }
-                if (floor > 0) {
-                    // no grid for this group: the exact gradient's own path, so the force is that gradient bit for bit
-                    total += attractedCell(g, r, from, to, floor, true);
-                } else if (gridBuilt && gridCells() && (channel == null || !channel.isPoint(r))) {
-                    gridCell(g, r, from, to);
-                } else {
-                    for (int i = from; i < to; i++) {
-                        total += respondent(i, g, r, true, gridBuilt);
+                if (!answersBuilt) {
+                    total += forceCell(g, r, from, to, floor, gridBuilt);
+                } else if (styleRow == null) {
+                    if (answers[0].on(r)) {
+                        gradAlpha[g] += answers[0].read(r, x, beta, levelCount, alpha[g], from, to, gradBeta);
+                    } else {
+                        total += forceCell(g, r, from, to, floor, gridBuilt);
                     }
-                }
-                if (respondentGradEta != null) {
-                    columnSums(x, levelCount, respondentGradEta, from, to, 1, gradBeta);
-                }
-                if (respondentGradZeta != null) {
-                    columnSums(w, styleCount, respondentGradZeta, from, to, 1, gradDelta);
+                } else {
+                    // runs of one style row (SurveyOrder keeps them together under attraction)
+                    for (int i = from; i < to;) {
+                        int q = styleRow[i];
+                        int end = i + 1;
+                        while (end < to && styleRow[end] == q) {
+                            end++;
+                        }
+                        if (rowBuilt[q] && answers[q].on(r)) {
+                            gradAlpha[g] += answers[q].read(r, x, beta, levelCount, alpha[g], i, end, gradBeta);
+                        } else {
+                            total += forceCell(g, r, i, end, floor, gridBuilt);
+                        }
+                        i = end;
+                    }
                 }
             }
             flushGrids(g, gridBuilt, answersBuilt);
+        }
+        return total;
+    }
+
+    /** The force's respondents from..to-1 of (group g, answer r) that no answer table takes (see {@link #forcePass}). */
+    private double forceCell(int g, int r, int from, int to, double floor, boolean gridBuilt) {
+        double total = 0;
+        if (floor > 0) {
+            // no grid for this group: the exact gradient's own path, so the force is that gradient bit for bit
+            total += attractedCell(g, r, from, to, floor, true);
+        } else if (gridBuilt && gridCells() && (channel == null || !channel.isPoint(r))) {
+            gridCell(g, r, from, to);
+        } else {
+            for (int i = from; i < to; i++) {
+                total += respondent(i, g, r, true, gridBuilt);
+            }
+        }
+        if (respondentGradEta != null) {
+            columnSums(state.level.columns, levelCount, respondentGradEta, from, to, 1, gradBeta);
+        }
+        if (respondentGradZeta != null) {
+            columnSums(state.style.columns, styleCount, respondentGradZeta, from, to, 1, gradDelta);
         }
         return total;
     }
@@ -1474,8 +1537,24 @@ final class CollapsedPosterior {
         if (gridBuilt) {
             grid.flush(gradRows, g * (m + 1), gradAttraction, g * m);
         }
-        if (answersBuilt) {
-            answers.flush(attracted, gradRows, g * (m + 1), gradAttraction, g * m, channel == null ? null : gradGamma, g);
+        if (!answersBuilt) {
+            return;
+        }
+        if (styleRow == null) {
+            answers[0].flush(attracted, gradRows, g * (m + 1), gradAttraction, g * m, channel == null ? null : gradGamma, g);
+            return;
+        }
+        // d zeta / d delta_p is the row's covariate p
+        for (int q = 0; q < answers.length; q++) {
+            if (!rowBuilt[q]) {
+                continue;
+            }
+            rowGradZeta[q] = 0;
+            answers[q].flush(attracted, gradRows, g * (m + 1), gradAttraction, g * m, rowGradZeta, q);
+            gradGamma[g] += rowGradZeta[q];
+            for (int p = 0; p < styleCount; p++) {
+                gradDelta[p] += rowGradZeta[q] * styleRows[q][p];
+            }
         }
     }
 
@@ -1504,58 +1583,93 @@ final class CollapsedPosterior {
     }
 
     /**
-     * Tabulates group g's gradient per answer ({@link AnswerGrid}) for the answers with at least
-     * {@link AnswerGrid#RESPONDENTS_PER_NODE} respondents per node and a likelihood on the
-     * probability path at every node; false when no answer qualifies or the range is too wide. A
-     * fixed function of the position either way.
+     * Tabulates group g's gradient per answer ({@link AnswerGrid}), per row of style covariates,
+     * for the answers with at least {@link AnswerGrid#RESPONDENTS_PER_NODE} respondents of the row
+     * per node and a likelihood on the probability path at every node; false when none qualifies
+     * or the range is too wide. A fixed function of the position either way.
      */
     private boolean buildAnswers(int g) {
-        double zeta = channel == null ? 0 : gamma[g];
         etaRange(g);
-        if (Math.abs(zeta) > PLAIN_PROBIT || !answers.place(range[0], range[1])) {
-            return false;
-        }
-        int nodes = answers.nodes();
+        int rowCount = answers.length;
         boolean any = false;
-        for (int r = 0; r < m; r++) {
-            boolean large = cellCount[g * m + r] >= AnswerGrid.RESPONDENTS_PER_NODE * nodes;
-            answers.set(r, large);
-            any |= large;
+        for (int q = 0; q < rowCount; q++) {
+            AnswerGrid table = answers[q];
+            rowBuilt[q] = false;
+            if (Math.abs(rowZeta(g, q)) > PLAIN_PROBIT || !table.place(range[0], range[1])) {
+                continue;
+            }
+            int nodes = table.nodes();
+            for (int r = 0; r < m; r++) {
+                boolean large = rowCellCount[(g * rowCount + q) * m + r] >= AnswerGrid.RESPONDENTS_PER_NODE * nodes;
+                table.set(r, large);
+                rowBuilt[q] |= large;
+            }
+            any |= rowBuilt[q];
         }
         if (!any) {
             return false;
         }
         int base = g * (m + 1);
+        // every row's table has the same nodes: place() depends on the range alone
+        int first = 0;
+        while (!rowBuilt[first]) {
+            first++;
+        }
+        int nodes = answers[first].nodes();
         for (int j = 0; j < nodes; j++) {
-            fillTails(base, answers.node(j));
-            for (int r = 0; r < m; r++) {
-                if (!answers.on(r)) {
+            fillTails(base, answers[first].node(j));
+            for (int q = first; q < rowCount; q++) {
+                if (!rowBuilt[q]) {
                     continue;
                 }
-                if (Double.isNaN(answer(g, r, zeta, true))) {
-                    answers.set(r, false);
-                    continue;
+                AnswerGrid table = answers[q];
+                double zeta = rowZeta(g, q);
+                for (int r = 0; r < m; r++) {
+                    if (!table.on(r)) {
+                        continue;
+                    }
+                    if (Double.isNaN(answer(g, r, zeta, true))) {
+                        table.set(r, false);
+                        continue;
+                    }
+                    double gradEta = 0;
+                    for (int k = 1; k < m; k++) {
+                        gradEta -= gradT[k];
+                    }
+                    table.store(r, j, gradEta, gradT, answerAttraction, attracted.length, answerGradZeta);
                 }
-                double gradEta = 0;
-                for (int k = 1; k < m; k++) {
-                    gradEta -= gradT[k];
-                }
-                answers.store(r, j, gradEta, gradT, answerAttraction, attracted.length, answerGradZeta);
             }
         }
-        for (int r = 0; r < m; r++) {
-            if (answers.on(r)) {
-                answers.finish(r);
+        for (int q = 0; q < rowCount; q++) {
+            for (int r = 0; r < m && rowBuilt[q]; r++) {
+                if (answers[q].on(r)) {
+                    answers[q].finish(r);
+                }
             }
         }
         return true;
     }
 
-    /** Whether every answer of group g with respondents is read from {@link #answers}. */
+    /** The class probit of style row q in group g: gamma[g] plus the row's covariates times delta (0 without classes). */
+    private double rowZeta(int g, int q) {
+        if (channel == null) {
+            return 0;
+        }
+        double zeta = gamma[g];
+        for (int p = 0; p < styleCount; p++) {
+            zeta += styleRows[q][p] * delta[p];
+        }
+        return zeta;
+    }
+
+    /** Whether every (style row, answer) of group g with respondents is read from {@link #answers}. */
     private boolean allOn(int g) {
-        for (int r = 0; r < m; r++) {
-            if (cellCount[g * m + r] > 0 && !answers.on(r)) {
-                return false;
+        int rowCount = answers.length;
+        for (int q = 0; q < rowCount; q++) {
+            for (int r = 0; r < m; r++) {
+                if (rowCellCount[(g * rowCount + q) * m + r] > 0 && !(rowBuilt[q] && answers[q].on(r))) {
+                    return false;
+                }
             }
         }
         return true;

@@ -32,7 +32,9 @@ import org.rungs.priors.StandardNormal;
  * move draws it with every latent integrated out: a respondent who is full-scale for sure then
  * contributes log(1 - Phi(gamma[g])), n of them n times that, at no cost per respondent. So no
  * latent is drawn and {@link Chain} leaves out the conjugate step, which would only repeat the
- * move's work.
+ * move's work. The same under attraction with few distinct rows of style covariates
+ * ({@link ChainState#styleRows}): such a respondent contributes log(1 - Phi(gamma[g] + w' delta)),
+ * counted per (group, row), and the coefficients move by the random walk and the joint step.
  */
 final class StyleClassUpdate implements Update, Checkpointed {
     private static final double TARGET_ACCEPTANCE = 0.44;
@@ -79,8 +81,13 @@ final class StyleClassUpdate implements Update, Checkpointed {
     private final int[] gap;
     private double coefficientLogScale;
     private int warmupStep;
-    /** Whether the probit latents are drawn (style covariates present); else they stay integrated out. */
+    /** Whether the probit latents are drawn (see {@link #augmented(ChainState)}); else they stay integrated out. */
     private final boolean augmented;
+    /** Whether every respondent of a group has the same class probit (no style covariates). */
+    private final boolean shared;
+    /** Not augmented, with style covariates: the full-scale-for-sure respondents per (group, style row), and the rows. */
+    private final int[] fixedRowCount;
+    private final double[][] rowValues;
 
     private StyleClassUpdate(ChainState state, Priors priors, UniformRandomProvider rng) {
         this.state = state;
@@ -136,11 +143,29 @@ final class StyleClassUpdate implements Update, Checkpointed {
         this.excess = new double[state.attractionOn() ? state.groups * m : 0];
         this.coefficientLogScale = Math.log(1.0 / Math.sqrt(1.0 + state.size));
         this.augmented = augmented(state);
+        this.shared = p == 0;
+        if (!augmented && !shared) {
+            StyleRows rows = state.styleRows;
+            rowValues = rows.values();
+            fixedRowCount = new int[state.groups * rows.count()];
+            for (int i = 0; i < state.size; i++) {
+                if (!state.channel.isPoint(state.category[i])) {
+                    fixedRowCount[state.group[i] * rows.count() + rows.number()[i]]++;
+                }
+            }
+        } else {
+            rowValues = null;
+            fixedRowCount = null;
+        }
     }
 
-    /** Whether the coarse class's probit latents are drawn, for the conjugate step of {@link RegressionUpdate}. */
+    /**
+     * Whether the coarse class's probit latents are drawn, for the conjugate step of
+     * {@link RegressionUpdate}: with style covariates, unless {@link ChainState#styleRows} lets
+     * the always-full-scale respondents be counted per row instead.
+     */
     static boolean augmented(ChainState state) {
-        return state.style.count > 0;
+        return state.style.count > 0 && state.styleRows == null;
     }
 
     static StyleClassUpdate of(ChainState state, Priors priors, UniformRandomProvider rng) {
@@ -209,7 +234,7 @@ final class StyleClassUpdate implements Update, Checkpointed {
                         full[at] *= (excess[g * m + r] + 1) / s.normaliser[i];
                     }
                     coarse[at] = ResponseLikelihood.coarse(channel, s.thresholds, row, r, eta, -1, 0);
-                    if (augmented) {
+                    if (!shared) {
                         logMixture[at] = logMixture(at, lin);
                         coarseShare[at] = proposedShare;
                     } else {
@@ -232,7 +257,8 @@ final class StyleClassUpdate implements Update, Checkpointed {
      * Moves gamma[g] by a random-walk step with the classes of the coarse-point reporters summed
      * out (MODEL.md 4c) and the probit latents of the others held: their log density changes by
      * step * sum(e) - n step^2 / 2; or, without style covariates, integrated out:
-     * n (log(1 - Phi(gamma + step)) - log(1 - Phi(gamma))).
+     * n (log(1 - Phi(gamma + step)) - log(1 - Phi(gamma))), and per style row the same with the
+     * row's probit ({@link #fixedChange}).
      */
     private void moveIntercept(int g, boolean adapt) {
         ChainState s = state;
@@ -240,8 +266,8 @@ final class StyleClassUpdate implements Update, Checkpointed {
         int m = s.categories;
         double step = Math.exp(logScale[g]) * normal.sample();
         double change;
-        if (augmented) {
-            change = step * residualSum[g] - 0.5 * fixedCount[g] * step * step;
+        if (!shared) {
+            change = augmented ? step * residualSum[g] - 0.5 * fixedCount[g] * step * step : fixedChange(g, step, null);
             for (int r : points) {
                 for (int at = s.start[g * m + r] - gap[g * m + r], end = s.start[g * m + r + 1] - gap[g * m + r]; at < end; at++) {
                     double after = logMixture(at, linear[at] + step);
@@ -270,11 +296,11 @@ final class StyleClassUpdate implements Update, Checkpointed {
             if (s.groups == 1) {
                 style.mean = style.intercept[g];
             }
-            double q = augmented ? 0 : share(style.intercept[g]);
+            double q = shared ? share(style.intercept[g]) : 0;
             for (int r : points) {
                 for (int at = s.start[g * m + r] - gap[g * m + r], end = s.start[g * m + r + 1] - gap[g * m + r]; at < end; at++) {
                     linear[at] += step;
-                    if (augmented) {
+                    if (!shared) {
                         logMixture[at] = proposedLog[at];
                         coarseShare[at] = proposedQ[at];
                     } else {
@@ -295,7 +321,8 @@ final class StyleClassUpdate implements Update, Checkpointed {
     /**
      * A random-walk move of all coarse-class coefficients delta together, as in
      * {@link #moveIntercept}: the class indicators otherwise tie delta to the current
-     * classification. The held residuals change their log density by d' sum(e w) - d' W'W d / 2.
+     * classification. The held residuals change their log density by d' sum(e w) - d' W'W d / 2;
+     * counted per style row instead, as in {@link #fixedChange}.
      */
     private void moveCoefficients(boolean adapt) {
         ChainState s = state;
@@ -307,12 +334,15 @@ final class StyleClassUpdate implements Update, Checkpointed {
             coefficientStep[j] = scale * normal.sample();
         }
         double change = 0;
-        for (int j = 0; j < p; j++) {
+        for (int j = 0; j < p && augmented; j++) {
             double d = coefficientStep[j];
             change += d * residualCross[j];
             for (int l = 0; l < p; l++) {
                 change -= 0.5 * d * fixedGram[j][l] * coefficientStep[l];
             }
+        }
+        for (int g = 0; g < s.groups && !augmented; g++) {
+            change += fixedChange(g, 0, coefficientStep);
         }
         for (int g = 0; g < s.groups; g++) {
             for (int r : points) {
@@ -361,6 +391,32 @@ final class StyleClassUpdate implements Update, Checkpointed {
         if (adapt) {
             coefficientLogScale += Math.pow(warmupStep + 1.0, -0.6) * ((accept ? 1 : 0) - TARGET_ACCEPTANCE);
         }
+    }
+
+    /**
+     * Counted per style row (not augmented, with style covariates): the change of log(1 - q) over
+     * group g's full-scale-for-sure respondents when gamma[g] moves by {@code interceptStep} and
+     * delta by {@code coefficientSteps} (null: unchanged), q = Phi(gamma[g] + w' delta) of their row.
+     */
+    private double fixedChange(int g, double interceptStep, double[] coefficientSteps) {
+        RegressionBlock style = state.style;
+        int rows = rowValues.length;
+        double change = 0;
+        for (int q = 0; q < rows; q++) {
+            int count = fixedRowCount[g * rows + q];
+            if (count == 0) {
+                continue;
+            }
+            double before = style.intercept[g];
+            double after = before + interceptStep;
+            for (int j = 0; j < style.count; j++) {
+                double w = rowValues[q][j];
+                before += w * style.coefficient[j];
+                after += w * (style.coefficient[j] + (coefficientSteps == null ? 0 : coefficientSteps[j]));
+            }
+            change += count * (StandardNormal.logUpperTail(after) - StandardNormal.logUpperTail(before));
+        }
+        return change;
     }
 
     /**

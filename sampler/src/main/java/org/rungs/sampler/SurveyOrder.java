@@ -1,8 +1,6 @@
 package org.rungs.sampler;
 
 import java.util.Arrays;
-import java.util.HashMap;
-import java.util.Map;
 import org.rungs.models.survey.Covariates;
 import org.rungs.models.survey.Survey;
 
@@ -85,32 +83,7 @@ record SurveyOrder(Survey survey, int[] start) {
         for (int j = 0; j < count; j++) {
             columns[j] = style.column(j);
         }
-        Map<StyleRow, Integer> seen = new HashMap<>();
-        int[] row = new int[n];
-        double[] values = new double[count];
-        for (int i = 0; i < n; i++) {
-            for (int j = 0; j < count; j++) {
-                values[j] = columns[j][i];
-            }
-            Integer id = seen.computeIfAbsent(new StyleRow(values.clone()), k -> seen.size());
-            if (seen.size() > STYLE_ROWS) {
-                return null;
-            }
-            row[i] = id;
-        }
-        return row;
-    }
-
-    /** A row of style covariates as a map key, equal when its doubles are equal bit for bit. */
-    private record StyleRow(double[] values) {
-        @Override
-        public boolean equals(Object other) {
-            return other instanceof StyleRow && Arrays.equals(values, ((StyleRow) other).values);
-        }
-
-        @Override
-        public int hashCode() {
-            return Arrays.hashCode(values);
-        }
+        StyleRows rows = StyleRows.of(columns, n, STYLE_ROWS);
+        return rows == null ? null : rows.number();
     }
 }

@@ -26,8 +26,14 @@ class CollapsedPosteriorTest {
         return survey(150, true);
     }
 
-    /** n respondents in three groups on 0..6 with one level covariate and, if asked, one style covariate. */
+    /** n respondents in three groups on 0..6 with one level covariate and, if asked, one 0/1 style covariate. */
     static Survey survey(int n, boolean style) {
+        return survey(n, style ? 2 : 0);
+    }
+
+    /** As {@link #survey(int, boolean)} with a style covariate of {@code styleValues} values 0, 1, ... (none if 0). */
+    static Survey survey(int n, int styleValues) {
+        boolean style = styleValues > 0;
         UniformRandomProvider rng = RandomSource.XO_RO_SHI_RO_128_PP.create(11L);
         ZigguratSampler.NormalizedGaussian normal = ZigguratSampler.NormalizedGaussian.of(rng);
         int[] group = new int[n];
@@ -37,7 +43,7 @@ class CollapsedPosteriorTest {
         for (int i = 0; i < n; i++) {
             group[i] = i % 3;
             x[i] = normal.sample();
-            w[i] = rng.nextInt(2);
+            w[i] = rng.nextInt(Math.max(styleValues, 1));
             category[i] = (byte) rng.nextInt(7);
         }
         return Survey.of(new Scale(0, 6), category, group, List.of("a", "b", "c"),
@@ -254,7 +260,7 @@ class CollapsedPosteriorTest {
             boolean attraction = (variant / 4) % 2 == 0;
             ChainState s = variant(variant);
             CollapsedPosterior posterior = new CollapsedPosterior(s, PRIORS);
-            assertEquals(attraction || !coarse(variant), posterior.approximatesForce());
+            assertEquals(attraction || !coarse(variant), posterior.approximatesForce(), "variant " + variant);
             double[] theta = new double[posterior.dimension()];
             posterior.read(theta);
             double[] full = new double[theta.length];
@@ -285,8 +291,12 @@ class CollapsedPosteriorTest {
     }
 
     /**
-     * Without style covariates and with cells of a few hundred respondents, the force reads each
-     * (group, answer) cell's gradient from a grid in eta (AnswerGrid): within 1e-6 of the exact
+     * With cells of a few hundred respondents, the force reads each (group, answer) cell's
+     * gradient from a grid in eta (AnswerGrid); under attraction with a 0/1 style covariate one
+     * grid per value, the respondents' values mixed within cells (SurveyOrder.of keeps the file's
+     * order there), while the coarse class with that covariate and without attraction takes the
+     * exact gradient:
+     * within 1e-6 of the exact
      * gradient in every coordinate relative to the largest entry (four-point Lagrange on nodes
      * 1/16 apart: error at most (9/16) h^4 / 24 = 3.6e-7 times a fourth derivative; measured
      * below 3e-8 here), not the exact gradient bit for bit (so the grid was read), and the same
@@ -294,8 +304,8 @@ class CollapsedPosteriorTest {
      */
     @Test
     void forceReadsLargeCellsFromTheAnswerGrid() {
-        Survey survey = survey(8000, false);
-        for (int variant = 0; variant < 8; variant++) {
+        for (int variant = 0; variant < 16; variant++) {
+            Survey survey = survey(8000, variant >= 8);
             boolean byGroup = byGroup(variant);
             boolean coarse = coarse(variant);
             boolean attraction = (variant / 4) % 2 == 0;
@@ -315,10 +325,40 @@ class CollapsedPosteriorTest {
             for (int j = 0; j < theta.length; j++) {
                 assertEquals(exact[j], force[j], 1e-6 * largest, "coordinate " + j + " of variant " + variant);
             }
-            assertTrue(difference > 0, "variant " + variant + " read the grid");
+            if (variant < 8 || attraction || !coarse) {
+                assertTrue(difference > 0, "variant " + variant + " read the grid");
+            } else {
+                assertArrayEquals(exact, force, 0.0, "variant " + variant + ": style covariates without attraction, the gradient itself");
+            }
             double[] again = new double[theta.length];
             posterior.force(theta, again);
             assertArrayEquals(force, again, 0.0, "variant " + variant);
+        }
+    }
+
+    /**
+     * Under attraction, answer tables per row of style covariates up to
+     * ChainState.STYLE_ROW_LIMIT distinct rows, none beyond; either way the force stays
+     * within 1e-6 of the exact gradient relative to its largest entry (as in the test before).
+     */
+    @Test
+    void forceTakesNoAnswerTablesBeyondItsRowsOfStyleCovariates() {
+        for (int values : new int[] {ChainState.STYLE_ROW_LIMIT, ChainState.STYLE_ROW_LIMIT + 1}) {
+            CollapsedPosterior posterior = new CollapsedPosterior(state(survey(20_000, values), true, true, true, 2.5), PRIORS);
+            assertEquals(values <= ChainState.STYLE_ROW_LIMIT, posterior.readsAnswerTables(), values + " rows");
+            double[] theta = new double[posterior.dimension()];
+            posterior.read(theta);
+            double[] exact = new double[theta.length];
+            double[] force = new double[theta.length];
+            posterior.gradient(theta, exact);
+            posterior.force(theta, force);
+            double largest = 0;
+            for (double v : exact) {
+                largest = Math.max(largest, Math.abs(v));
+            }
+            for (int j = 0; j < theta.length; j++) {
+                assertEquals(exact[j], force[j], 1e-6 * largest, "coordinate " + j + " with " + values + " rows");
+            }
         }
     }
 

@@ -45,7 +45,9 @@ import org.rungs.sampler.SamplerSettings;
  * groups (8,000 engine draws per chain and 40,000 of the test's own), the common row's order
  * restriction of MODEL.md 5 left out (6.6; written that way at first, the test failed until the
  * restriction was read again), the common thresholds' prior sd 2 (9.4), tau_a's prior sd 1
- * instead of 0.3 (48).
+ * instead of 0.3 (48); one group with a 0/1 style covariate under attraction, the engine's
+ * class moves with the full-scale-for-sure respondents' term halved (style_mean -0.09 against
+ * -0.35).
  */
 class IndependentPosteriorTest {
     private static final int CATEGORIES = 5;
@@ -104,6 +106,78 @@ class IndependentPosteriorTest {
         for (int p = 0; p < names.size(); p++) {
             check(names.get(p), engine.chainsOf(engine.indexOf(names.get(p))), independent[p]);
         }
+    }
+
+    /**
+     * One group on 0..4 under number attraction on 1 and 3 with a style covariate of two values
+     * (schooling coded 0/1), 40 respondents (drawn once here, seeded). With few distinct rows of
+     * style covariates under attraction the engine integrates the probit latents of the
+     * full-scale-for-sure respondents out, counted per row (StyleClassUpdate, ChainState.styleRows),
+     * and leaves out the conjugate step of gamma and delta; the density here is MODEL.md 4b-4c
+     * per respondent.
+     */
+    @Test
+    void categoricalStyleCovariateUnderAttractionMatchesAnIndependentSampler() {
+        SplittableRandom data = new SplittableRandom(43L);
+        int n = 40;
+        double[] schooling = new double[n];
+        byte[] category = new byte[n];
+        for (int i = 0; i < n; i++) {
+            schooling[i] = data.nextInt(2);
+            double latent = data.nextGaussian();
+            int k = latent < -1.2 ? 0 : latent < -0.4 ? 1 : latent < 0.4 ? 2 : latent < 1.2 ? 3 : 4;
+            boolean coarse = data.nextDouble() < 0.5 - 0.3 * schooling[i];
+            category[i] = (byte) (coarse ? (k <= 1 ? 0 : k >= 3 ? 4 : 2) : k);
+        }
+        double[] w = standardised(schooling);
+        double[] start = {0, -1, -1.5, -0.5, 0.5, 0, 0, 0};
+        double[][][] independent = independentDraws(theta -> styleAttractionLogPosterior(theta, category, w), start,
+                20261207L, theta -> new double[] {theta[0], theta[1], theta[2], theta[3], theta[4],
+                    -(theta[2] + theta[3] + theta[4]), theta[5], theta[6], theta[7]}, null, 10_000, 10);
+
+        Survey survey = Survey.of(new Scale(0, 4), category, new int[n], List.of("all"), Covariates.none(),
+                Covariates.fromNumeric(List.of("schooling"), List.of(schooling)), null);
+        ModelSpec spec = ModelSpec.defaults().withStyleClasses(StyleClasses.coarse(null)).withAttraction(NumberAttraction.of(1, 3));
+        Draws engine = Fitter.fit(survey, spec, new SamplerSettings(4, 1000, 2000, 20261207L, 2, 2), ProgressListener.NONE,
+                new AtomicBoolean()).draws();
+        List<String> names = List.of("group_mean", "style_mean", "threshold.1", "threshold.2", "threshold.3",
+                "threshold.4", "style.schooling", "attraction.1", "attraction.3");
+        for (int p = 0; p < names.size(); p++) {
+            check(names.get(p), engine.chainsOf(engine.indexOf(names.get(p))), independent[p]);
+        }
+    }
+
+    /** mu_alpha, mu_gamma, c1, c2, c3, delta, a1, a3; one group, the rounding of {0, 2, 4}, attraction on 1 and 3. */
+    private static double styleAttractionLogPosterior(double[] theta, byte[] category, double[] w) {
+        double[] c = {Double.NEGATIVE_INFINITY, theta[2], theta[3], theta[4], -(theta[2] + theta[3] + theta[4]),
+            Double.POSITIVE_INFINITY};
+        for (int k = 1; k < CATEGORIES; k++) {
+            if (!(c[k] > c[k - 1])) {
+                return Double.NEGATIVE_INFINITY;
+            }
+        }
+        double[] a = {0, theta[6], 0, theta[7], 0};
+        double log = -theta[0] * theta[0] / 8 - (theta[1] + 1) * (theta[1] + 1) / 2 - theta[5] * theta[5] / 2
+                - (a[1] * a[1] + a[3] * a[3]) / (2 * 0.25);
+        for (int k = 1; k < CATEGORIES; k++) {
+            log -= c[k] * c[k] / 18;
+        }
+        double[] pi = new double[CATEGORIES];
+        double tilt = 0;
+        for (int k = 0; k < CATEGORIES; k++) {
+            pi[k] = phi(c[k + 1] - theta[0]) - phi(c[k] - theta[0]);
+            tilt += pi[k] * Math.exp(a[k]);
+        }
+        for (int i = 0; i < category.length; i++) {
+            int j = category[i];
+            double q = phi(theta[1] + theta[5] * w[i]);
+            double coarse = 0;
+            for (int k = 0; k < CATEGORIES; k++) {
+                coarse += pi[k] * ROUNDING[j][k];
+            }
+            log += Math.log((1 - q) * pi[j] * Math.exp(a[j]) / tilt + q * coarse);
+        }
+        return log;
     }
 
     /** Centred and divided by the sample sd (denominator n - 1), MODEL.md 1. */

@@ -22,6 +22,8 @@ import org.rungs.priors.Priors;
  * @param respondents         respondents per group
  * @param covariates          numeric level covariates, drawn standard normal before standardising
  * @param styleCovariates     numeric style covariates (MODEL.md 4, w), drawn likewise; only with the coarse class
+ * @param styleLevels         0: the style covariates are standard normal; else each takes the values
+ *                            0..styleLevels-1 with equal chances, as a categorical one coded in numbers
  * @param simulation          model and priors the parameters and ratings are drawn from
  * @param fit                 model and priors of the fit
  * @param chains              chains per fit
@@ -33,7 +35,7 @@ import org.rungs.priors.Priors;
  * @param alpha               family-wise false-alarm rate of the verdicts over all parameters
  */
 public record CalibrationConfig(Scale scale, int groups, int respondents, int covariates, int styleCovariates,
-        ModelSpec simulation,
+        int styleLevels, ModelSpec simulation,
         ModelSpec fit, int chains, int warmup, int draws, int rankDraws, long seed, int replications, double alpha) {
 
     /** The file of a calibration folder that records the configuration. */
@@ -49,6 +51,9 @@ public record CalibrationConfig(Scale scale, int groups, int respondents, int co
         }
         if (styleCovariates < 0) {
             throw new IllegalArgumentException("the number of style covariates cannot be negative, got " + styleCovariates);
+        }
+        if (styleLevels < 0 || styleLevels == 1) {
+            throw new IllegalArgumentException("style covariates take 0 (normal) or at least 2 levels, got " + styleLevels);
         }
         if (styleCovariates > 0 && !simulation.styleClasses().coarse() && !fit.styleClasses().coarse()) {
             throw new IllegalArgumentException("style covariates enter only the coarse class; choose the coarse style classes");
@@ -78,7 +83,7 @@ public record CalibrationConfig(Scale scale, int groups, int respondents, int co
      */
     public static CalibrationConfig small(long seed, int replications) {
         ModelSpec model = new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults());
-        return new CalibrationConfig(new Scale(0, 4), 3, 40, 1, 0, model, model, 2, 200, 200, 99, seed, replications, 0.01);
+        return new CalibrationConfig(new Scale(0, 4), 3, 40, 1, 0, 0, model, model, 2, 200, 200, 99, seed, replications, 0.01);
     }
 
     /**
@@ -89,7 +94,7 @@ public record CalibrationConfig(Scale scale, int groups, int respondents, int co
      */
     public static CalibrationConfig coarse(long seed, int replications) {
         ModelSpec model = new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults(), StyleClasses.coarse(null));
-        return new CalibrationConfig(new Scale(0, 4), 3, 60, 1, 1, model, model, 2, 300, 300, 99, seed, replications, 0.01);
+        return new CalibrationConfig(new Scale(0, 4), 3, 60, 1, 1, 0, model, model, 2, 300, 300, 99, seed, replications, 0.01);
     }
 
     /**
@@ -102,33 +107,39 @@ public record CalibrationConfig(Scale scale, int groups, int respondents, int co
     }
 
     public CalibrationConfig withFit(ModelSpec f) {
-        return new CalibrationConfig(scale, groups, respondents, covariates, styleCovariates, simulation, f, chains, warmup, draws,
-                rankDraws, seed, replications, alpha);
+        return new CalibrationConfig(scale, groups, respondents, covariates, styleCovariates, styleLevels, simulation, f, chains,
+                warmup, draws, rankDraws, seed, replications, alpha);
     }
 
     public CalibrationConfig withModel(ModelSpec both) {
-        return new CalibrationConfig(scale, groups, respondents, covariates, styleCovariates, both, both, chains, warmup, draws,
-                rankDraws, seed, replications, alpha);
+        return new CalibrationConfig(scale, groups, respondents, covariates, styleCovariates, styleLevels, both, both, chains,
+                warmup, draws, rankDraws, seed, replications, alpha);
     }
 
     public CalibrationConfig withDesign(int g, int perGroup, int p) {
-        return new CalibrationConfig(scale, g, perGroup, p, styleCovariates, simulation, fit, chains, warmup, draws, rankDraws, seed,
-                replications, alpha);
+        return new CalibrationConfig(scale, g, perGroup, p, styleCovariates, styleLevels, simulation, fit, chains, warmup, draws,
+                rankDraws, seed, replications, alpha);
     }
 
     public CalibrationConfig withReplications(int r) {
-        return new CalibrationConfig(scale, groups, respondents, covariates, styleCovariates, simulation, fit, chains, warmup, draws,
-                rankDraws, seed, r, alpha);
+        return new CalibrationConfig(scale, groups, respondents, covariates, styleCovariates, styleLevels, simulation, fit, chains,
+                warmup, draws, rankDraws, seed, r, alpha);
     }
 
     public CalibrationConfig withStyleCovariates(int q) {
-        return new CalibrationConfig(scale, groups, respondents, covariates, q, simulation, fit, chains, warmup, draws, rankDraws,
-                seed, replications, alpha);
+        return new CalibrationConfig(scale, groups, respondents, covariates, q, styleLevels, simulation, fit, chains, warmup, draws,
+                rankDraws, seed, replications, alpha);
+    }
+
+    /** Style covariates taking the values 0..levels-1 (see the record's parameters). */
+    public CalibrationConfig withStyleLevels(int levels) {
+        return new CalibrationConfig(scale, groups, respondents, covariates, styleCovariates, levels, simulation, fit, chains, warmup,
+                draws, rankDraws, seed, replications, alpha);
     }
 
     public CalibrationConfig withSampler(int c, int w, int d, int l) {
-        return new CalibrationConfig(scale, groups, respondents, covariates, styleCovariates, simulation, fit, c, w, d, l, seed,
-                replications, alpha);
+        return new CalibrationConfig(scale, groups, respondents, covariates, styleCovariates, styleLevels, simulation, fit, c, w, d,
+                l, seed, replications, alpha);
     }
 
     /** Labels of the simulated groups, {@code g1..gG}. */
@@ -181,6 +192,10 @@ public record CalibrationConfig(Scale scale, int groups, int respondents, int co
         if (coarseClass()) {
             // only with the coarse class, so that folders of ordered-probit calibrations keep their text
             line(sb, "style_covariates", Integer.toString(styleCovariates));
+            if (styleLevels > 0) {
+                // only when set, so that earlier folders keep their text
+                line(sb, "style_levels", Integer.toString(styleLevels));
+            }
             line(sb, "simulation_style_classes", simulation.styleClasses().label());
             line(sb, "fit_style_classes", fit.styleClasses().label());
         }

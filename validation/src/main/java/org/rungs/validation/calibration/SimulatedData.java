@@ -44,7 +44,8 @@ record SimulatedData(Survey survey, TrueParameters truth, StyleParameters style,
         List<double[]> raw = new ArrayList<>();
         double[][] x = columns(config.covariates(), n, normal, raw);
         List<double[]> rawStyle = new ArrayList<>();
-        double[][] w = columns(config.styleCovariates(), n, normal, rawStyle);
+        double[][] w = config.styleLevels() > 0 ? levels(config.styleCovariates(), config.styleLevels(), n, rng, rawStyle)
+                : columns(config.styleCovariates(), n, normal, rawStyle);
         int[] points = classes.coarse() ? coarsePoints(config.scale(), classes) : null;
         int lowest = config.scale().lowest();
         int[] group = new int[n];
@@ -103,6 +104,20 @@ record SimulatedData(Survey survey, TrueParameters truth, StyleParameters style,
             }
         }
         return m - 1;
+    }
+
+    /** Raw columns of the values 0..levels-1 with equal chances (added to {@code raw}), returned standardised. */
+    private static double[][] levels(int count, int levels, int n, UniformRandomProvider rng, List<double[]> raw) {
+        double[][] z = new double[count][];
+        for (int j = 0; j < count; j++) {
+            double[] column = new double[n];
+            for (int i = 0; i < n; i++) {
+                column[i] = rng.nextInt(levels);
+            }
+            raw.add(column);
+            z[j] = standardise(column);
+        }
+        return z;
     }
 
     /** Standard normal raw columns (added to {@code raw}), returned standardised. */
