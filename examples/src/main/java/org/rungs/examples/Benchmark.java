@@ -7,6 +7,7 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.Arrays;
+import java.util.LinkedHashSet;
 import java.util.List;
 import java.util.Locale;
 import java.util.Set;
@@ -177,7 +178,7 @@ public final class Benchmark {
         Covariates.Builder style = Covariates.builder();
         for (String name : data.styleCovariateNames()) {
             String[] labels = data.category(name);
-            List<String> levels = new ArrayList<>(new java.util.LinkedHashSet<>(Arrays.asList(labels)));
+            List<String> levels = new ArrayList<>(new LinkedHashSet<>(Arrays.asList(labels)));
             int[] codes = new int[labels.length];
             for (int i = 0; i < labels.length; i++) {
                 codes[i] = levels.indexOf(labels[i]);

@@ -161,6 +161,8 @@ final class CollapsedPosterior {
     private final boolean[] rowBuilt;
     /** Per style row: d log P / d zeta summed over the current group's respondents read from its table. */
     private final double[] rowGradZeta;
+    /** Per style row: its class probit in the current group ({@link #buildAnswers}). */
+    private final double[] rowZeta;
     /** Respondents per (group, answer), at g * M + r. */
     private final int[] cellCount;
     /** Scratch of {@link #answer}: d log P / d a[g,k] by position in the attraction set, and d log P / d zeta. */
@@ -311,6 +313,7 @@ final class CollapsedPosterior {
         }
         rowBuilt = new boolean[answers == null ? 0 : answers.length];
         rowGradZeta = new double[rowBuilt.length];
+        rowZeta = new double[rowBuilt.length];
         levelLow = new double[groups * levelCount];
         levelHigh = new double[groups * levelCount];
         java.util.Arrays.fill(levelLow, Double.POSITIVE_INFINITY);
@@ -1595,7 +1598,8 @@ final class CollapsedPosterior {
         for (int q = 0; q < rowCount; q++) {
             AnswerGrid table = answers[q];
             rowBuilt[q] = false;
-            if (Math.abs(rowZeta(g, q)) > PLAIN_PROBIT || !table.place(range[0], range[1])) {
+            rowZeta[q] = rowZeta(g, q);
+            if (Math.abs(rowZeta[q]) > PLAIN_PROBIT || !table.place(range[0], range[1])) {
                 continue;
             }
             int nodes = table.nodes();
@@ -1623,7 +1627,7 @@ final class CollapsedPosterior {
                     continue;
                 }
                 AnswerGrid table = answers[q];
-                double zeta = rowZeta(g, q);
+                double zeta = rowZeta[q];
                 for (int r = 0; r < m; r++) {
                     if (!table.on(r)) {
                         continue;

@@ -3,6 +3,7 @@ package org.rungs.validation.calibration;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
+import java.util.function.DoubleSupplier;
 import org.apache.commons.rng.UniformRandomProvider;
 import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
 import org.rungs.models.StyleClasses;
@@ -42,10 +43,10 @@ record SimulatedData(Survey survey, TrueParameters truth, StyleParameters style,
         ZigguratSampler.NormalizedGaussian normal = ZigguratSampler.NormalizedGaussian.of(rng);
         int n = groups * config.respondents();
         List<double[]> raw = new ArrayList<>();
-        double[][] x = columns(config.covariates(), n, normal, raw);
+        double[][] x = columns(config.covariates(), n, normal::sample, raw);
         List<double[]> rawStyle = new ArrayList<>();
-        double[][] w = config.styleLevels() > 0 ? levels(config.styleCovariates(), config.styleLevels(), n, rng, rawStyle)
-                : columns(config.styleCovariates(), n, normal, rawStyle);
+        double[][] w = columns(config.styleCovariates(), n,
+                config.styleLevels() > 0 ? () -> rng.nextInt(config.styleLevels()) : normal::sample, rawStyle);
         int[] points = classes.coarse() ? coarsePoints(config.scale(), classes) : null;
         int lowest = config.scale().lowest();
         int[] group = new int[n];
@@ -106,27 +107,13 @@ record SimulatedData(Survey survey, TrueParameters truth, StyleParameters style,
         return m - 1;
     }
 
-    /** Raw columns of the values 0..levels-1 with equal chances (added to {@code raw}), returned standardised. */
-    private static double[][] levels(int count, int levels, int n, UniformRandomProvider rng, List<double[]> raw) {
+    /** Raw columns of draws (added to {@code raw}), returned standardised. */
+    private static double[][] columns(int count, int n, DoubleSupplier draw, List<double[]> raw) {
         double[][] z = new double[count][];
         for (int j = 0; j < count; j++) {
             double[] column = new double[n];
             for (int i = 0; i < n; i++) {
-                column[i] = rng.nextInt(levels);
-            }
-            raw.add(column);
-            z[j] = standardise(column);
-        }
-        return z;
-    }
-
-    /** Standard normal raw columns (added to {@code raw}), returned standardised. */
-    private static double[][] columns(int count, int n, ZigguratSampler.NormalizedGaussian normal, List<double[]> raw) {
-        double[][] z = new double[count][];
-        for (int j = 0; j < count; j++) {
-            double[] column = new double[n];
-            for (int i = 0; i < n; i++) {
-                column[i] = normal.sample();
+                column[i] = draw.getAsDouble();
             }
             raw.add(column);
             z[j] = standardise(column);
