@@ -18,6 +18,7 @@ import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 import org.rungs.models.ModelSpec;
 import org.rungs.models.NumberAttraction;
+import org.rungs.models.RoundingChannel;
 import org.rungs.models.StyleClasses;
 import org.rungs.models.ThresholdMode;
 import org.rungs.models.survey.Covariates;
@@ -95,6 +96,33 @@ final class CheckpointTest {
         AtomicBoolean stop = new AtomicBoolean();
         assertTrue(Fitter.fit(survey(), attraction, SETTINGS, stopAt(45, stop), stop, Checkpoints.start(here, RARELY)).interrupted());
         FitResult resumed = Fitter.fit(survey(), attraction, SETTINGS, ProgressListener.NONE, new AtomicBoolean(),
+                Checkpoints.resume(here, RARELY));
+        assertSameDraws(reference, resumed.draws());
+    }
+
+    /**
+     * The same with a 0/1 style covariate, whose two rows put the sweep on the counted class moves
+     * without probit latents and on the force's tables per row (ChainState.styleRows).
+     */
+    @Test
+    void resumingAnAttractionFitWithACategoricalStyleCovariateReproducesItsDraws() {
+        Survey plain = survey();
+        double[] w = new double[plain.size()];
+        for (int i = 0; i < w.length; i++) {
+            w[i] = i % 3 == 0 ? 1 : 0;
+        }
+        Survey survey = Survey.of(plain.scale(), plain.category(), plain.group(), List.of("north", "south", "east", "west"),
+                plain.level(), Covariates.fromNumeric(List.of("w"), List.of(w)), null);
+        int[] numbers = {2, 4};
+        ChainState state = new ChainState(SurveyOrder.of(survey, true), true,
+                RoundingChannel.of(survey.scale(), RoundingChannel.defaultPoints(survey.scale())), numbers);
+        assertEquals(2, state.styleRows.count());
+        ModelSpec attraction = spec().withAttraction(NumberAttraction.of(numbers));
+        Draws reference = Fitter.fit(survey, attraction, SETTINGS, ProgressListener.NONE, new AtomicBoolean(), Checkpoints.none()).draws();
+        Path here = dir.resolve("categorical");
+        AtomicBoolean stop = new AtomicBoolean();
+        assertTrue(Fitter.fit(survey, attraction, SETTINGS, stopAt(45, stop), stop, Checkpoints.start(here, RARELY)).interrupted());
+        FitResult resumed = Fitter.fit(survey, attraction, SETTINGS, ProgressListener.NONE, new AtomicBoolean(),
                 Checkpoints.resume(here, RARELY));
         assertSameDraws(reference, resumed.draws());
     }
