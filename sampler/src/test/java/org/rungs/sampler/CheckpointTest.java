@@ -102,7 +102,8 @@ final class CheckpointTest {
 
     /**
      * The same with a 0/1 style covariate, whose two rows put the sweep on the counted class moves
-     * without probit latents and on the force's tables per row (ChainState.styleRows).
+     * without probit latents and on the force's tables per row (ChainState.styleRows); on one
+     * thread too, the same draws.
      */
     @Test
     void resumingAnAttractionFitWithACategoricalStyleCovariateReproducesItsDraws() {
@@ -119,6 +120,9 @@ final class CheckpointTest {
         assertEquals(2, state.styleRows.count());
         ModelSpec attraction = spec().withAttraction(NumberAttraction.of(numbers));
         Draws reference = Fitter.fit(survey, attraction, SETTINGS, ProgressListener.NONE, new AtomicBoolean(), Checkpoints.none()).draws();
+        SamplerSettings oneThread = new SamplerSettings(2, 30, 40, 17L, 1);
+        assertSameDraws(reference, Fitter.fit(survey, attraction, oneThread, ProgressListener.NONE, new AtomicBoolean(),
+                Checkpoints.none()).draws());
         Path here = dir.resolve("categorical");
         AtomicBoolean stop = new AtomicBoolean();
         assertTrue(Fitter.fit(survey, attraction, SETTINGS, stopAt(45, stop), stop, Checkpoints.start(here, RARELY)).interrupted());
