@@ -163,8 +163,6 @@ final class CollapsedPosterior {
     private final double[] rowGradZeta;
     /** Per style row: its class probit in the current group ({@link #buildAnswers}). */
     private final double[] rowZeta;
-    /** Respondents per (group, answer), at g * M + r. */
-    private final int[] cellCount;
     /** Scratch of {@link #answer}: d log P / d a[g,k] by position in the attraction set, and d log P / d zeta. */
     private final double[] answerAttraction;
     /** Scratch of {@link #etaRange}. */
@@ -290,10 +288,6 @@ final class CollapsedPosterior {
         probability = new double[m];
         grid = attracted.length > 0 ? new NormaliserGrid(m, attracted) : null;
         answerAttraction = new double[attracted.length];
-        cellCount = new int[groups * m];
-        for (int i = 0; i < state.size; i++) {
-            cellCount[state.group[i] * m + state.category[i]]++;
-        }
         StyleRows distinct = state.styleRows;
         styleRows = styleCount == 0 ? new double[1][0] : distinct == null ? null : distinct.values();
         styleRow = distinct == null ? null : distinct.number();
