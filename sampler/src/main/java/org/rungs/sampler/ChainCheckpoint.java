@@ -25,13 +25,14 @@ import org.rungs.posteriors.Draws;
  */
 final class ChainCheckpoint implements Closeable {
     /**
-     * "RUNGSCK7": marks the file and its format (3: the joint Hamiltonian step's state in the
+     * "RUNGSCK8": marks the file and its format (3: the joint Hamiltonian step's state in the
      * sweep; 4: under attraction, the counters of {@link BoundedRedrawSteps} and the attraction
      * update's block-move scale and warm-up sums; 5: the joint step's leapfrog and wall counts;
      * 6: the attraction update's count of warm-up sweeps, for its hold at the start; 7: the
-     * trade step's scale and count, {@link AttractionTradeUpdate}).
+     * trade step's scale and count, {@link AttractionTradeUpdate}; 8: the joint step's kept
+     * warm-up states instead of their sums, and its change of variables, {@link CoordinateWarp}).
      */
-    private static final long MAGIC = 0x52554E4753434B37L;
+    private static final long MAGIC = 0x52554E4753434B38L;
 
     /** Iterations done (warm-up included) and kept draws at a save. */
     record Position(int iterations, int kept) {

@@ -90,11 +90,26 @@ final class CheckpointTest {
      */
     @Test
     void resumingAnAttractionFitReproducesItsDraws() {
+        assertAttractionFitResumes(45);
+    }
+
+    /**
+     * Stopped in warm-up between the joint step's build (iteration 15) and its last refit (26),
+     * where under attraction it has kept warm-up states for the refit and its change of variables
+     * ({@link CoordinateWarp}): resumed, the chains give the uninterrupted fit's draws.
+     */
+    @Test
+    void resumingAnAttractionFitStoppedInWarmupReproducesItsDraws() {
+        assertAttractionFitResumes(24);
+    }
+
+    /** An attraction fit stopped after chain 0's iteration {@code at} and resumed gives the uninterrupted fit's draws. */
+    private void assertAttractionFitResumes(int at) {
         ModelSpec attraction = spec().withAttraction(NumberAttraction.of(2, 4));
         Draws reference = Fitter.fit(survey(), attraction, SETTINGS, ProgressListener.NONE, new AtomicBoolean(), Checkpoints.none()).draws();
-        Path here = dir.resolve("attraction");
+        Path here = dir.resolve("attraction-" + at);
         AtomicBoolean stop = new AtomicBoolean();
-        assertTrue(Fitter.fit(survey(), attraction, SETTINGS, stopAt(45, stop), stop, Checkpoints.start(here, RARELY)).interrupted());
+        assertTrue(Fitter.fit(survey(), attraction, SETTINGS, stopAt(at, stop), stop, Checkpoints.start(here, RARELY)).interrupted());
         FitResult resumed = Fitter.fit(survey(), attraction, SETTINGS, ProgressListener.NONE, new AtomicBoolean(),
                 Checkpoints.resume(here, RARELY));
         assertSameDraws(reference, resumed.draws());

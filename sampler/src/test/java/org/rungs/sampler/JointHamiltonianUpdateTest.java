@@ -33,6 +33,25 @@ class JointHamiltonianUpdateTest {
     }
 
     /**
+     * Whatever the warm-up's length, the step keeps its warm-up states within its store (with a
+     * store of one row, a warm-up of 2 to 15 sweeps overran it) and then samples: attraction on,
+     * so that the refits fit the change of variables too.
+     */
+    @Test
+    void everyLengthOfWarmupRuns() {
+        for (int warmup = 2; warmup <= 40; warmup++) {
+            ChainState s = CollapsedPosteriorTest.state(true, true, true, 6);
+            JointHamiltonianUpdate step = JointHamiltonianUpdate.of(s, Priors.defaults(), warmup,
+                    RandomSource.XO_RO_SHI_RO_128_PP.create(warmup));
+            for (int sweep = 0; sweep < warmup; sweep++) {
+                step.update(true);
+            }
+            step.update(false);
+            assertTrue(step.acceptanceRate() >= 0, "warm-up " + warmup);
+        }
+    }
+
+    /**
      * Under attraction the step's density passes leave each respondent's cdfs at the state the
      * step keeps, bit for bit those that the threshold update computes (which then skips them),
      * and its N_i of MODEL.md 4b, sum_k pi_k exp(a[g,k]), within 1e-12 relative of the sum term by
