@@ -41,7 +41,7 @@ import org.rungs.priors.Priors;
  * on the step runs in its coordinates: the logarithm of the attractions' spread has a long lower
  * tail (the neck of the funnel that the non-centred coordinates only narrow) which the map folds
  * in. On the attraction demo the slowest bulk ESS (each time attraction_sd's) went from 887, 869,
- * 769, 612 to 1113, 848, 854, 997 on seeds 1 to 4, in the same time; on the coarse demo without
+ * 769, 612 to 825, 934, 955, 967 on seeds 1 to 4, in the same time; on the coarse demo without
  * attraction it fell (seed 4 ended "not converged"), so there the map stays the identity.
  * Trajectories are about one unit long in the metric's scale on
  * average: the step size jittered by +-10% and the number of leapfrog steps drawn uniformly from
@@ -103,7 +103,7 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
     /** Lower Cholesky factor R of the metric's precision R R', row-major; the momentum has covariance R R'. */
     private final double[] factor;
     private boolean built;
-    /** Warm-up sweeps at which the draws since the build replace the metric; the draws' sums. */
+    /** Warm-up sweeps at which the draws since the build replace the metric. */
     private final int refitAt;
     private final int lastRefitAt;
     /** Warm-up states since the build, in theta, row by row: every {@link #storeStride}-th, at most {@link #STORED} rows. */
