@@ -67,6 +67,12 @@ class IndependentPosteriorTest {
         compare(counts, true, 20261204L);
     }
 
+    /** The answer on 0..4 of a respondent at {@code latent} (cut points -1.2, -0.4, 0.4, 1.2), rounded to 0, 2 or 4 if coarse. */
+    private static byte reported(double latent, boolean coarse) {
+        int k = latent < -1.2 ? 0 : latent < -0.4 ? 1 : latent < 0.4 ? 2 : latent < 1.2 ? 3 : 4;
+        return (byte) (coarse ? (k <= 1 ? 0 : k >= 3 ? 4 : 2) : k);
+    }
+
     /**
      * One group on 0..4 with a numeric level covariate and a numeric style covariate, 24
      * respondents (drawn once here, seeded): MODEL.md 1's internal scale (centred, divided by the
@@ -85,9 +91,7 @@ class IndependentPosteriorTest {
             income[i] = 20 + 30 * data.nextDouble();
             schooling[i] = 8 + data.nextInt(9);
             double latent = 0.04 * (income[i] - 35) + data.nextGaussian();
-            int k = latent < -1.2 ? 0 : latent < -0.4 ? 1 : latent < 0.4 ? 2 : latent < 1.2 ? 3 : 4;
-            boolean coarse = data.nextDouble() < 0.5 - 0.04 * (schooling[i] - 8);
-            category[i] = (byte) (coarse ? (k <= 1 ? 0 : k >= 3 ? 4 : 2) : k);
+            category[i] = reported(latent, data.nextDouble() < 0.5 - 0.04 * (schooling[i] - 8));
         }
         double[] x = standardised(income);
         double[] w = standardised(schooling);
@@ -125,9 +129,7 @@ class IndependentPosteriorTest {
         for (int i = 0; i < n; i++) {
             schooling[i] = data.nextInt(2);
             double latent = data.nextGaussian();
-            int k = latent < -1.2 ? 0 : latent < -0.4 ? 1 : latent < 0.4 ? 2 : latent < 1.2 ? 3 : 4;
-            boolean coarse = data.nextDouble() < 0.5 - 0.3 * schooling[i];
-            category[i] = (byte) (coarse ? (k <= 1 ? 0 : k >= 3 ? 4 : 2) : k);
+            category[i] = reported(latent, data.nextDouble() < 0.5 - 0.3 * schooling[i]);
         }
         double[] w = standardised(schooling);
         double[] start = {0, -1, -1.5, -0.5, 0.5, 0, 0, 0};

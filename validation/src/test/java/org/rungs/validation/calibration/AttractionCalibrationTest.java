@@ -40,10 +40,8 @@ class AttractionCalibrationTest {
      */
     @Test
     void completeModelWithoutStyleCovariatesIsCalibrated(@TempDir Path dir) {
-        CalibrationSummary s = SbcRuns.run(CalibrationConfig.attraction(16L, 40).withStyleCovariates(0), dir);
-        assertEquals(40, s.results().size());
-        assertEquals(43, s.verdicts().size(), "44 quantities of the model above less the style coefficient");
-        assertTrue(s.failed().isEmpty(), SbcRuns.report(s));
+        assertCalibrated(CalibrationConfig.attraction(16L, 40).withStyleCovariates(0), 40, 43,
+                "44 quantities of the model above less the style coefficient", dir);
     }
 
     /**
@@ -57,9 +55,14 @@ class AttractionCalibrationTest {
      */
     @Test
     void completeModelWithACategoricalStyleCovariateIsCalibrated(@TempDir Path dir) {
-        CalibrationSummary s = SbcRuns.run(CalibrationConfig.attraction(17L, 30).withStyleLevels(2), dir);
-        assertEquals(30, s.results().size());
-        assertEquals(44, s.verdicts().size(), "as the first test");
+        assertCalibrated(CalibrationConfig.attraction(17L, 30).withStyleLevels(2), 30, 44, "as the first test", dir);
+    }
+
+    /** Runs the calibration: every replication done, {@code quantities} verdicts, none failed. */
+    private static void assertCalibrated(CalibrationConfig config, int replications, int quantities, String why, Path dir) {
+        CalibrationSummary s = SbcRuns.run(config, dir);
+        assertEquals(replications, s.results().size());
+        assertEquals(quantities, s.verdicts().size(), why);
         assertTrue(s.failed().isEmpty(), SbcRuns.report(s));
     }
 
