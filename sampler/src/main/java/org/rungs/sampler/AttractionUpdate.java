@@ -132,10 +132,8 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
      * group, node and threshold the cdf at the node.
      */
     static final int RIDGE_NODES = 160;
-    private final double[] ridgeLow;
-    private final double[] ridgeSpacing;
-    private final int[] ridgeCount;
-    private final double[] ridgeWeight;
+    private final CubicSpread ridges;
+    private final CubicSpread.Values etaValues;
     /** Per group and node: the full-scale respondents' weights summed over the answers. */
     private final double[] ridgeTotal;
     private final double[] ridgeCdf;
@@ -194,10 +192,8 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
         this.nodeCdf = new double[m + 1];
         this.nodeDensity = new double[m + 1];
         this.blockShareSlope = new double[count];
-        this.ridgeLow = new double[state.groups];
-        this.ridgeSpacing = new double[state.groups];
-        this.ridgeCount = new int[state.groups];
-        this.ridgeWeight = new double[state.groups * 2 * m * RIDGE_NODES];
+        this.ridges = new CubicSpread(state.groups, m, RIDGE_NODES);
+        this.etaValues = i -> eta[i];
         this.ridgeCdf = new double[state.groups * RIDGE_NODES * (m + 1)];
         this.ridgeTotal = new double[state.groups * RIDGE_NODES];
         for (int j = 0; j < attracted.length; j++) {
@@ -382,52 +378,22 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
     }
 
     /**
-     * Spreads every respondent of each group over the four nearest nodes of the group's grid of
-     * latent levels with the cubic Lagrange weights of its eta, by class and answer, so that a
-     * sum over respondents of a smooth function of eta is a sum over nodes (error of order
-     * spacing^4 times its fourth derivative); then the cdfs at the nodes.
+     * Spreads every respondent of each group over the nodes of the group's grid of latent levels
+     * by its eta ({@link CubicSpread}); then the cdfs at the nodes.
      */
     private void tabulateRidges() {
         ChainState s = state;
         int m = s.categories;
-        java.util.Arrays.fill(ridgeWeight, 0);
         for (int g = 0; g < s.groups; g++) {
-            int from = s.start[g * m];
-            int to = s.start[(g + 1) * m];
-            double low = Double.POSITIVE_INFINITY;
-            double high = Double.NEGATIVE_INFINITY;
-            for (int i = from; i < to; i++) {
-                low = Math.min(low, eta[i]);
-                high = Math.max(high, eta[i]);
-            }
-            if (low > high) {
-                ridgeCount[g] = 0;
+            ridges.spread(s, g, etaValues);
+            if (ridges.count[g] == 0) {
                 continue;
             }
-            double h = Math.max(NormaliserGrid.SPACING, (high - low) / (RIDGE_NODES - 4));
-            int nodes = Math.min(RIDGE_NODES, (int) Math.ceil((high - low) / h) + 4);
-            ridgeLow[g] = low;
-            ridgeSpacing[g] = h;
-            ridgeCount[g] = nodes;
-            for (int i = from; i < to; i++) {
-                double x = (eta[i] - low) / h;
-                int j = Math.min(nodes - 4, (int) x);
-                double t = x - j;
-                // node j + 1 lies at low + j h: the basis on the nodes at t = -1, 0, 1, 2
-                int at = ((g * 2 + (coarse(i) ? 1 : 0)) * m + s.category[i]) * RIDGE_NODES + j;
-                double a = t + 1;
-                double b = t - 1;
-                double c = t - 2;
-                ridgeWeight[at] -= t * b * c / 6;
-                ridgeWeight[at + 1] += a * b * c / 2;
-                ridgeWeight[at + 2] -= a * t * c / 2;
-                ridgeWeight[at + 3] += a * t * b / 6;
-            }
-            int full = g * 2 * m * RIDGE_NODES;
-            for (int node = 0; node < nodes; node++) {
+            int full = ridges.first(g, 0, 0);
+            for (int node = 0; node < ridges.count[g]; node++) {
                 double total = 0;
                 for (int r = 0; r < m; r++) {
-                    total += ridgeWeight[full + r * RIDGE_NODES + node];
+                    total += ridges.weight[full + r * RIDGE_NODES + node];
                 }
                 ridgeTotal[g * RIDGE_NODES + node] = total;
             }
@@ -440,8 +406,8 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
         ChainState s = state;
         int m = s.categories;
         int row = g * (m + 1);
-        for (int node = 0; node < ridgeCount[g]; node++) {
-            double x = ridgeLow[g] + (node - 1) * ridgeSpacing[g];
+        for (int node = 0; node < ridges.count[g]; node++) {
+            double x = ridges.node(g, node);
             int at = (g * RIDGE_NODES + node) * (m + 1);
             ridgeCdf[at + m] = 1;
             for (int k = first; k <= last; k++) {
@@ -469,10 +435,10 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
             scratch[k] += h;
             scratch[k + 1] -= h;
             double excessAfter = Math.expm1(s.attraction[base + k] + e);
-            int full = g * 2 * m * RIDGE_NODES;
-            int coarseClass = full + m * RIDGE_NODES;
-            for (int node = 0; node < ridgeCount[g]; node++) {
-                double x = ridgeLow[g] + (node - 1) * ridgeSpacing[g];
+            int full = ridges.first(g, 0, 0);
+            int coarseClass = ridges.first(g, 1, 0);
+            for (int node = 0; node < ridges.count[g]; node++) {
+                double x = ridges.node(g, node);
                 int at = (g * RIDGE_NODES + node) * stride;
                 double weight = ridgeTotal[g * RIDGE_NODES + node];
                 if (weight != 0) {
@@ -488,13 +454,13 @@ final class AttractionUpdate implements Update, Checkpointed, SliceSampler.LogDe
                             + (highAfter - lowAfter) * excessAfter - (high - low) * excess[base + k]
                             + (high - highAfter) * excess[base + k + 1];
                     change += weight * Math.log(n / moved)
-                            + ownChange(ridgeWeight[full + (k - 1) * RIDGE_NODES + node], low - below, lowAfter - below)
-                            + ownChange(ridgeWeight[full + k * RIDGE_NODES + node], high - low, highAfter - lowAfter)
-                            + ridgeWeight[full + k * RIDGE_NODES + node] * e
-                            + ownChange(ridgeWeight[full + (k + 1) * RIDGE_NODES + node], above - high, above - highAfter);
+                            + ownChange(ridges.weight[full + (k - 1) * RIDGE_NODES + node], low - below, lowAfter - below)
+                            + ownChange(ridges.weight[full + k * RIDGE_NODES + node], high - low, highAfter - lowAfter)
+                            + ridges.weight[full + k * RIDGE_NODES + node] * e
+                            + ownChange(ridges.weight[full + (k + 1) * RIDGE_NODES + node], above - high, above - highAfter);
                 }
                 for (int r = 0; channel != null && r < m; r++) {
-                    double w = ridgeWeight[coarseClass + r * RIDGE_NODES + node];
+                    double w = ridges.weight[coarseClass + r * RIDGE_NODES + node];
                     if (w != 0 && (channel.dependsOn(r, k) || channel.dependsOn(r, k + 1))) {
                         change += ownChange(w, ResponseLikelihood.coarse(channel, t, row, r, x, -1, 0),
                                 ResponseLikelihood.coarse(channel, scratch, 0, r, x, -1, 0));

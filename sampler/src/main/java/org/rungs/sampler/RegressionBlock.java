@@ -48,6 +48,15 @@ final class RegressionBlock implements Checkpointed {
         this.extraGram = new double[count][count];
     }
 
+    /** x_i' coefficient, respondent i's level without its group's intercept. */
+    double covariatePart(int i) {
+        double e = 0;
+        for (int j = 0; j < count; j++) {
+            e += columns[j][i] * coefficient[j];
+        }
+        return e;
+    }
+
     /** intercept[g] + x_i' coefficient for respondent i of group g. */
     double linear(int i, int g) {
         double e = intercept[g];
