@@ -88,11 +88,12 @@ final class AttractionTradeUpdate implements Update, Checkpointed {
     private final double[] oddsBefore;
     private double logScale = Math.log(0.3);
     private int warmupSteps;
-    /** The first stage's grid in x'beta ({@link #tabulate}), at most this many nodes per group; scratch for the cdfs at a node. */
+    /** The first stage's grid in x'beta ({@link #tabulate}), at most this many nodes per group; scratch for the cdfs at a node and a group's exp(a) - 1. */
     static final int NODES = 160;
     private final CubicSpread grid;
     private final CubicSpread.Values covariatePart;
     private final double[] nodeCdf;
+    private final double[] nodeExcess;
 
     private AttractionTradeUpdate(ChainState state, Priors priors, UniformRandomProvider rng, double maxRange) {
         this.state = state;
@@ -116,6 +117,7 @@ final class AttractionTradeUpdate implements Update, Checkpointed {
         this.grid = new CubicSpread(state.groups, m, NODES);
         this.covariatePart = state.level::covariatePart;
         this.nodeCdf = new double[m + 1];
+        this.nodeExcess = new double[m];
     }
 
     /** The step, or null where it does not apply (attraction off, shared thresholds or one group). */
@@ -265,6 +267,9 @@ final class AttractionTradeUpdate implements Update, Checkpointed {
             int at = g * m;
             int full = grid.first(g, 0, 0);
             int coarseClass = grid.first(g, 1, 0);
+            for (int k : s.attracted) {
+                nodeExcess[k] = Math.expm1(attraction[at + k]);
+            }
             for (int node = 0; node < grid.count[g]; node++) {
                 double eta = intercept[g] + grid.low[g] + (node - 1) * grid.spacing[g];
                 for (int k = 1; k < m; k++) {
@@ -272,7 +277,7 @@ final class AttractionTradeUpdate implements Update, Checkpointed {
                 }
                 double norm = 1;
                 for (int k : s.attracted) {
-                    norm += (nodeCdf[k + 1] - nodeCdf[k]) * Math.expm1(attraction[at + k]);
+                    norm += (nodeCdf[k + 1] - nodeCdf[k]) * nodeExcess[k];
                 }
                 double logNorm = Math.log(norm);
                 for (int r = 0; r < m; r++) {
