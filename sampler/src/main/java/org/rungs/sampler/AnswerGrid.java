@@ -5,8 +5,9 @@ package org.rungs.sampler;
  * mean eta on equally spaced nodes and read by four-point Lagrange interpolation: the leapfrog
  * force of {@link CollapsedPosterior#force} on large surveys, where every respondent of a
  * (group, answer) cell has the same class probit (without style covariates; under attraction,
- * one table per row of categorical style covariates) and so a log-likelihood that depends on eta
- * alone (MODEL.md 4c). Between nodes j and j+1 the interpolant through nodes
+ * one table per row of categorical style covariates for the coarse points, and one for all rows
+ * for the other answers, whose gradient depends on the row only through d log P / d zeta) and so
+ * a log-likelihood that depends on eta alone (MODEL.md 4c). Between nodes j and j+1 the interpolant through nodes
  * j-1..j+2 is a cubic in s = (eta - node j) / h, so a respondent reads d log P / d eta as that
  * cubic's value (Horner) and adds 1, s, s^2, s^3 to the interval's power sums; {@link #flush}
  * turns those sums into the nodes' interpolation weights and the gradient in the group's

@@ -163,6 +163,23 @@ final class CollapsedPosterior {
     private final double[] rowGradZeta;
     /** Per style row: its class probit in the current group ({@link #buildAnswers}). */
     private final double[] rowZeta;
+    /** Per style row: its class probability Phi(zeta) and density phi(zeta) in the current group. */
+    private final double[] rowQ;
+    private final double[] rowPhi;
+    /** Per style row: whether its class probit lets the current group's respondents of the row read a table. */
+    private final boolean[] rowUsable;
+    /**
+     * With several rows of style covariates: one table for the answers that are not coarse
+     * points, read by every row (their gradient does not depend on the class probit but through
+     * d log P / d zeta = -phi / (1 - Phi), a constant per row); null otherwise.
+     */
+    private final AnswerGrid plainAnswers;
+    /** Whether {@link #buildAnswers} tabulated some answer in {@link #plainAnswers} for the current group. */
+    private boolean plainBuilt;
+    /** Per style row: the current group's respondents of the row read from {@link #plainAnswers}. */
+    private final double[] rowPlainCount;
+    /** Respondents the last {@link #force} read from answer tables. */
+    private int tableReads;
     /** Scratch of {@link #answer}: d log P / d a[g,k] by position in the attraction set, and d log P / d zeta. */
     private final double[] answerAttraction;
     /** Scratch of {@link #etaRange}. */
@@ -308,6 +325,11 @@ final class CollapsedPosterior {
         rowBuilt = new boolean[answers == null ? 0 : answers.length];
         rowGradZeta = new double[rowBuilt.length];
         rowZeta = new double[rowBuilt.length];
+        rowQ = new double[rowBuilt.length];
+        rowPhi = new double[rowBuilt.length];
+        rowUsable = new boolean[rowBuilt.length];
+        rowPlainCount = new double[rowBuilt.length];
+        plainAnswers = styleRow != null && channel != null ? new AnswerGrid(m, attracted.length) : null;
         levelLow = new double[groups * levelCount];
         levelHigh = new double[groups * levelCount];
         java.util.Arrays.fill(levelLow, Double.POSITIVE_INFINITY);
@@ -580,6 +602,11 @@ final class CollapsedPosterior {
         return grid != null || answers != null;
     }
 
+    /** How many respondents the last {@link #force} read from answer tables (for tests). */
+    int lastForceTableReads() {
+        return tableReads;
+    }
+
     /** Whether {@link #force} may read (group, answer) cells from answer tables ({@link AnswerGrid}). */
     boolean readsAnswerTables() {
         return answers != null;
@@ -802,6 +829,7 @@ final class CollapsedPosterior {
         lastZeta = Double.NaN;
         product = 1;
         productExponent = 0;
+        tableReads = 0;
         for (int g = 0; g < groups; g++) {
             boolean answersBuilt = answers != null && buildAnswers(g);
             boolean gridBuilt = grid != null && (!answersBuilt || !allOn(g)) && buildGrid(g);
@@ -817,6 +845,7 @@ final class CollapsedPosterior {
                 } else if (styleRow == null) {
                     if (answers[0].on(r)) {
                         gradAlpha[g] += answers[0].read(r, x, beta, levelCount, alpha[g], from, to, gradBeta);
+                        tableReads += to - from;
                     } else {
                         total += forceCell(g, r, from, to, floor, gridBuilt);
                     }
@@ -828,8 +857,13 @@ final class CollapsedPosterior {
                         while (end < to && styleRow[end] == q) {
                             end++;
                         }
-                        if (rowBuilt[q] && answers[q].on(r)) {
+                        if (plainBuilt && rowUsable[q] && plainAnswers.on(r)) {
+                            gradAlpha[g] += plainAnswers.read(r, x, beta, levelCount, alpha[g], i, end, gradBeta);
+                            rowPlainCount[q] += end - i;
+                            tableReads += end - i;
+                        } else if (rowBuilt[q] && answers[q].on(r)) {
                             gradAlpha[g] += answers[q].read(r, x, beta, levelCount, alpha[g], i, end, gradBeta);
+                            tableReads += end - i;
                         } else {
                             total += forceCell(g, r, i, end, floor, gridBuilt);
                         }
@@ -1469,18 +1503,35 @@ final class CollapsedPosterior {
      * {@link #answerGradZeta}.
      */
     private double answer(int g, int r, double zeta, boolean grad) {
-        double pi = category(r);
-        if (!(pi > PLAIN_FLOOR)) {
-            return Double.NaN;
-        }
+        double q = classProbit(zeta);
+        return answer(g, r, q, lastPhi, normaliser(g), grad);
+    }
+
+    /**
+     * {@link #probability} of each attracted number and the normaliser N of MODEL.md 4b in group g at
+     * the latent level whose tails {@link #fillTails} left; shared by every answer at that level.
+     */
+    private double normaliser(int g) {
         int row = g * m;
         double normaliser = 1;
         for (int k : attracted) {
             probability[k] = category(k);
             normaliser += probability[k] * (odds[row + k] - 1);
         }
+        return normaliser;
+    }
+
+    /**
+     * {@link #answer(int, int, double, boolean)} with the class probability q = Phi(zeta), its
+     * density phi and the {@link #normaliser} given.
+     */
+    private double answer(int g, int r, double q, double phi, double normaliser, boolean grad) {
+        double pi = category(r);
+        if (!(pi > PLAIN_FLOOR)) {
+            return Double.NaN;
+        }
+        int row = g * m;
         double full = pi * odds[row + r] / normaliser;
-        double q = classProbit(zeta);
         boolean point = channel != null && channel.isPoint(r);
         double coarse = 0;
         double likelihood = (1 - q) * full;
@@ -1521,7 +1572,7 @@ final class CollapsedPosterior {
         }
         answerGradZeta = 0;
         if (channel != null) {
-            answerGradZeta = point ? lastPhi * (coarse - full) / likelihood : -lastPhi / (1 - q);
+            answerGradZeta = point ? phi * (coarse - full) / likelihood : -phi / (1 - q);
         }
         return likelihood;
     }
@@ -1541,13 +1592,23 @@ final class CollapsedPosterior {
             answers[0].flush(attracted, gradRows, g * (m + 1), gradAttraction, g * m, channel == null ? null : gradGamma, g);
             return;
         }
+        if (plainBuilt) {
+            plainAnswers.flush(attracted, gradRows, g * (m + 1), gradAttraction, g * m, null, g);
+        }
         // d zeta / d delta_p is the row's covariate p
         for (int q = 0; q < answers.length; q++) {
-            if (!rowBuilt[q]) {
+            rowGradZeta[q] = 0;
+            if (rowPlainCount[q] > 0) {
+                // d log P / d zeta = -phi / (1 - Phi) for every answer that is not a coarse point
+                rowGradZeta[q] = rowPlainCount[q] * (-rowPhi[q] / (1 - rowQ[q]));
+                rowPlainCount[q] = 0;
+            }
+            if (rowBuilt[q]) {
+                answers[q].flush(attracted, gradRows, g * (m + 1), gradAttraction, g * m, rowGradZeta, q);
+            }
+            if (rowGradZeta[q] == 0) {
                 continue;
             }
-            rowGradZeta[q] = 0;
-            answers[q].flush(attracted, gradRows, g * (m + 1), gradAttraction, g * m, rowGradZeta, q);
             gradGamma[g] += rowGradZeta[q];
             for (int p = 0; p < styleCount; p++) {
                 gradDelta[p] += rowGradZeta[q] * styleRows[q][p];
@@ -1588,64 +1649,101 @@ final class CollapsedPosterior {
     private boolean buildAnswers(int g) {
         etaRange(g);
         int rowCount = answers.length;
+        boolean shared = plainAnswers != null;
         boolean any = false;
+        int nodes = 0;
         for (int q = 0; q < rowCount; q++) {
             AnswerGrid table = answers[q];
             rowBuilt[q] = false;
             rowZeta[q] = rowZeta(g, q);
-            if (Math.abs(rowZeta[q]) > PLAIN_PROBIT || !table.place(range[0], range[1])) {
+            rowUsable[q] = Math.abs(rowZeta[q]) <= PLAIN_PROBIT && table.place(range[0], range[1]);
+            if (!rowUsable[q]) {
                 continue;
             }
-            int nodes = table.nodes();
+            rowQ[q] = classProbit(rowZeta[q]);
+            rowPhi[q] = lastPhi;
+            nodes = table.nodes();
             for (int r = 0; r < m; r++) {
-                boolean large = rowCellCount[(g * rowCount + q) * m + r] >= AnswerGrid.RESPONDENTS_PER_NODE * nodes;
+                boolean large = (!shared || channel.isPoint(r))
+                        && rowCellCount[(g * rowCount + q) * m + r] >= AnswerGrid.RESPONDENTS_PER_NODE * nodes;
                 table.set(r, large);
                 rowBuilt[q] |= large;
             }
             any |= rowBuilt[q];
         }
+        plainBuilt = false;
+        if (shared && nodes > 0) {
+            // every table has the same nodes: place() depends on the range alone
+            plainAnswers.place(range[0], range[1]);
+            for (int r = 0; r < m; r++) {
+                int count = 0;
+                for (int q = 0; q < rowCount && !channel.isPoint(r); q++) {
+                    count += rowUsable[q] ? rowCellCount[(g * rowCount + q) * m + r] : 0;
+                }
+                boolean large = count >= AnswerGrid.RESPONDENTS_PER_NODE * nodes;
+                plainAnswers.set(r, large);
+                plainBuilt |= large;
+            }
+            any |= plainBuilt;
+        }
         if (!any) {
+            plainBuilt = false;
             return false;
         }
         int base = g * (m + 1);
-        // every row's table has the same nodes: place() depends on the range alone
-        int first = 0;
-        while (!rowBuilt[first]) {
-            first++;
+        AnswerGrid placed = plainAnswers;
+        for (int q = rowCount - 1; q >= 0 && !plainBuilt; q--) {
+            placed = rowBuilt[q] ? answers[q] : placed;
         }
-        int nodes = answers[first].nodes();
+        nodes = placed.nodes();
         for (int j = 0; j < nodes; j++) {
-            fillTails(base, answers[first].node(j));
-            for (int q = first; q < rowCount; q++) {
-                if (!rowBuilt[q]) {
-                    continue;
-                }
-                AnswerGrid table = answers[q];
-                double zeta = rowZeta[q];
-                for (int r = 0; r < m; r++) {
-                    if (!table.on(r)) {
-                        continue;
-                    }
-                    if (Double.isNaN(answer(g, r, zeta, true))) {
-                        table.set(r, false);
-                        continue;
-                    }
-                    double gradEta = 0;
-                    for (int k = 1; k < m; k++) {
-                        gradEta -= gradT[k];
-                    }
-                    table.store(r, j, gradEta, gradT, answerAttraction, attracted.length, answerGradZeta);
+            fillTails(base, placed.node(j));
+            double normaliser = normaliser(g);
+            if (plainBuilt) {
+                // the full-scale part is the whole likelihood of these answers in every row (q = 0 here)
+                tabulate(plainAnswers, g, j, 0, 0, normaliser);
+            }
+            for (int q = 0; q < rowCount; q++) {
+                if (rowBuilt[q]) {
+                    tabulate(answers[q], g, j, rowQ[q], rowPhi[q], normaliser);
                 }
             }
         }
+        if (plainBuilt) {
+            finish(plainAnswers);
+        }
         for (int q = 0; q < rowCount; q++) {
-            for (int r = 0; r < m && rowBuilt[q]; r++) {
-                if (answers[q].on(r)) {
-                    answers[q].finish(r);
-                }
+            if (rowBuilt[q]) {
+                finish(answers[q]);
             }
         }
         return true;
+    }
+
+    /** Stores, at node j of the table, the gradient of each answer it reads; an answer whose likelihood is off the probability path is switched off. */
+    private void tabulate(AnswerGrid table, int g, int j, double q, double phi, double normaliser) {
+        for (int r = 0; r < m; r++) {
+            if (!table.on(r)) {
+                continue;
+            }
+            if (Double.isNaN(answer(g, r, q, phi, normaliser, true))) {
+                table.set(r, false);
+                continue;
+            }
+            double gradEta = 0;
+            for (int k = 1; k < m; k++) {
+                gradEta -= gradT[k];
+            }
+            table.store(r, j, gradEta, gradT, answerAttraction, attracted.length, answerGradZeta);
+        }
+    }
+
+    private void finish(AnswerGrid table) {
+        for (int r = 0; r < m; r++) {
+            if (table.on(r)) {
+                table.finish(r);
+            }
+        }
     }
 
     /** The class probit of style row q in group g: gamma[g] plus the row's covariates times delta (0 without classes). */
@@ -1660,12 +1758,13 @@ final class CollapsedPosterior {
         return zeta;
     }
 
-    /** Whether every (style row, answer) of group g with respondents is read from {@link #answers}. */
+    /** Whether every (style row, answer) of group g with respondents is read from {@link #answers} or {@link #plainAnswers}. */
     private boolean allOn(int g) {
         int rowCount = answers.length;
         for (int q = 0; q < rowCount; q++) {
             for (int r = 0; r < m; r++) {
-                if (rowCellCount[(g * rowCount + q) * m + r] > 0 && !(rowBuilt[q] && answers[q].on(r))) {
+                boolean read = rowBuilt[q] && answers[q].on(r) || plainBuilt && rowUsable[q] && plainAnswers.on(r);
+                if (rowCellCount[(g * rowCount + q) * m + r] > 0 && !read) {
                     return false;
                 }
             }

@@ -346,20 +346,48 @@ class CollapsedPosteriorTest {
         for (int values : new int[] {ChainState.STYLE_ROW_LIMIT, ChainState.STYLE_ROW_LIMIT + 1}) {
             CollapsedPosterior posterior = new CollapsedPosterior(state(survey(20_000, values), true, true, true, 2.5), PRIORS);
             assertEquals(values <= ChainState.STYLE_ROW_LIMIT, posterior.readsAnswerTables(), values + " rows");
-            double[] theta = new double[posterior.dimension()];
-            posterior.read(theta);
-            double[] exact = new double[theta.length];
-            double[] force = new double[theta.length];
-            posterior.gradient(theta, exact);
-            posterior.force(theta, force);
-            double largest = 0;
-            for (double v : exact) {
-                largest = Math.max(largest, Math.abs(v));
-            }
-            for (int j = 0; j < theta.length; j++) {
-                assertEquals(exact[j], force[j], 1e-6 * largest, "coordinate " + j + " with " + values + " rows");
-            }
+            assertForceNearTheGradient(posterior, " with " + values + " rows");
         }
+    }
+
+    /** The force at the posterior's state within 1e-6 of the exact gradient in every coordinate, relative to its largest entry. */
+    private static void assertForceNearTheGradient(CollapsedPosterior posterior, String what) {
+        double[] theta = new double[posterior.dimension()];
+        posterior.read(theta);
+        double[] exact = new double[theta.length];
+        double[] force = new double[theta.length];
+        posterior.gradient(theta, exact);
+        posterior.force(theta, force);
+        double largest = 0;
+        for (double v : exact) {
+            largest = Math.max(largest, Math.abs(v));
+        }
+        for (int j = 0; j < theta.length; j++) {
+            assertEquals(exact[j], force[j], 1e-6 * largest, "coordinate " + j + what);
+        }
+    }
+
+    /**
+     * Under attraction with eight rows of style covariates and about 70 respondents per (group,
+     * row, answer), fewer than the 2 per node a row's own table needs, the answers that are not
+     * coarse points are read from one table for all rows (their gradient depends on the class
+     * probit only through d log P / d zeta = -phi / (1 - Phi), a constant per row): every one of
+     * their respondents is read from a table, none of the coarse points', and the force stays
+     * within 1e-6 of the exact gradient relative to its largest entry (as above), the class
+     * coordinates included.
+     */
+    @Test
+    void forceReadsTheAnswersBesideTheCoarsePointsFromOneTableForAllRows() {
+        Survey survey = survey(12_000, 8);
+        ChainState s = state(survey, true, true, true, 2.5);
+        CollapsedPosterior posterior = new CollapsedPosterior(s, PRIORS);
+        int besides = 0;
+        for (int i = 0; i < s.size; i++) {
+            int r = s.category[i];
+            besides += r == 0 || r == 3 || r == 6 ? 0 : 1;
+        }
+        assertForceNearTheGradient(posterior, "");
+        assertEquals(besides, posterior.lastForceTableReads());
     }
 
     /**
