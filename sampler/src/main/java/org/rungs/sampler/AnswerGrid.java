@@ -6,8 +6,9 @@ package org.rungs.sampler;
  * force of {@link CollapsedPosterior#force} on large surveys, where every respondent of a
  * (group, answer) cell has the same class probit (without style covariates; under attraction,
  * one table per row of categorical style covariates for the coarse points, and one for all rows
- * for the other answers, whose gradient depends on the row only through d log P / d zeta) and so
- * a log-likelihood that depends on eta alone (MODEL.md 4c). Between nodes j and j+1 the interpolant through nodes
+ * for the other answers, whose gradient depends on the row only through d log P / d zeta: a lean
+ * table, {@link #AnswerGrid(int, int[])}) and so a log-likelihood that depends on eta alone
+ * (MODEL.md 4c). Between nodes j and j+1 the interpolant through nodes
  * j-1..j+2 is a cubic in s = (eta - node j) / h, so a respondent reads d log P / d eta as that
  * cubic's value (Horner) and adds 1, s, s^2, s^3 to the interval's power sums; {@link #flush}
  * turns those sums into the nodes' interpolation weights and the gradient in the group's
@@ -52,19 +53,48 @@ final class AnswerGrid {
     /** Per answer and node: the sum of the interpolation weights of the respondents read so far, filled by {@link #flush}. */
     private final double[] weight;
     private final boolean[] on;
+    /**
+     * Lean tables ({@link #AnswerGrid(int, int[])}): per node, the part of the gradient that every
+     * answer shares (through the normaliser N of MODEL.md 4b), in the layout of {@link #gradient};
+     * null otherwise, where {@link #gradient} holds each answer's whole gradient.
+     */
+    private final double[] shared;
+    /** Lean tables: per node, the sum of every answer's interpolation weights, filled by {@link #flushLean}. */
+    private final double[] nodeWeight;
+    /** Lean tables: whether each answer is in the attraction set. */
+    private final boolean[] attractedAnswer;
     private double lowest;
     private double spacing;
     private int nodes;
 
     AnswerGrid(int categories, int attracted) {
+        this(categories, categories - 1 + attracted + 1, null);
+    }
+
+    /**
+     * A lean table for answers whose likelihood is the full-scale part alone (weight 1): each
+     * answer keeps only its own two thresholds' gradient per node, and the normaliser's part,
+     * the same for every answer, is kept once per node ({@link #storeShared}).
+     */
+    AnswerGrid(int categories, int[] attracted) {
+        this(categories, 2, attracted);
+    }
+
+    private AnswerGrid(int categories, int width, int[] attracted) {
         this.m = categories;
-        this.width = categories - 1 + attracted + 1;
+        this.width = width;
         this.slope = new double[categories * CAPACITY];
         this.curve = new double[categories * CAPACITY * 4];
         this.power = new double[categories * CAPACITY * 4];
         this.gradient = new double[categories * CAPACITY * width];
         this.weight = new double[categories * CAPACITY];
         this.on = new boolean[categories];
+        this.shared = attracted == null ? null : new double[CAPACITY * (categories - 1 + attracted.length)];
+        this.nodeWeight = attracted == null ? null : new double[CAPACITY];
+        this.attractedAnswer = new boolean[categories];
+        for (int k : attracted == null ? new int[0] : attracted) {
+            attractedAnswer[k] = true;
+        }
     }
 
     /**
@@ -109,6 +139,21 @@ final class AnswerGrid {
         System.arraycopy(thresholds, 1, gradient, at, m - 1);
         System.arraycopy(attractions, 0, gradient, at + m - 1, attracted);
         gradient[at + width - 1] = gradZeta;
+    }
+
+    /** Lean tables: answer r's d log P / d eta at node j, and its own d log P / d(c_t - eta) at its lower and upper threshold. */
+    void storeLean(int r, int j, double gradEta, double lower, double upper) {
+        slope[r * CAPACITY + j] = gradEta;
+        int at = (r * CAPACITY + j) * 2;
+        gradient[at] = lower;
+        gradient[at + 1] = upper;
+    }
+
+    /** Lean tables: the normaliser's part at node j, d log P / d(c_t - eta) for t = 1..M-1 in thresholds[1..], then d log P / d a_k by position. */
+    void storeShared(int j, double[] thresholds, double[] attractions, int attracted) {
+        int at = j * (m - 1 + attracted);
+        System.arraycopy(thresholds, 1, shared, at, m - 1);
+        System.arraycopy(attractions, 0, shared, at + m - 1, attracted);
     }
 
     /** After every node of answer r is stored: the cubic of each interval from the node slopes around it. */
@@ -215,29 +260,76 @@ final class AnswerGrid {
         return curve[v] + s * (curve[v + 1] + s * (curve[v + 2] + s * curve[v + 3]));
     }
 
+    /** Answer r's node weights from its intervals' power sums (into {@link #weight}), the sums cleared. */
+    private void weigh(int r) {
+        for (int j = 1; j <= nodes - 3; j++) {
+            int at = 4 * (r * CAPACITY + j);
+            if (power[at] == 0) {
+                continue;
+            }
+            for (int k = 0; k < 4; k++) {
+                double[] lagrange = LAGRANGE[k];
+                weight[r * CAPACITY + j - 1 + k] += lagrange[0] * power[at] + lagrange[1] * power[at + 1]
+                        + lagrange[2] * power[at + 2] + lagrange[3] * power[at + 3];
+            }
+            java.util.Arrays.fill(power, at, at + 4, 0);
+        }
+    }
+
+    /**
+     * {@link #flush} for lean tables: each answer's own two thresholds and, if attracted, its own
+     * attraction (d log P / d a_r = 1) from its node weights, then the normaliser's part once per
+     * node from every answer's weights together.
+     */
+    void flushLean(int[] attracted, double[] gradRows, int base, double[] gradAttraction, int row) {
+        for (int r = 0; r < m; r++) {
+            if (!on[r]) {
+                continue;
+            }
+            weigh(r);
+            double lower = 0;
+            double upper = 0;
+            double total = 0;
+            for (int j = 0; j < nodes; j++) {
+                int v = r * CAPACITY + j;
+                double w = weight[v];
+                if (w == 0) {
+                    continue;
+                }
+                weight[v] = 0;
+                lower += w * gradient[2 * v];
+                upper += w * gradient[2 * v + 1];
+                total += w;
+                nodeWeight[j] += w;
+            }
+            gradRows[base + r] += lower;
+            gradRows[base + r + 1] += upper;
+            if (attractedAnswer[r]) {
+                gradAttraction[row + r] += total;
+            }
+        }
+        int stride = m - 1 + attracted.length;
+        for (int j = 0; j < nodes; j++) {
+            double w = nodeWeight[j];
+            if (w == 0) {
+                continue;
+            }
+            nodeWeight[j] = 0;
+            add(w, shared, j * stride, attracted, gradRows, base, gradAttraction, row);
+        }
+    }
+
     /**
      * Adds, for every answer read from the grid, the node sums times the tabulated gradients to
      * the thresholds' gradient at gradRows[base + t] (t = 1..M-1), the attractions' at
      * gradAttraction[row + k] and the class intercept's at gradGamma[g] (if not null); clears the sums.
      */
     void flush(int[] attracted, double[] gradRows, int base, double[] gradAttraction, int row, double[] gradGamma, int g) {
-        int na = attracted.length;
         for (int r = 0; r < m; r++) {
             if (!on[r]) {
                 continue;
             }
-            for (int j = 1; j <= nodes - 3; j++) {
-                int at = 4 * (r * CAPACITY + j);
-                if (power[at] == 0) {
-                    continue;
-                }
-                for (int k = 0; k < 4; k++) {
-                    double[] lagrange = LAGRANGE[k];
-                    weight[r * CAPACITY + j - 1 + k] += lagrange[0] * power[at] + lagrange[1] * power[at + 1]
-                            + lagrange[2] * power[at + 2] + lagrange[3] * power[at + 3];
-                }
-                java.util.Arrays.fill(power, at, at + 4, 0);
-            }
+            weigh(r);
             for (int j = 0; j < nodes; j++) {
                 int v = r * CAPACITY + j;
                 double w = weight[v];
@@ -246,16 +338,21 @@ final class AnswerGrid {
                 }
                 weight[v] = 0;
                 int at = v * width;
-                for (int t = 1; t < m; t++) {
-                    gradRows[base + t] += w * gradient[at + t - 1];
-                }
-                for (int p = 0; p < na; p++) {
-                    gradAttraction[row + attracted[p]] += w * gradient[at + m - 1 + p];
-                }
+                add(w, gradient, at, attracted, gradRows, base, gradAttraction, row);
                 if (gradGamma != null) {
                     gradGamma[g] += w * gradient[at + width - 1];
                 }
             }
+        }
+    }
+
+    /** Adds w times the thresholds' and attractions' gradient laid out from source[at] (as {@link #gradient}). */
+    private void add(double w, double[] source, int at, int[] attracted, double[] gradRows, int base, double[] gradAttraction, int row) {
+        for (int t = 1; t < m; t++) {
+            gradRows[base + t] += w * source[at + t - 1];
+        }
+        for (int p = 0; p < attracted.length; p++) {
+            gradAttraction[row + attracted[p]] += w * source[at + m - 1 + p];
         }
     }
 }

@@ -329,7 +329,7 @@ final class CollapsedPosterior {
         rowPhi = new double[rowBuilt.length];
         rowUsable = new boolean[rowBuilt.length];
         rowPlainCount = new double[rowBuilt.length];
-        plainAnswers = styleRow != null && channel != null ? new AnswerGrid(m, attracted.length) : null;
+        plainAnswers = styleRow != null && channel != null ? new AnswerGrid(m, attracted) : null;
         levelLow = new double[groups * levelCount];
         levelHigh = new double[groups * levelCount];
         java.util.Arrays.fill(levelLow, Double.POSITIVE_INFINITY);
@@ -1593,7 +1593,7 @@ final class CollapsedPosterior {
             return;
         }
         if (plainBuilt) {
-            plainAnswers.flush(attracted, gradRows, g * (m + 1), gradAttraction, g * m, null, g);
+            plainAnswers.flushLean(attracted, gradRows, g * (m + 1), gradAttraction, g * m);
         }
         // d zeta / d delta_p is the row's covariate p
         for (int q = 0; q < answers.length; q++) {
@@ -1700,8 +1700,7 @@ final class CollapsedPosterior {
             fillTails(base, placed.node(j));
             double normaliser = normaliser(g);
             if (plainBuilt) {
-                // the full-scale part is the whole likelihood of these answers in every row (q = 0 here)
-                tabulate(plainAnswers, g, j, 0, 0, normaliser);
+                tabulatePlain(g, j, normaliser);
             }
             for (int q = 0; q < rowCount; q++) {
                 if (rowBuilt[q]) {
@@ -1735,6 +1734,41 @@ final class CollapsedPosterior {
                 gradEta -= gradT[k];
             }
             table.store(r, j, gradEta, gradT, answerAttraction, attracted.length, answerGradZeta);
+        }
+    }
+
+    /**
+     * {@link #plainAnswers} at node j: the full-scale part is the whole likelihood of these
+     * answers, so d log P / d(c_t - eta) is the answer's own two thresholds' terms plus the
+     * normaliser's, -phi(c_t - eta) (exp(a_{t-1}) - exp(a_t)) / N, the same for every answer, and
+     * d log P / d a_k is 1 for the answer itself less P_k exp(a_k) / N (as {@link #answer} with
+     * q = 0); an answer whose probability is off the probability path is switched off.
+     */
+    private void tabulatePlain(int g, int j, double normaliser) {
+        int row = g * m;
+        double sum = 0;
+        for (int t = 1; t < m; t++) {
+            double change = odds[row + t - 1] - odds[row + t];
+            gradT[t] = change == 0 ? 0 : -thresholdDensity[t] * change / normaliser;
+            sum += gradT[t];
+        }
+        for (int p = 0; p < attracted.length; p++) {
+            int k = attracted[p];
+            answerAttraction[p] = -probability[k] * odds[row + k] / normaliser;
+        }
+        plainAnswers.storeShared(j, gradT, answerAttraction, attracted.length);
+        for (int r = 0; r < m; r++) {
+            if (!plainAnswers.on(r)) {
+                continue;
+            }
+            double pi = category(r);
+            if (!(pi > PLAIN_FLOOR)) {
+                plainAnswers.set(r, false);
+                continue;
+            }
+            double lower = r > 0 ? -thresholdDensity[r] / pi : 0;
+            double upper = r < m - 1 ? thresholdDensity[r + 1] / pi : 0;
+            plainAnswers.storeLean(r, j, -(sum + lower + upper), lower, upper);
         }
     }
 
