@@ -59,7 +59,7 @@ final class AnswerGrid {
      * null otherwise, where {@link #gradient} holds each answer's whole gradient.
      */
     private final double[] shared;
-    /** Lean tables: per node, the sum of every answer's interpolation weights, filled by {@link #flushLean}. */
+    /** Lean tables: per node, the sum of every answer's interpolation weights, filled by {@link #flush}. */
     private final double[] nodeWeight;
     /** Lean tables: whether each answer is in the attraction set. */
     private final boolean[] attractedAnswer;
@@ -277,11 +277,15 @@ final class AnswerGrid {
     }
 
     /**
-     * {@link #flush} for lean tables: each answer's own two thresholds and, if attracted, its own
-     * attraction (d log P / d a_r = 1) from its node weights, then the normaliser's part once per
-     * node from every answer's weights together.
+     * Adds, for every answer read from the grid, the node sums times the tabulated gradients to
+     * the thresholds' gradient at gradRows[base + t] (t = 1..M-1), the attractions' at
+     * gradAttraction[row + k] and the class intercept's at gradGamma[g] (if not null); clears the
+     * sums. A lean table adds each answer's own two thresholds and, if attracted, its own
+     * attraction (d log P / d a_r = 1), then the normaliser's part once per node from every
+     * answer's weights together.
      */
-    void flushLean(int[] attracted, double[] gradRows, int base, double[] gradAttraction, int row) {
+    void flush(int[] attracted, double[] gradRows, int base, double[] gradAttraction, int row, double[] gradGamma, int g) {
+        boolean lean = shared != null;
         for (int r = 0; r < m; r++) {
             if (!on[r]) {
                 continue;
@@ -297,52 +301,35 @@ final class AnswerGrid {
                     continue;
                 }
                 weight[v] = 0;
-                lower += w * gradient[2 * v];
-                upper += w * gradient[2 * v + 1];
-                total += w;
-                nodeWeight[j] += w;
-            }
-            gradRows[base + r] += lower;
-            gradRows[base + r + 1] += upper;
-            if (attractedAnswer[r]) {
-                gradAttraction[row + r] += total;
-            }
-        }
-        int stride = m - 1 + attracted.length;
-        for (int j = 0; j < nodes; j++) {
-            double w = nodeWeight[j];
-            if (w == 0) {
-                continue;
-            }
-            nodeWeight[j] = 0;
-            add(w, shared, j * stride, attracted, gradRows, base, gradAttraction, row);
-        }
-    }
-
-    /**
-     * Adds, for every answer read from the grid, the node sums times the tabulated gradients to
-     * the thresholds' gradient at gradRows[base + t] (t = 1..M-1), the attractions' at
-     * gradAttraction[row + k] and the class intercept's at gradGamma[g] (if not null); clears the sums.
-     */
-    void flush(int[] attracted, double[] gradRows, int base, double[] gradAttraction, int row, double[] gradGamma, int g) {
-        for (int r = 0; r < m; r++) {
-            if (!on[r]) {
-                continue;
-            }
-            weigh(r);
-            for (int j = 0; j < nodes; j++) {
-                int v = r * CAPACITY + j;
-                double w = weight[v];
-                if (w == 0) {
+                if (lean) {
+                    lower += w * gradient[2 * v];
+                    upper += w * gradient[2 * v + 1];
+                    total += w;
+                    nodeWeight[j] += w;
                     continue;
                 }
-                weight[v] = 0;
                 int at = v * width;
                 add(w, gradient, at, attracted, gradRows, base, gradAttraction, row);
                 if (gradGamma != null) {
                     gradGamma[g] += w * gradient[at + width - 1];
                 }
             }
+            if (lean) {
+                gradRows[base + r] += lower;
+                gradRows[base + r + 1] += upper;
+                if (attractedAnswer[r]) {
+                    gradAttraction[row + r] += total;
+                }
+            }
+        }
+        int stride = m - 1 + attracted.length;
+        for (int j = 0; j < nodes && lean; j++) {
+            double w = nodeWeight[j];
+            if (w == 0) {
+                continue;
+            }
+            nodeWeight[j] = 0;
+            add(w, shared, j * stride, attracted, gradRows, base, gradAttraction, row);
         }
     }
 

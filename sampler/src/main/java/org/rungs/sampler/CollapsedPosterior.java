@@ -1593,7 +1593,7 @@ final class CollapsedPosterior {
             return;
         }
         if (plainBuilt) {
-            plainAnswers.flushLean(attracted, gradRows, g * (m + 1), gradAttraction, g * m);
+            plainAnswers.flush(attracted, gradRows, g * (m + 1), gradAttraction, g * m, null, g);
         }
         // d zeta / d delta_p is the row's covariate p
         for (int q = 0; q < answers.length; q++) {
