@@ -9,7 +9,6 @@ import java.util.Locale;
 import java.util.concurrent.Callable;
 import org.rungs.models.ModelSpec;
 import org.rungs.models.NumberAttraction;
-import org.rungs.models.RoundingChannel;
 import org.rungs.models.StyleClasses;
 import org.rungs.models.ThresholdMode;
 import org.rungs.models.survey.Scale;
@@ -116,15 +115,12 @@ final class CalibrateCommand implements Callable<Integer> {
             ThresholdMode mode = ThresholdMode.parse(thresholds);
             StyleClasses classes = styleClasses(styleClasses, coarsePoints);
             Scale ratings = Scale.parse(scale);
-            if (classes.coarse()) { // rejects bad coarse points before any replication runs
-                RoundingChannel.of(ratings, classes.coarsePoints() != null ? classes.coarsePoints()
-                        : RoundingChannel.defaultPoints(ratings));
-            }
             int q = styleCovariates != null ? styleCovariates : classes.coarse() ? 1 : 0;
             NumberAttraction numbers = NumberAttraction.parse(attraction);
-            numbers.resolve(ratings, classes); // rejects a bad set before any replication runs
+            ModelSpec fitted = new ModelSpec(mode, fit, classes, numbers);
+            fitted.checkRatings(ratings); // rejects bad coarse points or attraction set before any replication runs
             config = new CalibrationConfig(ratings, groups, respondents, covariates, q, styleLevels,
-                    new ModelSpec(mode, simulation, classes, numbers), new ModelSpec(mode, fit, classes, numbers), study.chains, study.warmup,
+                    new ModelSpec(mode, simulation, classes, numbers), fitted, study.chains, study.warmup,
                     study.draws, rankDraws, study.seed, study.replications, alpha);
             slice = shard == null ? Shard.ALL : Shard.parse(shard);
         } catch (IllegalArgumentException e) {

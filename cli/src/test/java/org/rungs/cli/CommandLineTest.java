@@ -275,6 +275,25 @@ final class CommandLineTest {
     }
 
     @Test
+    void ratingsOfTheModelOffTheScaleAreRefusedBeforeAnythingIsWritten() throws IOException {
+        assertInputError("attracted.csv", GOOD, List.of("--rating", "rating", "--attraction", "3,11"),
+                "attraction number 11", "0..10");
+        assertInputError("twice.csv", GOOD, List.of("--rating", "rating", "--attraction", "3,3"),
+                "attraction number 3 is named twice");
+        assertInputError("points.csv", GOOD, List.of("--rating", "rating", "--coarse-points", "0,12"),
+                "coarse point 12", "0..10");
+    }
+
+    @Test
+    void theDemoRefusesAnAttractionOffTheScaleBeforeWritingItsData() throws IOException {
+        Path out = dir.resolve("refused-demo");
+        Run r = rungs("demo", "--attraction", "11", "--out", out.toString(), "--chains", "1", "--warmup", "4", "--draws", "3");
+        assertEquals(Main.INPUT_ERROR, r.exit(), r.err());
+        assertTrue(r.err().contains("attraction number 11"), r.err());
+        assertTrue(absentOrEmpty(out), "output folder was written to");
+    }
+
+    @Test
     void folderHoldingARunNeedsOverwrite() throws IOException {
         Path file = dir.resolve("good.csv");
         Files.writeString(file, GOOD);

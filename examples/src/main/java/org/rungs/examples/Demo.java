@@ -25,6 +25,8 @@ public final class Demo {
     /** Name of the file of the demo's true parameter values. */
     public static final String TRUTH_FILE = "demo-truth.csv";
 
+    private static final Scale SCALE = new Scale(0, 10);
+
     /** A prepared demo fit and the values it should recover. */
     public record Prepared(FitRequest request, Map<String, Double> truth) {
     }
@@ -38,11 +40,12 @@ public final class Demo {
      * @throws IllegalArgumentException if {@code out} holds another run and overwriting was not asked for
      */
     public static Prepared prepare(Path out, boolean overwrite, ModelSpec model, SamplerSettings settings) {
+        model.checkRatings(SCALE);
         OutputFolder folder = OutputFolder.check(out, overwrite);
         SimulatedSurvey data = Simulator.simulate(DemoScenario.scenario(), DemoScenario.SEED);
         Path file = folder.write(SURVEY_FILE, data::writeCsv);
         folder.write(TRUTH_FILE, data::writeTruth);
-        SurveySpec spec = SurveySpec.builder(SimulatedSurvey.RATING_COLUMN, new Scale(0, 10))
+        SurveySpec spec = SurveySpec.builder(SimulatedSurvey.RATING_COLUMN, SCALE)
                 .group(SimulatedSurvey.GROUP_COLUMN)
                 .level(data.covariateNames().toArray(new String[0]))
                 .style(data.styleCovariateNames().toArray(new String[0]))

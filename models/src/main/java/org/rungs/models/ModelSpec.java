@@ -1,5 +1,6 @@
 package org.rungs.models;
 
+import org.rungs.models.survey.Scale;
 import org.rungs.priors.Priors;
 
 /**
@@ -20,6 +21,20 @@ public record ModelSpec(ThresholdMode thresholdMode, Priors priors, StyleClasses
 
     public static ModelSpec defaults() {
         return new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults());
+    }
+
+    /**
+     * Checks the ratings the model names against the survey's scale (the coarse points and the
+     * attraction set), so that a caller can refuse them before writing anything.
+     *
+     * @throws IllegalArgumentException naming the first rating that is off the scale, given twice,
+     *     or otherwise unusable
+     */
+    public void checkRatings(Scale scale) {
+        if (styleClasses.coarse()) {
+            RoundingChannel.of(scale, styleClasses.points(scale));
+        }
+        attraction.resolve(scale, styleClasses);
     }
 
     /** The mode actually used for a survey: group deviations need at least two groups. */

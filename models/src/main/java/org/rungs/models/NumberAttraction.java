@@ -62,7 +62,7 @@ public record NumberAttraction(boolean on, int[] numbers) {
         }
         int[] set;
         if (numbers == null) {
-            int[] points = classes.coarsePoints() != null ? classes.coarsePoints() : RoundingChannel.defaultPoints(scale);
+            int[] points = classes.points(scale);
             set = IntStream.rangeClosed(scale.lowest(), scale.highest())
                     .filter(r -> Arrays.stream(points).noneMatch(p -> p == r)).toArray();
         } else {

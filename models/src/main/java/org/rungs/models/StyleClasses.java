@@ -1,6 +1,7 @@
 package org.rungs.models;
 
 import java.util.Arrays;
+import org.rungs.models.survey.Scale;
 
 /**
  * The response-style classes of MODEL.md 4: off ({@code none}), or a coarse class whose members
@@ -14,6 +15,11 @@ public record StyleClasses(boolean coarse, int[] coarsePoints) {
 
     public static StyleClasses coarse(int[] coarsePoints) {
         return new StyleClasses(true, coarsePoints == null ? null : coarsePoints.clone());
+    }
+
+    /** The coarse points on {@code scale}: the given ones, or the default {L, mid, U}. */
+    public int[] points(Scale scale) {
+        return coarsePoints != null ? coarsePoints : RoundingChannel.defaultPoints(scale);
     }
 
     /** "none", or "coarse" with its points. */

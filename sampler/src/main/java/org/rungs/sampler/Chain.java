@@ -63,7 +63,7 @@ final class Chain implements Checkpointed {
         StyleClasses classes = spec.styleClasses();
         Scale scale = order.survey().scale();
         RoundingChannel channel = classes.coarse()
-                ? RoundingChannel.of(scale, classes.coarsePoints() != null ? classes.coarsePoints() : RoundingChannel.defaultPoints(scale))
+                ? RoundingChannel.of(scale, classes.points(scale))
                 : null;
         int lowest = scale.lowest();
         int[] attracted = java.util.Arrays.stream(spec.attraction().resolve(scale, classes)).map(r -> r - lowest).toArray();

@@ -86,8 +86,7 @@ public final class DerivedQuantities {
         RoundingChannel channel = null;
         StylePartition partition = StylePartition.empty();
         if (coarse) {
-            int[] points = spec.styleClasses().coarsePoints();
-            channel = RoundingChannel.of(survey.scale(), points != null ? points : RoundingChannel.defaultPoints(survey.scale()));
+            channel = RoundingChannel.of(survey.scale(), spec.styleClasses().points(survey.scale()));
             partition = StylePartition.of(survey.style(), survey.size(), weight);
         }
         boolean attraction = layout.attractionSet().length > 0;

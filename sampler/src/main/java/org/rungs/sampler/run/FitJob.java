@@ -75,6 +75,7 @@ public final class FitJob {
      */
     public static FitOutcome run(FitRequest request, PrintStream out, PrintStream err, AtomicBoolean stop,
                                  CheckpointPolicy policy) throws SurveyInputException {
+        request.model().checkRatings(request.survey().scale());
         OutputFolder folder = policy.resume() ? OutputFolder.resuming(request.out())
                 : OutputFolder.check(request.out(), request.overwrite());
         long readStart = System.nanoTime();
