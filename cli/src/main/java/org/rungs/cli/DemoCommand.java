@@ -3,6 +3,7 @@ package org.rungs.cli;
 import java.nio.file.Path;
 import java.util.concurrent.Callable;
 import org.rungs.examples.Demo;
+import org.rungs.models.ModelSpec;
 import org.rungs.models.survey.SurveyInputException;
 import org.rungs.sampler.run.FitJob;
 import org.rungs.sampler.run.FitOutcome;
@@ -30,12 +31,14 @@ final class DemoCommand implements Callable<Integer> {
         if (sampling.seed == null) {
             sampling.seed = 1L;
         }
-        if (sampling.thin == null) {
-            sampling.thin = sampling.model().attraction().on() ? SamplingOptions.DEMO_THIN_ATTRACTION : SamplingOptions.DEMO_THIN;
-        }
+        ModelSpec model;
         Demo.Prepared demo;
         try {
-            demo = Demo.prepare(out, overwrite, sampling.model(), sampling.settings());
+            model = sampling.model();
+            if (sampling.thin == null) {
+                sampling.thin = model.attraction().on() ? SamplingOptions.DEMO_THIN_ATTRACTION : SamplingOptions.DEMO_THIN;
+            }
+            demo = Demo.prepare(out, overwrite, model, sampling.settings());
         } catch (IllegalArgumentException e) {
             System.err.println("rungs demo: " + e.getMessage());
             return Main.INPUT_ERROR;
@@ -46,7 +49,7 @@ final class DemoCommand implements Callable<Integer> {
             FitOutcome outcome = FitJob.run(demo.request(), System.out, System.err, interruption.flag());
             System.out.println();
             System.out.println("Estimates against the values the demo data were drawn from:");
-            System.out.print(Demo.compare(outcome, demo.truth(), sampling.model().attraction().on()));
+            System.out.print(Demo.compare(outcome, demo.truth(), model.attraction().on()));
             Runs.writeReport(out);
             return outcome.result().interrupted() ? Main.INTERRUPTED : 0;
         } catch (SurveyInputException | IllegalArgumentException e) {

@@ -7,6 +7,7 @@ import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.concurrent.Callable;
+import org.rungs.models.ModelSpec;
 import org.rungs.models.survey.Scale;
 import org.rungs.models.survey.SurveySpec;
 import org.rungs.sampler.SamplerSettings;
@@ -168,7 +169,13 @@ final class FitCommand implements Callable<Integer> {
         if (weight != null) {
             survey.weight(weight);
         }
-        return new FitRequest(file, survey.build(), sampling.model(), settings, out, overwrite, options(settings));
+        ModelSpec model = sampling.model();
+        if (!model.styleClasses().coarse() && !style.isEmpty()) {
+            // unused, the column would still exclude its rows with missing values
+            throw new IllegalArgumentException("--style names covariates of the coarse class " + style
+                    + ", and with --style-classes none there is none; leave --style out or use --style-classes coarse");
+        }
+        return new FitRequest(file, survey.build(), model, settings, out, overwrite, options(settings));
     }
 
     private Map<String, Object> options(SamplerSettings settings) {

@@ -75,7 +75,13 @@ final class SamplingOptions {
         StyleClasses classes;
         switch (styleClasses) {
             case "coarse": classes = StyleClasses.coarse(coarsePoints); break;
-            case "none": classes = StyleClasses.none(); break;
+            case "none":
+                if (coarsePoints != null) {
+                    throw new IllegalArgumentException("--coarse-points belongs to the coarse class, and with --style-classes none"
+                            + " there is none; leave --coarse-points out or use --style-classes coarse");
+                }
+                classes = StyleClasses.none();
+                break;
             default: throw new IllegalArgumentException("--style-classes must be 'coarse' or 'none', got '" + styleClasses + "'");
         }
         return new ModelSpec(ThresholdMode.parse(thresholds), p, classes, NumberAttraction.parse(attraction));

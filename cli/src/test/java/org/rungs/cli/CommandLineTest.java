@@ -285,12 +285,28 @@ final class CommandLineTest {
     }
 
     @Test
+    void optionsOfTheCoarseClassAreRefusedWithoutIt() throws IOException {
+        String withStyle = "region,rating,school\nA,7,basic\nB,3,high\nA,5,\nB,6,high\n";
+        assertInputError("points-none.csv", GOOD, List.of("--rating", "rating", "--style-classes", "none",
+                "--coarse-points", "0,5"), "--coarse-points", "--style-classes none");
+        assertInputError("style-none.csv", withStyle, List.of("--rating", "rating", "--style-classes", "none",
+                "--style", "school"), "--style", "--style-classes none");
+    }
+
+    @Test
     void theDemoRefusesAnAttractionOffTheScaleBeforeWritingItsData() throws IOException {
         Path out = dir.resolve("refused-demo");
         Run r = rungs("demo", "--attraction", "11", "--out", out.toString(), "--chains", "1", "--warmup", "4", "--draws", "3");
         assertEquals(Main.INPUT_ERROR, r.exit(), r.err());
         assertTrue(r.err().contains("attraction number 11"), r.err());
         assertTrue(absentOrEmpty(out), "output folder was written to");
+        for (String[] bad : new String[][] {{"--style-classes", "none", "--coarse-points", "0,5"}, {"--style-classes", "rounded"},
+                {"--prior", "nonsense=normal(0,1)"}}) {
+            Run refused = rungs(concat(new String[] {"demo", "--out", out.toString()}, bad));
+            assertEquals(Main.INPUT_ERROR, refused.exit(), refused.err());
+            assertTrue(refused.err().startsWith("rungs demo: "), refused.err());
+            assertTrue(absentOrEmpty(out), "output folder was written to");
+        }
     }
 
     @Test
