@@ -39,8 +39,9 @@ final class SimulateCommand implements Callable<Integer> {
         folder.write("truth.csv", data::writeTruth);
         System.out.println("Wrote " + data.size() + " respondents in " + data.groupLabels().size() + " regions to "
                 + folder.resolve("survey.csv") + " and the true values to " + folder.resolve("truth.csv"));
+        String style = data.styleCovariateNames().isEmpty() ? "" : " --style " + String.join(",", data.styleCovariateNames());
         System.out.println("Fit it with: ./rungs fit " + folder.resolve("survey.csv") + " --rating rating --group region --level "
-                + String.join(",", data.covariateNames()) + " --out DIR");
+                + String.join(",", data.covariateNames()) + style + " --out DIR");
         return 0;
     }
 }

@@ -197,6 +197,22 @@ final class CommandLineTest {
     }
 
     @Test
+    void theFitThatSimulateSuggestsNamesEveryColumnAndRuns() throws IOException {
+        Path sim = dir.resolve("suggested");
+        Run r = rungs("simulate", "--out", sim.toString(), "--seed", "11");
+        assertEquals(0, r.exit(), r.err());
+        String prefix = "Fit it with: ./rungs ";
+        String line = r.out().lines().filter(l -> l.startsWith(prefix)).findFirst().orElseThrow(() -> new AssertionError(r.out()));
+        List<String> words = List.of(line.split("[ ,]"));
+        for (String column : Files.readAllLines(sim.resolve("survey.csv")).get(0).split(",")) {
+            assertTrue(words.contains(column), "column " + column + " missing from: " + line);
+        }
+        String[] suggested = line.substring(prefix.length()).replace("DIR", sim.resolve("fit").toString()).split(" ");
+        Run fit = rungs(concat(suggested, TINY));
+        assertEquals(0, fit.exit(), fit.err());
+    }
+
+    @Test
     void thinBelowOneIsRefused() throws IOException {
         assertInputError("thin.csv", GOOD, List.of("--rating", "rating", "--thin", "0"), "thin must be at least 1");
     }
