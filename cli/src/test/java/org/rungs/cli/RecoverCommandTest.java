@@ -55,4 +55,13 @@ final class RecoverCommandTest {
         assertEquals(Main.INPUT_ERROR, CommandLineTest.rungs("recover", "--groups", "13", "--out", out.toString()).exit());
         assertEquals(Main.INPUT_ERROR, CommandLineTest.rungs("recover", "--truth", "other", "--out", out.toString()).exit());
     }
+
+    @Test
+    void refusesAnAttractionOffTheScaleBeforeWritingAnything() {
+        Path out = dir.resolve("refused");
+        CommandLineTest.Run r = CommandLineTest.rungs("recover", "--attraction", "11", "--replications", "1", "--out", out.toString());
+        assertEquals(Main.INPUT_ERROR, r.exit(), r.err());
+        assertTrue(r.err().contains("attraction number 11 is not on the scale 0..10"), r.err());
+        assertFalse(Files.exists(out), "the study folder was created");
+    }
 }

@@ -3,6 +3,7 @@ package org.rungs.validation.recovery;
 import java.util.Objects;
 import org.rungs.examples.Scenario;
 import org.rungs.models.ModelSpec;
+import org.rungs.models.survey.Scale;
 
 /**
  * One recovery study: a fixed truth, the model fitted to each data set drawn from it, the
@@ -36,10 +37,16 @@ public record RecoveryConfig(Scenario truth, String truthLabel, ModelSpec fit, i
         }
     }
 
-    /** The demo (or its shrunk form) as the truth. */
+    /**
+     * The demo (or its shrunk form) as the truth.
+     *
+     * @throws IllegalArgumentException if the fit names a coarse point or attraction number off the truth's scale
+     */
     public static RecoveryConfig of(DemoTruth truth, ModelSpec fit, int chains, int warmup, int draws, long seed,
             int replications) {
-        return new RecoveryConfig(truth.scenario(), truth.describe(), fit, chains, warmup, draws, seed, replications);
+        Scenario scenario = truth.scenario();
+        fit.checkRatings(new Scale(scenario.scale().lowest(), scenario.scale().highest()));
+        return new RecoveryConfig(scenario, truth.describe(), fit, chains, warmup, draws, seed, replications);
     }
 
     /**
