@@ -100,6 +100,30 @@ class FitterTest {
     }
 
     /**
+     * The same under number attraction (MODEL.md 4b, every number but the coarse points of 1..5),
+     * with a binary style covariate: the passes by style row, the attraction and trade steps and
+     * the redraw steps keep the draws independent of the thread count too.
+     */
+    @Test
+    void attractionFitIsTheSameWhateverTheThreads() {
+        Survey plain = smallSurvey(5L, 80);
+        // two distinct rows of style covariates, so that the passes group respondents by style row (StyleRows)
+        double[] split = java.util.Arrays.stream(plain.level().column(0)).map(v -> v > 0 ? 1 : 0).toArray();
+        Survey survey = Survey.of(plain.scale(), plain.category(), plain.group(), List.of("north", "south", "east", "west"),
+                plain.level(), Covariates.fromNumeric(List.of("w"), List.of(split)), null);
+        ModelSpec spec = new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults(), org.rungs.models.StyleClasses.coarse(null),
+                org.rungs.models.NumberAttraction.parse("default"));
+        Draws one = Fitter.fit(survey, spec, new SamplerSettings(3, 40, 20, 13L, 1), ProgressListener.NONE, new AtomicBoolean()).draws();
+        Draws three = Fitter.fit(survey, spec, new SamplerSettings(3, 40, 20, 13L, 3), ProgressListener.NONE, new AtomicBoolean()).draws();
+        assertTrue(one.names().contains("attraction_sd"), one.names().toString());
+        for (int p = 0; p < one.parameterCount(); p++) {
+            for (int c = 0; c < 3; c++) {
+                assertArrayEquals(one.chainsOf(p)[c], three.chainsOf(p)[c], one.names().get(p));
+            }
+        }
+    }
+
+    /**
      * Thinning keeps iterations of the same chain: after the same warm-up, draw t of a fit that
      * keeps one iteration in 3 is draw 3t + 2 of the fit that keeps them all (coarse class on, so
      * every kind of update runs between kept draws). Exact equality: same seed, same stream.
