@@ -186,7 +186,7 @@ final class CommandLineTest {
         Run r = rungs("demo", "--out", out.toString(), "--chains", "1", "--warmup", "4", "--draws", "3");
         assertEquals(0, r.exit(), r.err());
         assertEquals(SamplingOptions.DEMO_THIN, jsonLong(Files.readString(out.resolve("run.json")), "thin"));
-        assertTrue(r.err().contains("3 kept iterations (one in 2 of 6 iterations)"), r.err());
+        assertTrue(r.err().contains("seed 1, 1 chain of 4 warm-up + 3 kept iterations (one in 2 of 6 iterations)"), r.err());
         assertEquals(3, Files.readAllLines(out.resolve("draws.csv")).size() - 1);
 
         Path attracted = dir.resolve("short-attraction-demo");

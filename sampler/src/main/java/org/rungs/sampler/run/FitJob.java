@@ -105,7 +105,7 @@ public final class FitJob {
             checkpoints = Checkpoints.start(checkpointDir, policy.seconds());
         }
 
-        err.println("rungs: seed " + request.settings().seed() + ", " + request.settings().chains() + " chains of "
+        err.println("rungs: seed " + request.settings().seed() + ", " + request.settings().chains() + (request.settings().chains() == 1 ? " chain of " : " chains of ")
                 + request.settings().warmup() + " warm-up + " + request.settings().draws() + " kept iterations"
                 + (request.settings().thin() > 1 ? " (one in " + request.settings().thin() + " of "
                         + request.settings().draws() * request.settings().thin() + " iterations)" : ""));
