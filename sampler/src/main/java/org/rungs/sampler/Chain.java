@@ -59,6 +59,12 @@ final class Chain implements Checkpointed {
     /** For tests: maxRange is the bound of {@link BoundedRedrawSteps} under attraction. */
     static Chain of(SurveyOrder order, ModelSpec spec, boolean byGroup, int warmup, RestorableUniformRandomProvider rng,
                     double maxRange) {
+        return of(order, spec, byGroup, warmup, rng, maxRange, AttractionTradeUpdate.RIDGES);
+    }
+
+    /** For tests: ridges is the number of ridge moves per sweep of {@link AttractionTradeUpdate}. */
+    static Chain of(SurveyOrder order, ModelSpec spec, boolean byGroup, int warmup, RestorableUniformRandomProvider rng,
+                    double maxRange, double ridges) {
         Priors priors = spec.priors();
         StyleClasses classes = spec.styleClasses();
         Scale scale = order.survey().scale();
@@ -83,7 +89,7 @@ final class Chain implements Checkpointed {
         }
         if (state.attractionOn()) {
             sweep.add(AttractionUpdate.held(state, priors, rng, warmup));
-            AttractionTradeUpdate trade = AttractionTradeUpdate.of(state, priors, rng, maxRange);
+            AttractionTradeUpdate trade = AttractionTradeUpdate.of(state, priors, rng, maxRange, ridges, warmup);
             if (trade != null) {
                 sweep.add(trade);
             }

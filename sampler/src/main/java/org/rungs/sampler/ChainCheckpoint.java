@@ -32,7 +32,7 @@ final class ChainCheckpoint implements Closeable {
      * trade step's scale and count, {@link AttractionTradeUpdate}; 8: the joint step's kept
      * warm-up states instead of their sums, and its change of variables, {@link CoordinateWarp}).
      */
-    private static final long MAGIC = 0x52554E4753434B38L;
+    private static final long MAGIC = 0x52554E4753434B39L;
 
     /** Iterations done (warm-up included) and kept draws at a save. */
     record Position(int iterations, int kept) {
