@@ -36,7 +36,7 @@ final class DemoCommand implements Callable<Integer> {
         try {
             model = sampling.model();
             if (sampling.thin == null) {
-                sampling.thin = model.attraction().on() ? SamplingOptions.DEMO_THIN_ATTRACTION : SamplingOptions.DEMO_THIN;
+                sampling.thin = SamplingOptions.DEMO_THIN;
             }
             demo = Demo.prepare(out, overwrite, model, sampling.settings());
         } catch (IllegalArgumentException e) {

@@ -16,15 +16,11 @@ final class SamplingOptions {
     /**
      * The demo keeps every second iteration: from 4 x 1000 consecutive ones its slowest parameters
      * (the end thresholds) reach a bulk ESS of about 300, from every second one 550 to 640 on
-     * seeds 1 to 5 (DEVELOPERS.md, eleventh session).
+     * seeds 1 to 5 (DEVELOPERS.md, eleventh session). Under number attraction too: with the ridge
+     * move of the attraction spread every parameter reached 486 to 634 on seeds 1 to 4 in 107 to
+     * 114 s; every fourth had been needed before that move (DEVELOPERS.md, twenty-ninth session).
      */
     static final int DEMO_THIN = 2;
-    /**
-     * Under number attraction the demo keeps every fourth: from every second one the spread of the
-     * attraction terms reached a bulk ESS of only 250 to 320 on seeds 1 and 2 (DEVELOPERS.md,
-     * twentieth and twenty-first sessions).
-     */
-    static final int DEMO_THIN_ATTRACTION = 4;
 
     @Option(names = "--thresholds", paramLabel = "MODE", defaultValue = "by-group",
             description = "Threshold mode: by-group (common thresholds plus group spacing deviations) or shared. Default: ${DEFAULT-VALUE}.")
@@ -58,7 +54,7 @@ final class SamplingOptions {
     @Option(names = "--thin", paramLabel = "K",
             description = "Keep every K-th iteration after warm-up: a chain runs warm-up + K x draws iterations, so slow "
                     + "parameters gain effective draws without K times the files and the time to summarise them. "
-                    + "Default: 1 (the demo: " + DEMO_THIN + ", or " + DEMO_THIN_ATTRACTION + " with number attraction).")
+                    + "Default: 1 (the demo: " + DEMO_THIN + ").")
     Integer thin;
 
     @Option(names = "--seed", description = "Random seed; with none, one is chosen, printed and recorded in run.json.")

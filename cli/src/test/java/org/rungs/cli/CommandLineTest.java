@@ -136,8 +136,7 @@ final class CommandLineTest {
         assertEquals(0, demo.exit());
         assertTrue(demo.flatOut().contains("Default: rungs-demo"), demo.out());
         assertTrue(demo.flatOut().contains("Number of chains. Default: 4"), demo.out());
-        assertTrue(demo.flatOut().contains("Default: 1 (the demo: " + SamplingOptions.DEMO_THIN + ", or "
-                + SamplingOptions.DEMO_THIN_ATTRACTION + " with number attraction)"), demo.out());
+        assertTrue(demo.flatOut().contains("Default: 1 (the demo: " + SamplingOptions.DEMO_THIN + ")"), demo.out());
 
         Run simulate = rungs("simulate", "--help");
         assertEquals(0, simulate.exit());
@@ -181,7 +180,7 @@ final class CommandLineTest {
     }
 
     @Test
-    void theDemoKeepsEverySecondIterationOrEveryFourthUnderAttractionUnlessAskedOtherwise() throws Exception {
+    void theDemoKeepsEverySecondIterationWithOrWithoutAttractionUnlessAskedOtherwise() throws Exception {
         Path out = dir.resolve("short-demo");
         Run r = rungs("demo", "--out", out.toString(), "--chains", "1", "--warmup", "4", "--draws", "3");
         assertEquals(0, r.exit(), r.err());
@@ -192,8 +191,8 @@ final class CommandLineTest {
         Path attracted = dir.resolve("short-attraction-demo");
         Run a = rungs("demo", "--attraction", "default", "--out", attracted.toString(), "--chains", "1", "--warmup", "4", "--draws", "3");
         assertEquals(0, a.exit(), a.err());
-        assertEquals(SamplingOptions.DEMO_THIN_ATTRACTION, jsonLong(Files.readString(attracted.resolve("run.json")), "thin"));
-        assertTrue(a.err().contains("3 kept iterations (one in 4 of 12 iterations)"), a.err());
+        assertEquals(SamplingOptions.DEMO_THIN, jsonLong(Files.readString(attracted.resolve("run.json")), "thin"));
+        assertTrue(a.err().contains("3 kept iterations (one in 2 of 6 iterations)"), a.err());
     }
 
     @Test
