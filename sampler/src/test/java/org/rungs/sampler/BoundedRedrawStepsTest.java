@@ -83,9 +83,21 @@ class BoundedRedrawStepsTest {
         ModelSpec spec = new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults(), StyleClasses.none())
                 .withAttraction(NumberAttraction.of(2, 4));
         int warmup = 1_000;
-        int sweeps = 20_000;
         Chain chain = Chain.of(SurveyOrder.of(FitterTest.smallSurvey(6L, 40)), spec, true, warmup,
                 RandomSource.XO_RO_SHI_RO_128_PP.create(seed), maxRange);
+        double[][] out = record(chain, warmup, 20_000);
+        double skipped = chain.latentStepsSkipped();
+        assertTrue(Double.isInfinite(maxRange) ? skipped == 0 : skipped > 0.1 && skipped < 0.9,
+                "share of sampling sweeps skipped " + skipped + " with the bound at " + maxRange);
+        return out;
+    }
+
+    /**
+     * Runs the chain's warm-up, then records over {@code sweeps} sampling sweeps the level
+     * coefficient, group 0's intercept, group 1's threshold 2, abar and a[0,.] at the attraction
+     * set's position 1, and log tau_a: the quantities of {@link #aBindingBoundLeavesThePosteriorUnchanged}.
+     */
+    static double[][] record(Chain chain, int warmup, int sweeps) {
         ChainState s = chain.state();
         for (int t = 0; t < warmup; t++) {
             chain.sweepOnce(true);
@@ -101,9 +113,6 @@ class BoundedRedrawStepsTest {
             out[4][t] = s.attraction[1];
             out[5][t] = Math.log(s.attractionSd);
         }
-        double skipped = chain.latentStepsSkipped();
-        assertTrue(Double.isInfinite(maxRange) ? skipped == 0 : skipped > 0.1 && skipped < 0.9,
-                "share of sampling sweeps skipped " + skipped + " with the bound at " + maxRange);
         return out;
     }
 
