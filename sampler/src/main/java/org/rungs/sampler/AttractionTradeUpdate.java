@@ -117,7 +117,7 @@ final class AttractionTradeUpdate implements Update, Checkpointed {
     private int warmupCalls;
     private double ridgeLogScale = Math.log(1.2);
     private int ridgeWarmupSteps;
-    /** Whether the last {@link #decide} accepted, and the grid's likelihood at the proposal. */
+    /** The grid's likelihood at the proposal of the last {@link #decide}. */
     private double nextGrid;
     /**
      * Scratch of the ridge move's proposal ({@link #ridgeProposal}), by position in A: the map's
@@ -225,9 +225,12 @@ final class AttractionTradeUpdate implements Update, Checkpointed {
         if (adapt) {
             warmupCalls++;
         }
-        int ridges = !adapt || warmupCalls > ridgeStart ? (int) ridgeRate : 0;
-        if (ridges > 0 && ridgeRate > ridges && rng.nextDouble() < ridgeRate - ridges) {
-            ridges++;
+        int ridges = 0;
+        if (!adapt || warmupCalls > ridgeStart) {
+            ridges = (int) ridgeRate;
+            if (ridgeRate > ridges && rng.nextDouble() < ridgeRate - ridges) {
+                ridges++;
+            }
         }
         double current = steps + ridges > 0 ? tabulate() : 0;
         for (int b = 0; b < steps; b++) {
