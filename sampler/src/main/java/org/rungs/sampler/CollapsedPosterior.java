@@ -13,17 +13,29 @@ import org.rungs.priors.StandardNormal;
  * read from the chain state and held fixed; tau_a is part of the vector.
  *
  * <p>The vector, in order: the level intercepts alpha[g] and mu_alpha (with one group, alpha
- * alone), beta, the logs of the M-2 gaps c[k] - c[k-1] between the common thresholds (which fix
- * them, as they sum to zero, MODEL.md 3), by group each group's deviations d[g,1..M-2]
- * (d[g,M-1] = minus their sum), then for the coarse class gamma[g] and mu_gamma (or gamma
- * alone), delta, then the attraction: with several groups non-centred, z[g,j] with
- * a[g,j] = abar[j] + tau_a z[g,j], then abar[j], then log tau_a (the group deviations are weakly
- * identified, and centred they and tau_a form a funnel); with one group a[j] alone. The density
- * is the one of MODEL.md 3 to 5 in these coordinates (with the Jacobians of the logs and of z),
- * and zero where a group's thresholds are not increasing. On the log scale the common row's
- * lowest gap, whose long flat tail appears when most answers at that end can be coarse ones, is
- * closer to Gaussian; the threshold deviations stay linear because their prior, tau_d, is
- * Gaussian there (on gaps it becomes a funnel: measured, the joint step's leapfrog steps shrank).
+ * alone), beta, the logs of the M-2 gaps G[k] = c[k+1] - c[k] between the common thresholds
+ * (which fix them, as they sum to zero, MODEL.md 3), by group each group's deviations
+ * d[g,1..M-2] = c[g,.] - c[.] (d[g,M-1] = minus their sum), or under attraction its M-2 gaps as
+ * u[g,k] = (G[k] / tau_d) log(g[g,k] / G[k]), g[g,k] = c[g,k+1] - c[g,k] (the group row sums to
+ * zero too, as its deviations do), then for the coarse class gamma[g] and
+ * mu_gamma (or gamma alone), delta, then the attraction: with several groups non-centred,
+ * z[g,j] with a[g,j] = abar[j] + tau_a z[g,j], then abar[j], then log tau_a (the group
+ * deviations are weakly identified, and centred they and tau_a form a funnel); with one group
+ * a[j] alone. The density is the one of MODEL.md 3 to 5 in these coordinates, with the
+ * Jacobians of the logs, of u (sum of log(g / G), up to a constant in tau_d, which the step
+ * holds) and of z, and zero where a group's thresholds are not increasing (with the deviations
+ * as coordinates). On the log scale the common row's lowest gap, whose long flat tail appears
+ * when most answers at that end can be coarse ones, is closer to Gaussian. A group's gap is
+ * G + tau_d u to first order, so where the deviations' prior and the data hold it well away from
+ * 0, u is a standardised deviation and the prior on d[g,.] stays nearly Gaussian in it (a plain
+ * log of the group's gaps made a funnel of it: fifth session, DEVELOPERS.md); where a category
+ * is empty in a group, or the coarse class can explain all its answers, the gap's density stays
+ * positive up to 0, and u turns that edge into a smooth tail instead of a wall where the
+ * thresholds cross, which ended about a fifth of the joint step's trajectories on the
+ * attraction demo (1 to 9% now, the rest diverging far out). Without attraction the coarse demo
+ * lost the walls likewise (a quarter to 2 to 7%) and needed fewer leapfrog steps, but on its
+ * default seed the derived shares' smallest tail ESS fell from 569 to 363, so there the
+ * deviations stay (thirtieth session, DEVELOPERS.md).
  */
 final class CollapsedPosterior {
     private static final double LOG_SQRT_2PI = 0.5 * Math.log(2 * Math.PI);
@@ -54,6 +66,11 @@ final class CollapsedPosterior {
     private final int[] attracted;
     private final boolean pooled;
     private final boolean byGroup;
+    /**
+     * By group under attraction: the group rows in the gap coordinates u (class comment); otherwise
+     * their deviations d[g,1..M-2] themselves (d[g,M-1] = minus their sum).
+     */
+    private final boolean gapRows;
 
     final int alphaAt;
     final int betaAt;
@@ -117,6 +134,9 @@ final class CollapsedPosterior {
     private final double[] cellShare;
     private final double[] gradT;
     private final double[] fullCoords;
+    /** Scratch: a row's gaps, and the log density's slope in each gap ({@link #gapSlopes}). */
+    private final double[] gapValues;
+    private final double[] slopes;
     /** Scratch: phi at the answer's lower and upper bound and at the class probit; at each threshold. */
     private final double[] density = new double[3];
     private final double[] thresholdDensity;
@@ -201,6 +221,7 @@ final class CollapsedPosterior {
         this.attracted = state.attracted.clone();
         this.pooled = groups > 1;
         this.byGroup = state.byGroup;
+        this.gapRows = state.byGroup && state.attractionOn();
         int at = 0;
         alphaAt = at;
         at += pooled ? groups + 1 : 1;
@@ -296,6 +317,8 @@ final class CollapsedPosterior {
         cellShare = new double[attracted.length];
         gradT = new double[m + 1];
         fullCoords = new double[m + 1];
+        gapValues = new double[Math.max(free, 0)];
+        slopes = new double[Math.max(free, 0)];
         thresholdDensity = new double[m + 1];
         offset = new double[m + 1];
         tail = new double[m + 1];
@@ -474,7 +497,10 @@ final class CollapsedPosterior {
         if (byGroup) {
             for (int g = 0; g < groups; g++) {
                 for (int j = 0; j < free; j++) {
-                    theta[deviationAt + g * free + j] = s.thresholds[g * stride + j + 1] - s.common[j + 1];
+                    double common = s.common[j + 2] - s.common[j + 1];
+                    double gap = s.thresholds[g * stride + j + 2] - s.thresholds[g * stride + j + 1];
+                    theta[deviationAt + g * free + j] = gapRows ? common / s.thresholdSd * Math.log(gap / common)
+                            : s.thresholds[g * stride + j + 1] - s.common[j + 1];
                 }
             }
         }
@@ -655,15 +681,24 @@ final class CollapsedPosterior {
         for (int g = 0; g < groups; g++) {
             if (byGroup) {
                 int base = g * stride;
-                double sum = 0;
-                for (int j = 0; j < free; j++) {
-                    double d = theta[deviationAt + g * free + j];
-                    rows[base + j + 1] = common[j + 1] + d;
-                    sum += d;
+                if (gapRows) {
+                    double tau = state.thresholdSd;
+                    for (int j = 0; j < free; j++) {
+                        double common = this.common[j + 2] - this.common[j + 1];
+                        gapValues[j] = common * Math.exp(tau * theta[deviationAt + g * free + j] / common);
+                    }
+                    fillFromGapValues(gapValues, rows, base);
+                } else {
+                    double sum = 0;
+                    for (int j = 0; j < free; j++) {
+                        double d = theta[deviationAt + g * free + j];
+                        rows[base + j + 1] = common[j + 1] + d;
+                        sum += d;
+                    }
+                    rows[base + m - 1] = common[m - 1] - sum;
+                    rows[base] = Double.NEGATIVE_INFINITY;
+                    rows[base + m] = Double.POSITIVE_INFINITY;
                 }
-                rows[base + m - 1] = common[m - 1] - sum;
-                rows[base] = Double.NEGATIVE_INFINITY;
-                rows[base + m] = Double.POSITIVE_INFINITY;
                 for (int k = 2; k < m; k++) {
                     increasing &= rows[base + k] > rows[base + k - 1];
                 }
@@ -700,11 +735,19 @@ final class CollapsedPosterior {
      * from the logs of its M-2 gaps at theta[from..].
      */
     private void fillFromGaps(double[] theta, int from, double[] out, int base) {
+        for (int j = 0; j < free; j++) {
+            gapValues[j] = Math.exp(theta[from + j]);
+        }
+        fillFromGapValues(gapValues, out, base);
+    }
+
+    /** As {@link #fillFromGaps}, from the M-2 gaps themselves. */
+    private void fillFromGapValues(double[] gaps, double[] out, int base) {
         double value = 0;
         double sum = 0;
         out[base + 1] = 0;
         for (int j = 0; j < free; j++) {
-            value += Math.exp(theta[from + j]);
+            value += gaps[j];
             out[base + j + 2] = value;
             sum += value;
         }
@@ -722,14 +765,26 @@ final class CollapsedPosterior {
      * by exp(u_j) ([k >= j+2] - (M-2-j)/(M-1)); plus 1 per gap for the Jacobian.
      */
     private void gapGradient(double[] row, int base, double[] gradient, int at) {
+        gapSlopes();
+        for (int j = 0; j < free; j++) {
+            double gap = row[base + j + 2] - row[base + j + 1];
+            gradient[at + j] += gap * slopes[j] + 1;
+        }
+    }
+
+    /**
+     * Into {@link #slopes}: the gradient in a row's M-2 gaps, given the gradient in its entries
+     * 1..M-1 ({@link #fullCoords}) of the centred row that the gaps fix: entry k moves with gap j
+     * by [k >= j+2] - (M-2-j)/(M-1).
+     */
+    private void gapSlopes() {
         double total = 0;
         for (int k = 1; k < m; k++) {
             total += fullCoords[k];
         }
         double above = total - fullCoords[1];
         for (int j = 0; j < free; j++) {
-            double gap = row[base + j + 2] - row[base + j + 1];
-            gradient[at + j] += gap * (above - (m - 2.0 - j) / (m - 1) * total) + 1;
+            slopes[j] = above - (m - 2.0 - j) / (m - 1) * total;
             above -= fullCoords[j + 2];
         }
     }
@@ -2085,6 +2140,10 @@ final class CollapsedPosterior {
                     double d = rows[g * stride + k] - common[k];
                     lp -= 0.5 * deviationPrecision * d * d;
                 }
+                // the Jacobian of the group's gaps in its coordinates, up to a constant: sum_j log(gap / common gap)
+                for (int j = 0; j < free && gapRows; j++) {
+                    lp += Math.log((rows[g * stride + j + 2] - rows[g * stride + j + 1]) / (common[j + 2] - common[j + 1]));
+                }
             }
         }
         if (channel != null) {
@@ -2165,25 +2224,43 @@ final class CollapsedPosterior {
         for (int p = 0; p < levelCount; p++) {
             gradient[betaAt + p] += gradBeta[p];
         }
-        // The gradient in the entries 1..M-1 of the common row (which every group row follows),
-        // then in its gap logs; each group's in its deviations d[g,1..M-2], d[g,M-1] = -their sum.
+        // The gradient in the entries 1..M-1 of the common row, then in its gap logs; with the
+        // deviations as coordinates every group row follows the common row, and each group's
+        // gradient goes to its d[g,1..M-2], d[g,M-1] = -their sum. With the gap coordinates
+        // (gapRows) the common row's entries take the prior terms alone, and each group row's
+        // gradient goes to its gaps, then to u (gap = G exp(v), v = tau_d u / G, G the common
+        // row's gap: d gap / d u = gap tau_d / G, d gap / d log G = gap (1 - v); the Jacobian
+        // sum v adds tau_d / G and -v).
         double thresholdPrecision = priors.threshold().precision();
         double deviationPrecision = byGroup ? 1.0 / (s.thresholdSd * s.thresholdSd) : 0;
         for (int k = 1; k < m; k++) {
             double sum = -thresholdPrecision * common[k];
             for (int g = 0; g < groups; g++) {
-                sum += gradRows[g * stride + k];
+                sum += gapRows ? deviationPrecision * (rows[g * stride + k] - common[k]) : gradRows[g * stride + k];
             }
             fullCoords[k] = sum;
         }
         gapGradient(common, 0, gradient, commonAt);
         if (byGroup) {
+            double tau = s.thresholdSd;
             for (int g = 0; g < groups; g++) {
+                int base = g * stride;
                 for (int k = 1; k < m; k++) {
-                    fullCoords[k] = gradRows[g * stride + k] - deviationPrecision * (rows[g * stride + k] - common[k]);
+                    fullCoords[k] = gradRows[base + k] - deviationPrecision * (rows[base + k] - common[k]);
                 }
+                if (!gapRows) {
+                    for (int j = 0; j < free; j++) {
+                        gradient[deviationAt + g * free + j] += fullCoords[j + 1] - fullCoords[m - 1];
+                    }
+                    continue;
+                }
+                gapSlopes();
                 for (int j = 0; j < free; j++) {
-                    gradient[deviationAt + g * free + j] += fullCoords[j + 1] - fullCoords[m - 1];
+                    double shared = common[j + 2] - common[j + 1];
+                    double gap = rows[base + j + 2] - rows[base + j + 1];
+                    double v = Math.log(gap / shared);
+                    gradient[deviationAt + g * free + j] += slopes[j] * gap * tau / shared + tau / shared;
+                    gradient[commonAt + j] += slopes[j] * gap * (1 - v) - v;
                 }
             }
         }

@@ -14,8 +14,9 @@ import org.rungs.posteriors.Draws;
  * @param jointAcceptance      per chain, the share of accepted joint Hamiltonian proposals while
  *                             sampling; NaN when the model has no such step (plain ordered probit)
  * @param jointLeapfrogSteps   per chain, that step's mean leapfrog steps per trajectory while sampling; NaN likewise
- * @param jointWallShare       per chain, the share of its trajectories that stopped on a wall (some group's
- *                             thresholds crossing) while sampling; NaN likewise
+ * @param jointWallShare       per chain, the share of its trajectories that stopped on a wall (a log
+ *                             density of minus infinity: thresholds crossing, or far out) while
+ *                             sampling; NaN likewise
  * @param latentStepsSkipped   per chain, the share of sampling sweeps in which the attractions spread
  *                             too wide for the latent-level steps ({@link BoundedRedrawSteps}); 0
  *                             without attraction

@@ -406,8 +406,10 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
 
     /**
      * Share of trajectories while sampling that stopped on a wall, where the log density is minus
-     * infinity: in practice where some group's thresholds would cross (NaN as above). Each is a
-     * rejected proposal.
+     * infinity (NaN as above): where some group's thresholds would cross (about a quarter on
+     * the coarse demo), or under attraction, whose gap coordinates ({@link CollapsedPosterior})
+     * keep them increasing, a trajectory that diverged far out (1 to 9%). Each is a rejected
+     * proposal.
      */
     double wallShare() {
         return proposed == 0 ? Double.NaN : (double) walls / proposed;

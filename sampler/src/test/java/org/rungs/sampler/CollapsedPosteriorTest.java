@@ -130,6 +130,11 @@ class CollapsedPosteriorTest {
         }
         for (int k = 2; k < m; k++) {
             total += Math.log(s.common[k] - s.common[k - 1]); // the vector holds the gaps' logs: their Jacobian
+            for (int g = 0; g < s.groups && s.byGroup && s.attractionOn(); g++) {
+                // under attraction a group's gap is G exp(tau_d u / G), G the common gap: the Jacobian of u, up to a constant
+                double gap = s.thresholds[g * stride + k] - s.thresholds[g * stride + k - 1];
+                total += Math.log(gap / (s.common[k] - s.common[k - 1]));
+            }
         }
         for (int k = 1; k < m; k++) {
             total += -0.5 * s.common[k] * s.common[k] / 9;
@@ -194,6 +199,44 @@ class CollapsedPosteriorTest {
             double after = posterior.logDensity(moved);
             // Both sums hold a few hundred terms exact to ~1e-14 each.
             assertEquals(directLogPosterior(s) - directBefore, after - before, 1e-9, "variant " + variant);
+        }
+    }
+
+    /**
+     * By group under attraction, any moderate vector keeps every group's thresholds increasing:
+     * the gap coordinates move a gap on a log scale, so the joint step meets no wall where
+     * thresholds cross (with the deviations as plain differences, as without attraction, moves of
+     * +-3 crossed them: checked on those variants, which must cross).
+     */
+    @Test
+    void groupGapCoordinatesNeverCrossTheThresholds() {
+        for (int variant = 0; variant < 32; variant += 2) {
+            ChainState s = variant(variant);
+            if (!s.attractionOn()) {
+                CollapsedPosterior plain = new CollapsedPosterior(s, PRIORS);
+                double[] theta = new double[plain.dimension()];
+                plain.read(theta);
+                for (int j = 0; j < s.groups * (s.categories - 2); j++) {
+                    theta[plain.deviationAt + j] += 3 * Math.sin(7.0 * j + variant);
+                }
+                assertEquals(Double.NEGATIVE_INFINITY, plain.logDensity(theta), "variant " + variant);
+                continue;
+            }
+            CollapsedPosterior posterior = new CollapsedPosterior(s, PRIORS);
+            double[] theta = new double[posterior.dimension()];
+            posterior.read(theta);
+            int perGroup = s.categories - 2;
+            for (int j = 0; j < s.groups * perGroup; j++) {
+                theta[posterior.deviationAt + j] += 3 * Math.sin(7.0 * j + variant);
+            }
+            assertTrue(Double.isFinite(posterior.logDensity(theta)), "variant " + variant);
+            posterior.write(theta);
+            for (int g = 0; g < s.groups; g++) {
+                for (int k = 2; k < s.categories; k++) {
+                    assertTrue(s.thresholds[g * (s.categories + 1) + k] > s.thresholds[g * (s.categories + 1) + k - 1],
+                            "group " + g + ", threshold " + k + ", variant " + variant);
+                }
+            }
         }
     }
 
@@ -282,7 +325,12 @@ class CollapsedPosteriorTest {
             posterior.force(theta, again);
             assertArrayEquals(force, again, 0.0, "variant " + variant);
             assertEquals(value, posterior.gradient(theta, full), 0.0, "the exact path back after, variant " + variant);
-            if (byGroup) {
+            if (byGroup && attraction) {
+                // group 0's first gap underflows to 0 (its coordinates keep every gap positive otherwise)
+                theta[posterior.deviationAt] -= 1e6;
+                assertEquals(Double.NEGATIVE_INFINITY, posterior.gradientOnly(theta, only), "variant " + variant);
+                assertEquals(Double.NEGATIVE_INFINITY, posterior.force(theta, force), "variant " + variant);
+            } else if (byGroup) {
                 theta[posterior.deviationAt] += 50; // group 0's first threshold above its second
                 assertEquals(Double.NEGATIVE_INFINITY, posterior.gradientOnly(theta, only), "variant " + variant);
                 assertEquals(Double.NEGATIVE_INFINITY, posterior.force(theta, force), "variant " + variant);
