@@ -34,7 +34,7 @@ import org.rungs.priors.StandardNormal;
  * thresholds cross, which ended about a fifth of the joint step's trajectories on the
  * attraction demo (1 to 9% now, the rest diverging far out). Without attraction the coarse demo
  * lost the walls likewise (a quarter to 2 to 7%) and needed fewer leapfrog steps, but on its
- * default seed the derived shares' smallest tail ESS fell from 569 to 363, so there the
+ * default seed the derived shares' smallest tail ESS fell from 569 to 336, so there the
  * deviations stay (thirtieth session, DEVELOPERS.md).
  */
 final class CollapsedPosterior {
