@@ -497,10 +497,13 @@ final class CollapsedPosterior {
         if (byGroup) {
             for (int g = 0; g < groups; g++) {
                 for (int j = 0; j < free; j++) {
-                    double common = s.common[j + 2] - s.common[j + 1];
-                    double gap = s.thresholds[g * stride + j + 2] - s.thresholds[g * stride + j + 1];
-                    theta[deviationAt + g * free + j] = gapRows ? common / s.thresholdSd * Math.log(gap / common)
-                            : s.thresholds[g * stride + j + 1] - s.common[j + 1];
+                    int at = g * stride + j + 1;
+                    if (gapRows) {
+                        double common = s.common[j + 2] - s.common[j + 1];
+                        theta[deviationAt + g * free + j] = common / s.thresholdSd * Math.log((s.thresholds[at + 1] - s.thresholds[at]) / common);
+                    } else {
+                        theta[deviationAt + g * free + j] = s.thresholds[at] - s.common[j + 1];
+                    }
                 }
             }
         }
