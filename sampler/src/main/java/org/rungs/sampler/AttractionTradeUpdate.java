@@ -307,6 +307,13 @@ final class AttractionTradeUpdate implements Update, Checkpointed {
         return boundedAfter == bounded ? change : Double.NaN;
     }
 
+    /** Into {@link #share}: a group's category probabilities at its centre alpha, each from its own interval. */
+    private void centreShares(double[] rows, int row, double alpha) {
+        for (int k = 0; k < m; k++) {
+            share[k] = StandardNormal.intervalProbability(rows[row + k] - alpha, rows[row + k + 1] - alpha);
+        }
+    }
+
     /**
      * The class comment's map of group g's thresholds and level for the changes of its attractions
      * in {@link #delta}: writes them to {@link #proposedRows} and {@link #proposedIntercept} and
@@ -322,9 +329,9 @@ final class AttractionTradeUpdate implements Update, Checkpointed {
         double tauD = s.thresholdSd;
         double alpha = s.level.intercept[g];
         // the probabilities at the centre, each from its own interval (no cancellation in the tails)
+        centreShares(s.thresholds, row, alpha);
         double z = 0;
         for (int k = 0; k < m; k++) {
-            share[k] = StandardNormal.intervalProbability(s.thresholds[row + k] - alpha, s.thresholds[row + k + 1] - alpha);
             z += share[k] * Math.exp(-delta[at + k]);
         }
         // the new cumulative sums from below up to one half and from above beyond it
@@ -465,9 +472,7 @@ final class AttractionTradeUpdate implements Update, Checkpointed {
         // d q'_k / d Delta_j at 0: the map's u'_k = sum_(i<k) p_i e^-Delta_i / Z, q' = Phi^-1(u')
         double below = 0;
         java.util.Arrays.fill(ridgeLevel, 0);
-        for (int k = 0; k < m; k++) {
-            share[k] = StandardNormal.intervalProbability(rows[row + k] - alpha, rows[row + k + 1] - alpha);
-        }
+        centreShares(rows, row, alpha);
         for (int k = 1; k < m; k++) {
             below += share[k - 1];
             double density = StandardNormal.density(rows[row + k] - alpha);
