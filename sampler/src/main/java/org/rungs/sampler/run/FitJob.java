@@ -110,7 +110,7 @@ public final class FitJob {
                 + (request.settings().thin() > 1 ? " (one in " + request.settings().thin() + " of "
                         + request.settings().draws() * request.settings().thin() + " iterations)" : ""));
         RunRecord record = new RunRecord();
-        for (String w : SurveyWarnings.of(survey)) {
+        for (String w : SurveyWarnings.of(survey, request.model())) {
             record.warn(w);
             err.println("warning: " + w);
         }

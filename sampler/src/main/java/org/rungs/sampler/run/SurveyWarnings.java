@@ -1,10 +1,13 @@
 package org.rungs.sampler.run;
 
 import java.util.ArrayList;
+import java.util.Arrays;
 import java.util.List;
+import org.rungs.models.ModelSpec;
+import org.rungs.models.survey.Scale;
 import org.rungs.models.survey.Survey;
 
-/** Valid but unusual data that deserve a word before fitting. */
+/** Valid but unusual data, or model choices, that deserve a word before fitting. */
 final class SurveyWarnings {
     /** Below this many respondents a group's own thresholds and level rest mostly on the priors (common practice, no source). */
     static final int SMALL_GROUP = 30;
@@ -30,6 +33,34 @@ final class SurveyWarnings {
             if (sizes[g] < SMALL_GROUP) {
                 warnings.add("group " + survey.groupLabels().get(g) + " has only " + sizes[g]
                         + " respondents; its estimates lean on the other groups");
+            }
+        }
+        return warnings;
+    }
+
+    /** The survey's warnings, then the model's on it. */
+    static List<String> of(Survey survey, ModelSpec model) {
+        List<String> warnings = of(survey);
+        warnings.addAll(model(survey.scale(), model));
+        return warnings;
+    }
+
+    /**
+     * A named attraction on a coarse point: MODEL.md 4b allows it, but the coarse class puts answers
+     * there too (4a), so the two explain the same excess and the data tell them apart only by how
+     * each varies with the latent level and the class's covariates.
+     */
+    static List<String> model(Scale scale, ModelSpec model) {
+        List<String> warnings = new ArrayList<>();
+        if (!model.styleClasses().coarse()) {
+            return warnings;
+        }
+        int[] points = model.styleClasses().points(scale);
+        for (int r : model.attraction().resolve(scale, model.styleClasses())) {
+            if (Arrays.stream(points).anyMatch(p -> p == r)) {
+                warnings.add("attraction on " + r + ", a coarse point: the coarse class also explains an excess of "
+                        + r + "s, so the two trade against each other and the attraction of " + r
+                        + " is weakly identified; read its sd_ratio in attraction.csv");
             }
         }
         return warnings;

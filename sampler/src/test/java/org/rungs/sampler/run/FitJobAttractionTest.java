@@ -91,6 +91,28 @@ class FitJobAttractionTest {
         assertTrue(compact.contains("\"theplainorderedprobitofcoefficients.csv'scomparison:Notconverged:"), run);
     }
 
+    /**
+     * A named attraction on a coarse point is fitted (MODEL.md 4b names no exclusion) but warned
+     * about; the default set, which leaves the coarse points out, and the set without the coarse
+     * class are not.
+     */
+    @Test
+    void attractionOnACoarsePointIsWarnedAbout() {
+        StyleClasses coarse = StyleClasses.coarse(null);
+        List<String> named = SurveyWarnings.model(SCALE, new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults(), coarse,
+                NumberAttraction.of(2, 3, 6)));
+        assertEquals(2, named.size(), named.toString());
+        assertTrue(named.get(0).startsWith("attraction on 3, a coarse point: the coarse class also explains an excess of 3s"),
+                named.toString());
+        assertTrue(named.get(1).startsWith("attraction on 6, a coarse point"), named.toString());
+        assertEquals(List.of(), SurveyWarnings.model(SCALE, new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults(), coarse,
+                NumberAttraction.besidesCoarsePoints())));
+        assertEquals(List.of(), SurveyWarnings.model(SCALE, new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults(),
+                StyleClasses.none(), NumberAttraction.of(3))));
+        assertEquals(List.of(), SurveyWarnings.model(SCALE, new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults(), coarse,
+                NumberAttraction.none())));
+    }
+
     /** The warning names the largest share of any chain, and there is none when no chain skipped. */
     @Test
     void skippedLatentStepsAreWarnedAbout() {
