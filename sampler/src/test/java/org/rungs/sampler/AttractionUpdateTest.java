@@ -81,7 +81,7 @@ class AttractionUpdateTest {
      * Tolerance 1e-12 relative: the moves of a[g,j] alone update N_i by increments, the
      * recomputation sums it afresh. When the spread moves kept the N_i their pass computed
      * without storing them, or left the coarse respondents' (which that pass skips) as they were,
-     * the test failed (DEVELOPERS.md, eighteenth session).
+     * the test failed (SAMPLER-RESEARCH.md, eighteenth session).
      */
     @Test
     void theNormalisersItLeavesAreThoseOfTheStateItKeeps() {

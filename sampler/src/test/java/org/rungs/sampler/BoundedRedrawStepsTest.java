@@ -69,7 +69,7 @@ class BoundedRedrawStepsTest {
      * abar[2], a[0,2] and log tau_a. Tolerance: 4.5 standard errors of the difference, each from
      * 40 batch means of 20,000 sweeps (common practice, no source; a false alarm near 1e-5 per
      * quantity), fixed seeds. With the bound's condition made to read the level coefficient as well
-     * (which the skipped steps move), the test failed (DEVELOPERS.md, tenth session).
+     * (which the skipped steps move), the test failed (SAMPLER-RESEARCH.md, tenth session).
      */
     @Test
     void aBindingBoundLeavesThePosteriorUnchanged() {
