@@ -16,9 +16,10 @@ final class SamplingOptions {
     /**
      * The demo keeps every second iteration: from 4 x 1000 consecutive ones its slowest parameters
      * (the end thresholds) reach a bulk ESS of about 300, from every second one 550 to 640 on
-     * seeds 1 to 5 (SAMPLER-RESEARCH.md, eleventh session). Under number attraction too: with the ridge
-     * move of the attraction spread every parameter reached 486 to 634 on seeds 1 to 4 in 107 to
-     * 114 s; every fourth had been needed before that move (SAMPLER-RESEARCH.md, twenty-ninth session).
+     * seeds 1 to 5 (SAMPLER-RESEARCH.md, eleventh session). Under number attraction too: with the
+     * ridge move of the attraction spread every parameter reached 486 to 634 on seeds 1 to 4 in
+     * 107 to 114 s; every fourth had been needed before that move (SAMPLER-RESEARCH.md,
+     * twenty-ninth session).
      */
     static final int DEMO_THIN = 2;
 

@@ -28,10 +28,10 @@ import org.rungs.priors.StandardNormal;
  * when most answers at that end can be coarse ones, is closer to Gaussian. A group's gap is
  * G + tau_d u to first order, so where the deviations' prior and the data hold it well away from
  * 0, u is a standardised deviation and the prior on d[g,.] stays nearly Gaussian in it (a plain
- * log of the group's gaps made a funnel of it: fifth session, SAMPLER-RESEARCH.md); where a category
- * is empty in a group, or the coarse class can explain all its answers, the gap's density stays
- * positive up to 0, and u turns that edge into a smooth tail instead of a wall where the
- * thresholds cross, which ended about a fifth of the joint step's trajectories on the
+ * log of the group's gaps made a funnel of it: SAMPLER-RESEARCH.md, fifth session); where a
+ * category is empty in a group, or the coarse class can explain all its answers, the gap's
+ * density stays positive up to 0, and u turns that edge into a smooth tail instead of a wall
+ * where the thresholds cross, which ended about a fifth of the joint step's trajectories on the
  * attraction demo (1 to 9% now, the rest diverging far out). Without attraction the coarse demo
  * lost the walls likewise (a quarter to 2 to 7%) and needed fewer leapfrog steps, but on its
  * default seed the derived shares' smallest tail ESS fell from 569 to 336, so there the

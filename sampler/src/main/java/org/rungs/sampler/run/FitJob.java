@@ -241,7 +241,8 @@ public final class FitJob {
                     + "off) for the comparison of effects...");
             ModelSpec plainSpec = request.model().withStyleClasses(StyleClasses.none()).withAttraction(NumberAttraction.none());
             // the fit's own settings, thinning included: without it the demo's default seed once
-            // left two of its thresholds just short of the convergence rule (SAMPLER-RESEARCH.md, fifteenth session)
+            // left two of its thresholds just short of the convergence rule (SAMPLER-RESEARCH.md,
+            // fifteenth session)
             SamplerSettings settings = request.settings();
             FitResult plainFit = Fitter.fit(survey, plainSpec, settings,
                     new ConsoleProgress(err, settings.chains(), 2.0), stop);
