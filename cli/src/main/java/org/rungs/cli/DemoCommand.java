@@ -38,7 +38,7 @@ final class DemoCommand implements Callable<Integer> {
             if (sampling.thin == null) {
                 sampling.thin = SamplingOptions.DEMO_THIN;
             }
-            demo = Demo.prepare(out, overwrite, model, sampling.settings());
+            demo = Demo.prepare(out, overwrite, model, sampling.settings(), sampling.crossValidate);
         } catch (IllegalArgumentException e) {
             System.err.println("rungs demo: " + e.getMessage());
             return Main.INPUT_ERROR;

@@ -175,7 +175,7 @@ final class FitCommand implements Callable<Integer> {
             throw new IllegalArgumentException("--style names covariates of the coarse class " + style
                     + ", and with --style-classes none there is none; leave --style out or use --style-classes coarse");
         }
-        return new FitRequest(file, survey.build(), model, settings, out, overwrite, options(settings));
+        return new FitRequest(file, survey.build(), model, settings, out, overwrite, options(settings), sampling.crossValidate);
     }
 
     private Map<String, Object> options(SamplerSettings settings) {
@@ -200,6 +200,7 @@ final class FitCommand implements Callable<Integer> {
         o.put("thin", settings.thin());
         o.put("seed", settings.seed());
         o.put("threads", settings.threads());
+        o.put("cross_validate", sampling.crossValidate);
         o.put("out", out.toString());
         o.put("overwrite", overwrite);
         return o;

@@ -8,7 +8,7 @@ import picocli.CommandLine.Command;
         mixinStandardHelpOptions = true,
         versionProvider = VersionProvider.class,
         description = "Bayesian estimation for ratings given on scales: separates what respondents feel from how they use the scale.",
-        subcommands = {FitCommand.class, DemoCommand.class, ReportCommand.class, SimulateCommand.class, BenchmarkCommand.class, CalibrateCommand.class, RecoverCommand.class,
+        subcommands = {FitCommand.class, DemoCommand.class, ReportCommand.class, CompareCommand.class, SimulateCommand.class, BenchmarkCommand.class, CalibrateCommand.class, RecoverCommand.class,
                 CommandLine.HelpCommand.class})
 public final class Main implements Runnable {
     /** Exit code for unusable input or options. */

@@ -43,6 +43,12 @@ final class SamplingOptions {
             description = "Replace a default prior, e.g. level=normal(0,2.5) or group_sd=half-normal(0.5). Names: " + Priors.NAMES + ".")
     List<String> priors = new ArrayList<>();
 
+    @Option(names = "--cross-validate",
+            description = "Also estimate each respondent's leave-one-out predictive density by Pareto-smoothed importance "
+                    + "sampling (PSIS-LOO) and write cross_validation.csv, so that fits of different models to the same "
+                    + "rows can be compared with 'rungs compare'. Takes some seconds per 10,000 respondents.")
+    boolean crossValidate;
+
     @Option(names = "--chains", defaultValue = "4", description = "Number of chains. Default: ${DEFAULT-VALUE}.")
     int chains;
 

@@ -118,7 +118,7 @@ final class CommandLineTest {
     void topHelpListsTheSubcommands() {
         Run r = rungs("--help");
         assertEquals(0, r.exit());
-        for (String sub : List.of("fit", "demo", "simulate")) {
+        for (String sub : List.of("fit", "demo", "simulate", "compare")) {
             assertTrue(Pattern.compile("(?m)^\\s+" + sub + "\\s").matcher(r.out()).find(), () -> sub + " missing:\n" + r.out());
         }
     }
@@ -359,5 +359,33 @@ final class CommandLineTest {
         assertEquals(4L, jsonLong(json, "rows_used"));
         assertEquals(3L, jsonLong(json, "rows_excluded"));
         assertTrue(Pattern.compile("\"missing_by_column\":\\s*\\{\\s*\"rating\":\\s*3\\b").matcher(json).find(), json);
+    }
+
+    @Test
+    void crossValidatedFitsAreCompared() throws IOException {
+        Path plain = dir.resolve("plain");
+        Path coarse = dir.resolve("coarse");
+        String[] common = {simulated.toString(), "--rating", "rating", "--group", "region", "--level", "income,age",
+                "--seed", "4", "--cross-validate"};
+        Run r = rungs(fit(concat(common, "--style-classes", "none", "--out", plain.toString())));
+        assertEquals(0, r.exit(), r.err());
+        assertTrue(r.out().contains("Leave-one-out cross-validation (PSIS, 40 draws)"), r.out());
+        assertTrue(Files.readString(plain.resolve("run.json")).contains("\"cross_validate\": true"));
+        assertEquals(0, rungs(fit(concat(common, "--out", coarse.toString()))).exit());
+
+        Run compared = rungs("compare", plain.toString(), coarse.toString());
+        assertEquals(0, compared.exit(), compared.err());
+        assertTrue(compared.out().contains("elpd_diff"), compared.out());
+        assertTrue(compared.out().contains("Best predicted: "), compared.out());
+
+        Path uncrossed = dir.resolve("uncrossed");
+        assertEquals(0, rungs(fit(simulated.toString(), "--rating", "rating", "--group", "region", "--out",
+                uncrossed.toString())).exit());
+        Run refused = rungs("compare", plain.toString(), uncrossed.toString());
+        assertEquals(Main.INPUT_ERROR, refused.exit());
+        assertTrue(refused.err().contains("holds no cross_validation.csv: the fit ran without --cross-validate"), refused.err());
+        Run alone = rungs("compare", plain.toString());
+        assertEquals(2, alone.exit());
+        assertTrue(alone.err().contains("DIR"), alone.err());
     }
 }

@@ -35,11 +35,13 @@ public final class Demo {
     }
 
     /**
-     * Writes the demo survey and truth to {@code out} and returns the fit request.
+     * Writes the demo survey and truth to {@code out} and returns the fit request, with the
+     * leave-one-out cross-validation if {@code crossValidate}.
      *
      * @throws IllegalArgumentException if {@code out} holds another run and overwriting was not asked for
      */
-    public static Prepared prepare(Path out, boolean overwrite, ModelSpec model, SamplerSettings settings) {
+    public static Prepared prepare(Path out, boolean overwrite, ModelSpec model, SamplerSettings settings,
+            boolean crossValidate) {
         model.checkRatings(SCALE);
         OutputFolder folder = OutputFolder.check(out, overwrite);
         SimulatedSurvey data = Simulator.simulate(DemoScenario.scenario(), DemoScenario.SEED);
@@ -59,7 +61,8 @@ public final class Demo {
         options.put("thin", settings.thin());
         options.put("seed", settings.seed());
         options.put("threads", settings.threads());
-        return new Prepared(new FitRequest(file, spec, model, settings, out, true, options), data.truth());
+        options.put("cross_validate", crossValidate);
+        return new Prepared(new FitRequest(file, spec, model, settings, out, true, options, crossValidate), data.truth());
     }
 
     /** Common parameters and the per-group corrected means; group thresholds are counted, not shown. */

@@ -20,9 +20,11 @@ public final class Survey {
     private final Covariates style;
     private final double[] weight;
     private final Exclusions exclusions;
+    /** Each respondent's row in the file it was read from (1-based, the header being row 1); null in memory. */
+    private final int[] row;
 
     private Survey(Scale scale, byte[] category, int[] group, List<String> groupLabels, Covariates level,
-            Covariates style, double[] weight, Exclusions exclusions) {
+            Covariates style, double[] weight, Exclusions exclusions, int[] row) {
         this.scale = Objects.requireNonNull(scale, "scale");
         this.category = Objects.requireNonNull(category, "category");
         this.group = Objects.requireNonNull(group, "group");
@@ -31,11 +33,12 @@ public final class Survey {
         this.style = Objects.requireNonNull(style, "style");
         this.weight = weight;
         this.exclusions = Objects.requireNonNull(exclusions, "exclusions");
+        this.row = row;
         int n = category.length;
         if (n == 0) {
             throw new IllegalArgumentException("a survey needs at least one respondent");
         }
-        if (group.length != n || (weight != null && weight.length != n)) {
+        if (group.length != n || (weight != null && weight.length != n) || (row != null && row.length != n)) {
             throw new IllegalArgumentException("columns differ in length: " + n + " categories, " + group.length
                     + " groups" + (weight == null ? "" : ", " + weight.length + " weights"));
         }
@@ -89,12 +92,12 @@ public final class Survey {
     public static Survey of(Scale scale, byte[] category, int[] group, List<String> groupLabels, Covariates level,
             Covariates style, double[] weight) {
         return new Survey(scale, category, group, groupLabels, level, style, weight,
-                Exclusions.none(category.length));
+                Exclusions.none(category.length), null);
     }
 
     static Survey read(Scale scale, byte[] category, int[] group, List<String> groupLabels, Covariates level,
-            Covariates style, double[] weight, Exclusions exclusions) {
-        return new Survey(scale, category, group, groupLabels, level, style, weight, exclusions);
+            Covariates style, double[] weight, Exclusions exclusions, int[] row) {
+        return new Survey(scale, category, group, groupLabels, level, style, weight, exclusions, row);
     }
 
     /**
@@ -105,14 +108,18 @@ public final class Survey {
         byte[] c = new byte[order.length];
         int[] g = new int[order.length];
         double[] w = weight == null ? null : new double[order.length];
+        int[] at = row == null ? null : new int[order.length];
         for (int r = 0; r < order.length; r++) {
             c[r] = category[order[r]];
             g[r] = group[order[r]];
             if (w != null) {
                 w[r] = weight[order[r]];
             }
+            if (at != null) {
+                at[r] = row[order[r]];
+            }
         }
-        return new Survey(scale, c, g, groupLabels, level.permuted(order), style.permuted(order), w, exclusions);
+        return new Survey(scale, c, g, groupLabels, level.permuted(order), style.permuted(order), w, exclusions, at);
     }
 
     /** Position of each rating on the scale, {@code rating - lowest}, in 0..M-1. */
@@ -163,5 +170,13 @@ public final class Survey {
 
     public Exclusions exclusions() {
         return exclusions;
+    }
+
+    /**
+     * Each respondent's row in the file it was read from, as the reader's messages number rows
+     * (1-based, the header being row 1), or null for a survey built in memory.
+     */
+    public int[] row() {
+        return row;
     }
 }

@@ -94,6 +94,8 @@ public final class SurveyReader {
 
     private int size;
     private byte[] category = new byte[1 << 12];
+    /** The file row of each kept record, for the per-respondent outputs. */
+    private int[] row = new int[1 << 12];
     private int[] group = new int[1 << 12];
     private double[] weight;
     private long rowsRead;
@@ -191,7 +193,7 @@ public final class SurveyReader {
         Covariates level = covariates(spec.levelColumns());
         Covariates style = covariates(spec.styleColumns());
         return Survey.read(spec.scale(), Arrays.copyOf(category, size), Arrays.copyOf(group, size), groupLabels,
-                level, style, weight == null ? null : Arrays.copyOf(weight, size), exclusions);
+                level, style, weight == null ? null : Arrays.copyOf(weight, size), exclusions, Arrays.copyOf(row, size));
     }
 
     private void locateColumns(List<String> header) throws SurveyInputException {
@@ -290,6 +292,7 @@ public final class SurveyReader {
         }
         category[size] = (byte) position;
         group[size] = g;
+        row[size] = (int) Math.min(t.recordLine, Integer.MAX_VALUE);
         groupRowsUsed[g]++;
         if (weight != null) {
             weight[size] = w;
@@ -390,6 +393,7 @@ public final class SurveyReader {
         int capacity = 2 * category.length;
         category = Arrays.copyOf(category, capacity);
         group = Arrays.copyOf(group, capacity);
+        row = Arrays.copyOf(row, capacity);
         if (weight != null) {
             weight = Arrays.copyOf(weight, capacity);
         }

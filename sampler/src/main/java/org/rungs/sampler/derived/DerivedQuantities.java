@@ -201,7 +201,8 @@ public final class DerivedQuantities {
         return z ^ (z >>> 31);
     }
 
-    private static void run(Runnable worker, int workers) {
+    /** Runs {@code worker} on {@code workers} threads at once and waits for all of them. */
+    static void run(Runnable worker, int workers) {
         if (workers == 1) {
             worker.run();
             return;

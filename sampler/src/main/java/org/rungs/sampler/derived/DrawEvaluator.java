@@ -19,7 +19,6 @@ import org.rungs.priors.StandardNormal;
  * Not thread-safe; one instance per worker.
  */
 final class DrawEvaluator {
-    private final ParameterLayout layout;
     private final DerivedColumns columns;
     private final int[] group;
     private final double[] weight;
@@ -30,8 +29,6 @@ final class DrawEvaluator {
     private final boolean byGroup;
     private final boolean coarse;
     private final boolean attraction;
-    /** Positions (rating - L) of the attraction set A, in the order of the layout. */
-    private final int[] attracted;
     private final double[][] levelColumns;
     private final double[][] styleColumns;
     private final double[] levelScale;
@@ -47,6 +44,7 @@ final class DrawEvaluator {
     private final double totalWeight;
     private final double[] reportedMeans;
 
+    private final DrawParameters parameters;
     private final double[] alpha;
     private final double[] gamma;
     private final double[] beta;
@@ -79,7 +77,6 @@ final class DrawEvaluator {
 
     DrawEvaluator(Survey survey, ParameterLayout layout, DerivedColumns columns, RoundingChannel channel,
             StylePartition partition, double[] groupWeight, double[] reportedMeans) {
-        this.layout = layout;
         this.columns = columns;
         this.group = survey.group();
         this.weight = survey.weight();
@@ -89,12 +86,7 @@ final class DrawEvaluator {
         this.lowest = survey.scale().lowest();
         this.byGroup = layout.groupThresholdOffset() >= 0;
         this.coarse = channel != null;
-        int[] set = layout.attractionSet();
-        this.attraction = set.length > 0;
-        this.attracted = new int[set.length];
-        for (int j = 0; j < set.length; j++) {
-            attracted[j] = set[j] - lowest;
-        }
+        this.attraction = layout.attractionSet().length > 0;
         this.partition = partition;
         this.groupWeight = groupWeight;
         double total = 0;
@@ -147,18 +139,14 @@ final class DrawEvaluator {
             roundHigh = null;
         }
 
-        alpha = new double[groups];
-        gamma = new double[groups];
-        beta = new double[p];
-        delta = new double[q];
-        thresholds = new double[groups * (categories + 1)];
-        common = new double[categories + 1];
-        common[0] = Double.NEGATIVE_INFINITY;
-        common[categories] = Double.POSITIVE_INFINITY;
-        for (int g = 0; g < groups; g++) {
-            thresholds[g * (categories + 1)] = Double.NEGATIVE_INFINITY;
-            thresholds[g * (categories + 1) + categories] = Double.POSITIVE_INFINITY;
-        }
+        parameters = new DrawParameters(layout, groups, categories, lowest, coarse);
+        alpha = parameters.alpha;
+        gamma = parameters.gamma;
+        beta = parameters.beta;
+        delta = parameters.delta;
+        thresholds = parameters.thresholds;
+        common = parameters.common;
+        tilt = parameters.tilt;
         eta = new double[size];
         styleIndex = new double[size];
         own = new double[categories + 1];
@@ -168,8 +156,6 @@ final class DrawEvaluator {
         harmonised[categories] = 1;
         intendedSum = new double[groups * categories];
         harmonisedSum = new double[groups * categories];
-        tilt = new double[groups * categories];
-        Arrays.fill(tilt, 1);
         tilted = new double[categories];
         attractedSum = new double[groups * categories];
         replicated = new int[groups * categories];
@@ -182,7 +168,7 @@ final class DrawEvaluator {
 
     /** Fills {@code row} (in the order of {@link DerivedColumns}) from draw (chain, iteration). */
     void evaluate(Draws draws, int chain, int iteration, UniformRandomProvider rng, double[] row) {
-        read(draws, chain, iteration);
+        parameters.read(draws, chain, iteration);
         linearPredictors();
         Arrays.fill(changeSum, 0);
         slopeSum = 0;
@@ -325,44 +311,6 @@ final class DrawEvaluator {
             expected += StandardNormal.cdf(e - thresholds[base + t]);
         }
         return expected;
-    }
-
-    private void read(Draws draws, int chain, int iteration) {
-        int m = categories;
-        for (int g = 0; g < groups; g++) {
-            alpha[g] = draws.get(layout.groupOffset() >= 0 ? layout.groupOffset() + g : layout.groupMeanIndex(),
-                    chain, iteration);
-        }
-        for (int j = 0; j < beta.length; j++) {
-            beta[j] = draws.get(layout.levelOffset() + j, chain, iteration);
-        }
-        for (int t = 1; t < m; t++) {
-            common[t] = draws.get(layout.thresholdOffset() + t - 1, chain, iteration);
-        }
-        for (int g = 0; g < groups; g++) {
-            for (int t = 1; t < m; t++) {
-                thresholds[g * (m + 1) + t] = byGroup
-                        ? draws.get(layout.groupThresholdOffset() + g * (m - 1) + t - 1, chain, iteration)
-                        : common[t];
-            }
-        }
-        if (coarse) {
-            for (int g = 0; g < groups; g++) {
-                gamma[g] = draws.get(layout.styleGroupOffset() >= 0 ? layout.styleGroupOffset() + g
-                        : layout.styleMeanIndex(), chain, iteration);
-            }
-            for (int j = 0; j < delta.length; j++) {
-                delta[j] = draws.get(layout.styleOffset() + j, chain, iteration);
-            }
-        }
-        // a[g,j] with several groups, else the common a[j] (ParameterLayout)
-        int groupAttraction = layout.groupAttractionOffset();
-        for (int g = 0; g < groups; g++) {
-            for (int j = 0; j < attracted.length; j++) {
-                int column = groupAttraction >= 0 ? groupAttraction + g * attracted.length + j : layout.attractionOffset() + j;
-                tilt[g * m + attracted[j]] = Math.exp(draws.get(column, chain, iteration));
-            }
-        }
     }
 
     /** eta_i = alpha[g_i] + x_i' beta (MODEL.md 2) and w_i' delta (MODEL.md 4), column by column. */

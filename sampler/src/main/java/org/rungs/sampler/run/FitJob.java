@@ -16,6 +16,7 @@ import org.rungs.models.NumberAttraction;
 import org.rungs.models.ParameterLayout;
 import org.rungs.models.StyleClasses;
 import org.rungs.sampler.derived.AttractionProfile;
+import org.rungs.sampler.derived.CrossValidation;
 import org.rungs.sampler.derived.DerivedQuantities;
 import org.rungs.sampler.derived.DerivedResult;
 import org.rungs.models.survey.Exclusions;
@@ -156,6 +157,17 @@ public final class FitJob {
             derivedSummaries = Summaries.of(derived.draws());
             comparison = writeDerived(request, survey, folder, derived, derivedSummaries, err, stop);
         }
+        CrossValidation crossValidation = null;
+        if (request.crossValidate() && result.draws().iterations() >= MIN_DERIVED_ITERATIONS) {
+            err.println(String.format(Locale.ROOT, "rungs: cross-validating %,d respondents at the %,d derived draws (PSIS-LOO)...",
+                    survey.size(), derived.draws().iterations() * derived.draws().chains()));
+            long started = System.nanoTime();
+            CrossValidation cv = CrossValidation.compute(survey, result.draws(), result.layout(), request.model(),
+                    DERIVED_DRAWS, request.settings().threads());
+            folder.write("cross_validation.csv", cv::write);
+            err.println(String.format(Locale.ROOT, "rungs: cross-validated in %.1f s", (System.nanoTime() - started) / 1e9));
+            crossValidation = cv;
+        }
         record.put("input", input(request, survey, exclusions, sha256, readSeconds));
         record.put("options", request.options());
         record.put("model", model(request, survey, result.layout()));
@@ -175,6 +187,9 @@ public final class FitJob {
                 record.warn(warning);
                 err.println("warning: " + warning);
             }
+        }
+        if (crossValidation != null) {
+            record.put("cross_validation", crossValidation.record());
         }
         if (derivedSummaries.stream().anyMatch(ParameterSummary::flagged)) {
             record.warn("derived quantities: " + SummaryTable.verdict(derivedSummaries));
@@ -200,6 +215,10 @@ public final class FitJob {
             out.println();
             out.print(AttractionWords.format(profile, survey.groupLabels()));
         }
+        if (crossValidation != null) {
+            out.println();
+            out.println(crossValidation.describe());
+        }
         if (!converged && !result.interrupted()) {
             out.println(LongerChains.advice(summaries, derivedSummaries, request.settings().chains(),
                     request.settings().thin()));
@@ -208,7 +227,8 @@ public final class FitJob {
                 + (attraction ? ", attraction.csv" : "") + ", derived_draws.csv, "
                 + "derived_summary.csv, groups.csv, distributions.csv"
                 + (request.model().styleClasses().coarse() ? ", coarse_shares.csv" : "")
-                + (survey.level().count() > 0 ? ", coefficients.csv" : "") + ", run.json");
+                + (survey.level().count() > 0 ? ", coefficients.csv" : "")
+                + (crossValidation != null ? ", cross_validation.csv" : "") + ", run.json");
         if (result.interrupted()) {
             err.println("rungs: interrupted; " + whereSaved);
         }

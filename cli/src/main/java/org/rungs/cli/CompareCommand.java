@@ -1,0 +1,32 @@
+package org.rungs.cli;
+
+import java.io.IOException;
+import java.nio.file.Path;
+import java.util.List;
+import java.util.concurrent.Callable;
+import org.rungs.posteriors.report.CrossValidationComparison;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Parameters;
+
+/** {@code rungs compare DIR DIR...}: fits of different models to the same rows, by leave-one-out predictive accuracy. */
+@Command(name = "compare",
+        mixinStandardHelpOptions = true,
+        description = {"Compares fits of different models to the same rows of the same file (say with and without "
+                + "--attraction) by their leave-one-out predictive accuracy: each fit must have been run with "
+                + "--cross-validate. Prints per fit elpd_loo with its standard error, p_loo, and the difference from the "
+                + "best fit with the standard error of that difference, paired respondent by respondent."})
+public final class CompareCommand implements Callable<Integer> {
+    @Parameters(arity = "2..*", paramLabel = "DIR", description = "Fit folders written by 'rungs fit --cross-validate'.")
+    List<Path> dirs;
+
+    @Override
+    public Integer call() {
+        try {
+            System.out.print(CrossValidationComparison.format(CrossValidationComparison.compare(dirs)));
+            return 0;
+        } catch (IOException e) {
+            System.err.println("rungs compare: " + e.getMessage());
+            return Main.INPUT_ERROR;
+        }
+    }
+}

@@ -1,0 +1,249 @@
+package org.rungs.posteriors.report;
+
+import java.io.BufferedReader;
+import java.io.IOException;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.Comparator;
+import java.util.List;
+import java.util.Locale;
+import org.rungs.posteriors.LeaveOneOut;
+
+/**
+ * Fits of different models to the same rows of the same file, compared by their leave-one-out
+ * predictive accuracy (each fit's {@code cross_validation.csv}): the difference of elpd_loo from
+ * the best fit and its standard error, sqrt(n) times the sd of the pointwise differences
+ * (Vehtari, Gelman & Gabry 2017, Statistics and Computing 27, eq. 24). The pointwise differences
+ * are paired by the file's row, so the fits must have used the same rows; a difference of a few
+ * standard errors or less does not tell the models apart (same paper, section 5.2).
+ */
+public final class CrossValidationComparison {
+    /** The file every fit folder of a comparison must hold. */
+    public static final String FILE = "cross_validation.csv";
+
+    /**
+     * One fit in the comparison.
+     *
+     * @param dir        the fit folder
+     * @param model      the model in words, from run.json
+     * @param elpd       elpd_loo
+     * @param se         its standard error
+     * @param mcse       its Monte Carlo standard error
+     * @param effective  p_loo
+     * @param unreliable respondents whose Pareto k exceeds 0.7
+     * @param difference elpd_loo minus the best fit's (0 for the best)
+     * @param differenceSe the standard error of that difference (0 for the best)
+     */
+    public record Fit(Path dir, String model, double elpd, double se, double mcse, double effective, int unreliable,
+                      double difference, double differenceSe) {
+    }
+
+    private CrossValidationComparison() {
+    }
+
+    /**
+     * Reads the fit folders and compares them, best first.
+     *
+     * @throws IOException when a folder is not a cross-validated fit, the fits read different files
+     *                     or used different rows, or a file is malformed; the message says which
+     */
+    public static List<Fit> compare(List<Path> dirs) throws IOException {
+        if (dirs.size() < 2) {
+            throw new IOException("name at least two fit folders to compare, got " + dirs.size());
+        }
+        List<Pointwise> fits = new ArrayList<>();
+        for (Path dir : dirs) {
+            fits.add(Pointwise.read(dir));
+        }
+        Pointwise first = fits.get(0);
+        for (Pointwise other : fits.subList(1, fits.size())) {
+            first.checkSameRows(other);
+        }
+        Pointwise best = fits.stream().max(Comparator.comparingDouble(Pointwise::total)).orElseThrow();
+        List<Fit> out = new ArrayList<>();
+        for (Pointwise f : fits) {
+            int n = f.elpd.length;
+            double[] difference = new double[n];
+            for (int i = 0; i < n; i++) {
+                difference[i] = f.elpd[i] - best.elpd[i];
+            }
+            out.add(new Fit(f.dir, f.model, f.total(), LeaveOneOut.standardError(f.elpd), f.mcse(), LeaveOneOut.total(f.effective), f.unreliable(),
+                    LeaveOneOut.total(difference), f == best ? 0 : LeaveOneOut.standardError(difference)));
+        }
+        out.sort(Comparator.comparingDouble(Fit::difference).reversed());
+        return out;
+    }
+
+    /** The comparison as a table and a sentence on how to read it. */
+    public static String format(List<Fit> fits) {
+        StringBuilder b = new StringBuilder();
+        b.append(String.format(Locale.ROOT, "%-24s %12s %8s %8s %12s %8s %6s  %s%n", "fit", "elpd_loo", "se", "p_loo",
+                "elpd_diff", "se_diff", "k>0.7", "model"));
+        for (Fit f : fits) {
+            b.append(String.format(Locale.ROOT, "%-24s %12.1f %8.1f %8.1f %12.1f %8.1f %6d  %s%n", f.dir(), f.elpd(), f.se(),
+                    f.effective(), f.difference(), f.differenceSe(), f.unreliable(), f.model()));
+        }
+        Fit best = fits.get(0);
+        b.append("Best predicted: " + best.dir() + ". elpd_diff is each fit's elpd_loo minus the best's, respondent by"
+                + " respondent (paired by the file's row); a difference within about 2 se_diff, or of a few units, does not"
+                + " tell the models apart (Vehtari, Gelman & Gabry 2017, section 5.2).");
+        b.append(System.lineSeparator());
+        if (fits.stream().anyMatch(f -> f.unreliable() > 0)) {
+            b.append("Some respondents have Pareto k above 0.7, where the importance sampling is unreliable; read those fits'"
+                    + " figures with care (their cross_validation.csv lists the respondents).");
+            b.append(System.lineSeparator());
+        }
+        return b.toString();
+    }
+
+    /** One fit folder's pointwise values, in the order of the file's rows. */
+    private static final class Pointwise {
+        final Path dir;
+        final String sha256;
+        final String model;
+        final int[] row;
+        final double[] elpd;
+        final double[] effective;
+        final double[] paretoK;
+        final double[] mcse;
+
+        private Pointwise(Path dir, String sha256, String model, int[] row, double[] elpd, double[] effective,
+                double[] paretoK, double[] mcse) {
+            this.dir = dir;
+            this.sha256 = sha256;
+            this.model = model;
+            this.row = row;
+            this.elpd = elpd;
+            this.effective = effective;
+            this.paretoK = paretoK;
+            this.mcse = mcse;
+        }
+
+        static Pointwise read(Path dir) throws IOException {
+            Path runFile = dir.resolve("run.json");
+            if (!Files.isRegularFile(runFile)) {
+                throw new IOException(dir + " is not a fit folder: run.json is missing");
+            }
+            Object run = Json.parse(Files.readString(runFile, StandardCharsets.UTF_8));
+            Path file = dir.resolve(FILE);
+            if (!Files.isRegularFile(file)) {
+                throw new IOException(dir + " holds no " + FILE + ": the fit ran without --cross-validate; fit it again with"
+                        + " --cross-validate");
+            }
+            Object sha = Json.at(run, "input.sha256");
+            if (!(sha instanceof String)) {
+                throw new IOException(runFile + ": no input.sha256; expected the run record of a fit");
+            }
+            int capacity = 1 << 12;
+            int[] row = new int[capacity];
+            double[] elpd = new double[capacity];
+            double[] effective = new double[capacity];
+            double[] paretoK = new double[capacity];
+            double[] mcse = new double[capacity];
+            int n = 0;
+            try (BufferedReader in = Files.newBufferedReader(file, StandardCharsets.UTF_8)) {
+                String header = in.readLine();
+                if (header == null || !header.startsWith("row,rating,elpd_loo,p_loo,pareto_k,mcse_elpd_loo")) {
+                    throw new IOException(file + ", row 1: expected the header row,rating,elpd_loo,p_loo,pareto_k,"
+                            + "mcse_elpd_loo,group");
+                }
+                int line = 1;
+                for (String text = in.readLine(); text != null; text = in.readLine()) {
+                    line++;
+                    String[] field = text.split(",", 7);
+                    if (n == row.length) {
+                        int grown = 2 * n;
+                        row = Arrays.copyOf(row, grown);
+                        elpd = Arrays.copyOf(elpd, grown);
+                        effective = Arrays.copyOf(effective, grown);
+                        paretoK = Arrays.copyOf(paretoK, grown);
+                        mcse = Arrays.copyOf(mcse, grown);
+                    }
+                    try {
+                        row[n] = Integer.parseInt(field[0]);
+                        elpd[n] = Double.parseDouble(field[2]);
+                        effective[n] = Double.parseDouble(field[3]);
+                        paretoK[n] = Double.parseDouble(field[4]);
+                        mcse[n] = Double.parseDouble(field[5]);
+                    } catch (NumberFormatException | ArrayIndexOutOfBoundsException e) {
+                        throw new IOException(file + ", row " + line + ": expected a row number and five numbers before the"
+                                + " group, got " + text);
+                    }
+                    if (n > 0 && row[n] <= row[n - 1]) {
+                        throw new IOException(file + ", row " + line + ": the rows are not in increasing order (" + row[n]
+                                + " after " + row[n - 1] + ")");
+                    }
+                    n++;
+                }
+            }
+            if (n == 0) {
+                throw new IOException(file + ": no respondents after the header");
+            }
+            return new Pointwise(dir, (String) sha, model(run), Arrays.copyOf(row, n), Arrays.copyOf(elpd, n),
+                    Arrays.copyOf(effective, n), Arrays.copyOf(paretoK, n), Arrays.copyOf(mcse, n));
+        }
+
+        /** The model's switches from run.json, in a few words. */
+        private static String model(Object run) {
+            Object classes = Json.at(run, "model.style_classes");
+            Object attraction = Json.at(run, "model.attraction");
+            Object thresholds = Json.at(run, "model.thresholds");
+            return "style classes " + classes + ", attraction " + attraction + ", thresholds " + thresholds;
+        }
+
+        void checkSameRows(Pointwise other) throws IOException {
+            if (!sha256.equals(other.sha256)) {
+                throw new IOException(dir + " and " + other.dir + " were fitted to different files (SHA-256 " + sha256
+                        + " and " + other.sha256 + "); compare fits of the same file");
+            }
+            if (!Arrays.equals(row, other.row)) {
+                int onlyHere = 0;
+                int onlyThere = 0;
+                int i = 0;
+                int j = 0;
+                int firstDiffering = -1;
+                while (i < row.length || j < other.row.length) {
+                    if (j == other.row.length || i < row.length && row[i] < other.row[j]) {
+                        firstDiffering = firstDiffering < 0 ? row[i] : firstDiffering;
+                        onlyHere++;
+                        i++;
+                    } else if (i == row.length || other.row[j] < row[i]) {
+                        firstDiffering = firstDiffering < 0 ? other.row[j] : firstDiffering;
+                        onlyThere++;
+                        j++;
+                    } else {
+                        i++;
+                        j++;
+                    }
+                }
+                throw new IOException(dir + " and " + other.dir + " used different rows of the file (" + rows(onlyHere)
+                        + " only in the first, " + rows(onlyThere) + " only in the second, the first of them row "
+                        + firstDiffering + "), as happens when a covariate that one fit uses is missing in some rows;"
+                        + " compare fits of the same rows");
+            }
+        }
+
+        private static String rows(int count) {
+            return count + (count == 1 ? " row" : " rows");
+        }
+
+        double total() {
+            return LeaveOneOut.total(elpd);
+        }
+
+        double mcse() {
+            return LeaveOneOut.combinedMcse(mcse);
+        }
+
+        int unreliable() {
+            int count = 0;
+            for (double k : paretoK) {
+                count += k > 0.7 ? 1 : 0;
+            }
+            return count;
+        }
+    }
+}
