@@ -148,6 +148,19 @@ public final class CrossValidation {
         return elpd.length;
     }
 
+    /** Respondent i's elpd_loo, Pareto k and Monte Carlo se, i in the survey's order. */
+    double elpd(int i) {
+        return elpd[i];
+    }
+
+    double paretoK(int i) {
+        return paretoK[i];
+    }
+
+    double mcse(int i) {
+        return mcse[i];
+    }
+
     /** Draws per respondent. */
     public int draws() {
         return draws;
