@@ -136,6 +136,18 @@ public final class Report {
             Html.row(out, "joint step: stopped on a wall per chain", Html.escape(fit.text("sampler.joint_step_walls_per_chain", "")));
         }
         Html.tableEnd(out);
+        if (!fit.map("cross_validation").isEmpty()) {
+            // rungs fit --cross-validate (CrossValidation in sampler); compare fits with rungs compare
+            out.append("<h3>Leave-one-out predictive accuracy</h3>\n");
+            Html.tableHead(out, "facts", List.of("", ""));
+            Html.row(out, "elpd_loo (se)", Html.escape(String.format(Locale.ROOT, "%,.1f (%.1f)",
+                    fit.number("cross_validation.elpd_loo"), fit.number("cross_validation.elpd_loo_se"))));
+            Html.row(out, "p_loo", Html.escape(String.format(Locale.ROOT, "%.1f", fit.number("cross_validation.p_loo"))));
+            Html.row(out, "respondents with Pareto k above 0.7", Html.escape(String.format(Locale.ROOT, "%,.0f of %,.0f",
+                    fit.number("cross_validation.pareto_k_bad") + fit.number("cross_validation.pareto_k_very_bad"),
+                    fit.number("cross_validation.respondents"))));
+            Html.tableEnd(out);
+        }
         out.append("</div></div>\n<h3>The model in plain words</h3>\n<ul>\n");
         for (String sentence : ModelWords.describe(fit)) {
             out.append("<li>").append(Html.escape(sentence)).append("</li>\n");

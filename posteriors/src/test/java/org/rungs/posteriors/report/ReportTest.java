@@ -139,6 +139,8 @@ class ReportTest {
         assertTrue(html.contains("The plain ordered probit's chains (4 of 1000 warm-up and 1000 kept iterations): All 153 "
                 + "quantities converged"), "the comparison fit's own verdict from run.json");
         assertFalse(html.contains("has not converged"));
+        assertTrue(html.contains("elpd_loo (se)</td><td>-33,438.5 (97.6)"), "cross-validation from run.json");
+        assertTrue(html.contains("Pareto k above 0.7</td><td>3 of 18,000"), "bad and very bad k counted together");
     }
 
     @Test
