@@ -80,11 +80,12 @@ public final class CrossValidationComparison {
     /** The comparison as a table and a sentence on how to read it. */
     public static String format(List<Fit> fits) {
         StringBuilder b = new StringBuilder();
-        b.append(String.format(Locale.ROOT, "%-24s %12s %8s %8s %12s %8s %6s  %s%n", "fit", "elpd_loo", "se", "p_loo",
+        int width = Math.max(3, fits.stream().mapToInt(f -> f.dir().toString().length()).max().orElse(3));
+        b.append(String.format(Locale.ROOT, "%-" + width + "s %12s %8s %8s %12s %8s %6s  %s%n", "fit", "elpd_loo", "se", "p_loo",
                 "elpd_diff", "se_diff", "k>0.7", "model"));
         for (Fit f : fits) {
-            b.append(String.format(Locale.ROOT, "%-24s %12.1f %8.1f %8.1f %12.1f %8.1f %6d  %s%n", f.dir(), f.elpd(), f.se(),
-                    f.effective(), f.difference(), f.differenceSe(), f.unreliable(), f.model()));
+            b.append(String.format(Locale.ROOT, "%-" + width + "s %12.1f %8.1f %8.1f %12.1f %8.1f %6d  %s%n", f.dir(), f.elpd(),
+                    f.se(), f.effective(), f.difference(), f.differenceSe(), f.unreliable(), f.model()));
         }
         Fit best = fits.get(0);
         b.append("Best predicted: " + best.dir() + ". elpd_diff is each fit's elpd_loo minus the best's, respondent by"
