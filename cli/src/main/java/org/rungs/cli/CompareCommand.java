@@ -6,6 +6,7 @@ import java.util.List;
 import java.util.concurrent.Callable;
 import org.rungs.posteriors.report.CrossValidationComparison;
 import picocli.CommandLine.Command;
+import picocli.CommandLine.Option;
 import picocli.CommandLine.Parameters;
 
 /** {@code rungs compare DIR DIR...}: fits of different models to the same rows, by leave-one-out predictive accuracy. */
@@ -19,10 +20,19 @@ public final class CompareCommand implements Callable<Integer> {
     @Parameters(arity = "2..*", paramLabel = "DIR", description = "Fit folders written by 'rungs fit --cross-validate'.")
     List<Path> dirs;
 
+    @Option(names = "--by-group", description = "Also give, per group, each fit's elpd_loo minus the best fit's and its "
+            + "standard error: where a model predicts better or worse.")
+    boolean byGroup;
+
     @Override
     public Integer call() {
         try {
-            System.out.print(CrossValidationComparison.format(CrossValidationComparison.compare(dirs)));
+            List<CrossValidationComparison.Fit> fits = CrossValidationComparison.compare(dirs);
+            System.out.print(CrossValidationComparison.format(fits));
+            if (byGroup) {
+                System.out.println();
+                System.out.print(CrossValidationComparison.formatByGroup(fits));
+            }
             return 0;
         } catch (IOException e) {
             System.err.println("rungs compare: " + e.getMessage());

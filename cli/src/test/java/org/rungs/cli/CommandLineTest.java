@@ -377,6 +377,9 @@ final class CommandLineTest {
         assertEquals(0, compared.exit(), compared.err());
         assertTrue(compared.out().contains("elpd_diff"), compared.out());
         assertTrue(compared.out().contains("Best predicted: "), compared.out());
+        Run byGroup = rungs("compare", "--by-group", plain.toString(), coarse.toString());
+        assertEquals(0, byGroup.exit(), byGroup.err());
+        assertTrue(byGroup.out().contains("elpd_diff by group against the best fit"), byGroup.out());
 
         Path uncrossed = dir.resolve("uncrossed");
         assertEquals(0, rungs(fit(simulated.toString(), "--rating", "rating", "--group", "region", "--out",

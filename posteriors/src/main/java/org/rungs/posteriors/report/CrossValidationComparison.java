@@ -8,8 +8,10 @@ import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.Comparator;
+import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
+import java.util.Map;
 import org.rungs.posteriors.LeaveOneOut;
 
 /**
@@ -36,9 +38,20 @@ public final class CrossValidationComparison {
      * @param unreliable respondents whose Pareto k exceeds 0.7
      * @param difference elpd_loo minus the best fit's (0 for the best)
      * @param differenceSe the standard error of that difference (0 for the best)
+     * @param byGroup    the difference and its standard error over each group's respondents
      */
     public record Fit(Path dir, String model, double elpd, double se, double mcse, double effective, int unreliable,
-                      double difference, double differenceSe) {
+                      double difference, double differenceSe, List<GroupDifference> byGroup) {
+        public Fit {
+            byGroup = List.copyOf(byGroup);
+        }
+    }
+
+    /**
+     * A fit's elpd_loo minus the best fit's over one group's respondents, and its standard error
+     * (the same formula within the group): where a model predicts better or worse.
+     */
+    public record GroupDifference(String group, int respondents, double difference, double differenceSe) {
     }
 
     private CrossValidationComparison() {
@@ -70,11 +83,63 @@ public final class CrossValidationComparison {
             for (int i = 0; i < n; i++) {
                 difference[i] = f.elpd[i] - best.elpd[i];
             }
-            out.add(new Fit(f.dir, f.model, f.total(), LeaveOneOut.standardError(f.elpd), f.mcse(), LeaveOneOut.total(f.effective), f.unreliable(),
-                    LeaveOneOut.total(difference), f == best ? 0 : LeaveOneOut.standardError(difference)));
+            out.add(new Fit(f.dir, f.model, f.total(), LeaveOneOut.standardError(f.elpd), f.mcse(),
+                    LeaveOneOut.total(f.effective), f.unreliable(), LeaveOneOut.total(difference),
+                    f == best ? 0 : LeaveOneOut.standardError(difference), byGroup(first, difference, f == best)));
         }
         out.sort(Comparator.comparingDouble(Fit::difference).reversed());
         return out;
+    }
+
+    /** The pointwise differences summed within each group of {@code rows}, in order of the groups' first rows. */
+    private static List<GroupDifference> byGroup(Pointwise rows, double[] difference, boolean best) {
+        int groups = rows.labels.size();
+        int[] size = new int[groups];
+        for (int g : rows.group) {
+            size[g]++;
+        }
+        double[][] part = new double[groups][];
+        for (int g = 0; g < groups; g++) {
+            part[g] = new double[size[g]];
+        }
+        int[] filled = new int[groups];
+        for (int i = 0; i < difference.length; i++) {
+            int g = rows.group[i];
+            part[g][filled[g]++] = difference[i];
+        }
+        List<GroupDifference> out = new ArrayList<>();
+        for (int g = 0; g < groups; g++) {
+            out.add(new GroupDifference(rows.labels.get(g), size[g], LeaveOneOut.total(part[g]),
+                    best ? 0 : LeaveOneOut.standardError(part[g])));
+        }
+        return out;
+    }
+
+    /**
+     * Per group, each fit's elpd_loo minus the best fit's with its standard error, one column per
+     * fit but the best.
+     */
+    public static String formatByGroup(List<Fit> fits) {
+        StringBuilder b = new StringBuilder();
+        List<GroupDifference> first = fits.get(0).byGroup();
+        int width = Math.max(5, first.stream().mapToInt(d -> d.group().length()).max().orElse(5));
+        b.append("elpd_diff by group against the best fit, ").append(fits.get(0).dir()).append(", with its se:")
+                .append(System.lineSeparator());
+        b.append(String.format(Locale.ROOT, "%-" + width + "s %11s", "group", "respondents"));
+        for (Fit f : fits.subList(1, fits.size())) {
+            b.append(String.format(Locale.ROOT, "  %22s", f.dir()));
+        }
+        b.append(System.lineSeparator());
+        for (int g = 0; g < first.size(); g++) {
+            b.append(String.format(Locale.ROOT, "%-" + width + "s %11d", first.get(g).group(), first.get(g).respondents()));
+            for (Fit f : fits.subList(1, fits.size())) {
+                GroupDifference d = f.byGroup().get(g);
+                b.append(String.format(Locale.ROOT, "  %22s", String.format(Locale.ROOT, "%.1f (%.1f)", d.difference(),
+                        d.differenceSe())));
+            }
+            b.append(System.lineSeparator());
+        }
+        return b.toString();
     }
 
     /** The comparison as a table and a sentence on how to read it. */
@@ -110,9 +175,12 @@ public final class CrossValidationComparison {
         final double[] effective;
         final double[] paretoK;
         final double[] mcse;
+        /** Each respondent's group, numbered in order of first appearance, and the labels. */
+        final int[] group;
+        final List<String> labels;
 
         private Pointwise(Path dir, String sha256, String model, int[] row, double[] elpd, double[] effective,
-                double[] paretoK, double[] mcse) {
+                double[] paretoK, double[] mcse, int[] group, List<String> labels) {
             this.dir = dir;
             this.sha256 = sha256;
             this.model = model;
@@ -121,6 +189,8 @@ public final class CrossValidationComparison {
             this.effective = effective;
             this.paretoK = paretoK;
             this.mcse = mcse;
+            this.group = group;
+            this.labels = labels;
         }
 
         static Pointwise read(Path dir) throws IOException {
@@ -144,6 +214,8 @@ public final class CrossValidationComparison {
             double[] effective = new double[capacity];
             double[] paretoK = new double[capacity];
             double[] mcse = new double[capacity];
+            int[] group = new int[capacity];
+            Map<String, Integer> groupIndex = new LinkedHashMap<>();
             int n = 0;
             try (BufferedReader in = Files.newBufferedReader(file, StandardCharsets.UTF_8)) {
                 String header = in.readLine();
@@ -162,6 +234,7 @@ public final class CrossValidationComparison {
                         effective = Arrays.copyOf(effective, grown);
                         paretoK = Arrays.copyOf(paretoK, grown);
                         mcse = Arrays.copyOf(mcse, grown);
+                        group = Arrays.copyOf(group, grown);
                     }
                     try {
                         row[n] = Integer.parseInt(field[0]);
@@ -169,6 +242,7 @@ public final class CrossValidationComparison {
                         effective[n] = Double.parseDouble(field[3]);
                         paretoK[n] = Double.parseDouble(field[4]);
                         mcse[n] = Double.parseDouble(field[5]);
+                        group[n] = groupIndex.computeIfAbsent(unquote(field[6]), label -> groupIndex.size());
                     } catch (NumberFormatException | ArrayIndexOutOfBoundsException e) {
                         throw new IOException(file + ", row " + line + ": expected a row number and five numbers before the"
                                 + " group, got " + text);
@@ -184,7 +258,14 @@ public final class CrossValidationComparison {
                 throw new IOException(file + ": no respondents after the header");
             }
             return new Pointwise(dir, (String) sha, model(run), Arrays.copyOf(row, n), Arrays.copyOf(elpd, n),
-                    Arrays.copyOf(effective, n), Arrays.copyOf(paretoK, n), Arrays.copyOf(mcse, n));
+                    Arrays.copyOf(effective, n), Arrays.copyOf(paretoK, n), Arrays.copyOf(mcse, n), Arrays.copyOf(group, n),
+                    List.copyOf(groupIndex.keySet()));
+        }
+
+        /** A field as CsvField.quote wrote it, back to its text (labels hold no line breaks: SurveyReader refuses them). */
+        private static String unquote(String field) {
+            return field.length() >= 2 && field.startsWith("\"") && field.endsWith("\"")
+                    ? field.substring(1, field.length() - 1).replace("\"\"", "\"") : field;
         }
 
         /** The model's switches from run.json, in a few words. */

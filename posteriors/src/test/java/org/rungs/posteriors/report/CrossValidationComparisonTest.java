@@ -49,6 +49,17 @@ class CrossValidationComparisonTest {
         // se of a's elpd: values -1..-4, mean -2.5, squares 5, se = sqrt(4 * 5 / 3)
         assertEquals(Math.sqrt(4 * 5.0 / 3), fits.get(0).se(), 1e-12);
         assertEquals(0.02, fits.get(0).mcse(), 1e-12);
+        // by group, b - a: North -0.5 and 0 (sum -0.5, se sqrt(2 * 0.125)), "a, b" 0.5, South -2 (one
+        // respondent each: no se)
+        List<CrossValidationComparison.GroupDifference> groups = fits.get(1).byGroup();
+        assertEquals(List.of("North", "a, b", "South"), groups.stream().map(CrossValidationComparison.GroupDifference::group).toList());
+        assertEquals(2, groups.get(0).respondents());
+        assertEquals(-0.5, groups.get(0).difference(), 1e-12);
+        assertEquals(0.5, groups.get(0).differenceSe(), 1e-12);
+        assertEquals(0.5, groups.get(1).difference(), 1e-12);
+        assertTrue(Double.isNaN(groups.get(2).differenceSe()));
+        assertEquals(-2, groups.get(2).difference(), 1e-12);
+        assertTrue(CrossValidationComparison.formatByGroup(fits).contains("-0.5 (0.5)"));
         String table = CrossValidationComparison.format(fits);
         assertTrue(table.contains("Best predicted: " + a), table);
         assertTrue(table.contains("Pareto k above 0.7"), table);
