@@ -117,7 +117,10 @@ public final class CrossValidation {
                             for (int j = 0; j < w.length; j++) {
                                 zeta += p.delta[j] * w[j][i];
                             }
-                            q = StandardNormal.cdf(zeta);
+                            // held off 0 and 1, where log(q) or log(1 - q) would be minus infinity for a
+                            // probit beyond about 8.3 (our guard, no source): a respondent's log-likelihood
+                            // then stays finite, within a few units of its value at such odds
+                            q = Math.min(Math.max(StandardNormal.cdf(zeta), Double.MIN_NORMAL), 1 - 0x1p-53);
                         }
                         logLikelihood[d] = attraction
                                 ? ResponseLikelihood.logRespondentAttracted(channel, p.thresholds, base, r, eta, q, p.attraction[g])
