@@ -119,7 +119,7 @@ public final class CrossValidation {
                             }
                             // held off 0 and 1, where log(q) or log(1 - q) would be minus infinity for a
                             // probit beyond about 8.3 (our guard, no source): a respondent's log-likelihood
-                            // then stays finite, within a few units of its value at such odds
+                            // then stays finite, though no longer exact, that far out
                             q = Math.min(Math.max(StandardNormal.cdf(zeta), Double.MIN_NORMAL), 1 - 0x1p-53);
                         }
                         logLikelihood[d] = attraction
