@@ -11,7 +11,8 @@ import org.apache.commons.math3.special.Erf;
  * Gelman, Yao & Gabry (2024), Pareto smoothed importance sampling, JMLR 25(72), section 3; the
  * generalized Pareto fit of Zhang & Stephens (2009), A new and efficient estimation method for
  * the generalized Pareto distribution, Technometrics 51, section 4, with the weak prior that
- * pulls k towards 0.5. Tail length, grid, prior, truncation and Monte Carlo error follow package
+ * pulls k towards 0.5 (equation and section numbers from memory). Tail length, grid, prior,
+ * truncation and Monte Carlo error follow package
  * loo 2.5.1 ({@code do_psis_i}, {@code gpdfit}, {@code pointwise_loo_calcs}, {@code mcse_elpd}),
  * and {@code LeaveOneOutReferenceTest} holds the results to its values.
  *

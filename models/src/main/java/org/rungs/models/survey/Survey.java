@@ -40,7 +40,8 @@ public final class Survey {
         }
         if (group.length != n || (weight != null && weight.length != n) || (row != null && row.length != n)) {
             throw new IllegalArgumentException("columns differ in length: " + n + " categories, " + group.length
-                    + " groups" + (weight == null ? "" : ", " + weight.length + " weights"));
+                    + " groups" + (weight == null ? "" : ", " + weight.length + " weights")
+                    + (row == null ? "" : ", " + row.length + " file rows"));
         }
         for (Covariates c : List.of(level, style)) {
             if (c.count() > 0 && c.rows() != n) {

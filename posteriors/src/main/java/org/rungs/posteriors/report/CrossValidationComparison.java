@@ -20,7 +20,8 @@ import org.rungs.posteriors.LeaveOneOut;
  * the best fit and its standard error, sqrt(n) times the sd of the pointwise differences
  * (Vehtari, Gelman & Gabry 2017, Statistics and Computing 27, eq. 24). The pointwise differences
  * are paired by the file's row, so the fits must have used the same rows; a difference of a few
- * standard errors or less does not tell the models apart (same paper, section 5.2).
+ * standard errors or less does not tell the models apart (same paper, section 5.2; equation and
+ * section numbers from memory).
  */
 public final class CrossValidationComparison {
     /** The file every fit folder of a comparison must hold. */

@@ -28,7 +28,8 @@ import org.rungs.priors.StandardNormal;
  * log-likelihood of MODEL.md 4c, the latent level and the class summed out (with attraction
  * 4b), at the draws the derived quantities use. The sum of the pointwise elpd_loo estimates how
  * well the model predicts a new respondent's rating; two models fitted to the same rows are
- * compared by the difference of their sums and its standard error (eq. 24 of the paper), which
+ * compared by the difference of their sums and its standard error (eq. 24 of the paper, from
+ * memory), which
  * {@code rungs compare} reads from the pointwise file. Survey weights do not enter: the criterion
  * is about the model's predictions, not a population total.
  */

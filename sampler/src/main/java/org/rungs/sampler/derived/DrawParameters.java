@@ -56,11 +56,6 @@ final class DrawParameters {
         Arrays.fill(tilt, 1);
     }
 
-    /** Positions (rating - L) of the attraction set. */
-    int[] attracted() {
-        return attracted;
-    }
-
     /** Reads draw (chain, iteration). */
     void read(Draws draws, int chain, int iteration) {
         int m = categories;
