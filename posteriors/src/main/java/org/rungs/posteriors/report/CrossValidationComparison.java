@@ -156,7 +156,7 @@ public final class CrossValidationComparison {
         Fit best = fits.get(0);
         b.append("Best predicted: " + best.dir() + ". elpd_diff is each fit's elpd_loo minus the best's, respondent by"
                 + " respondent (paired by the file's row); a difference within about 2 se_diff, or of a few units, does not"
-                + " tell the models apart (Vehtari, Gelman & Gabry 2017, section 5.2).");
+                + " tell the models apart (common practice; Vehtari, Gelman & Gabry 2017 discuss the standard error).");
         b.append(System.lineSeparator());
         if (fits.stream().anyMatch(f -> f.unreliable() > 0)) {
             b.append("Some respondents have Pareto k above 0.7, where the importance sampling is unreliable; read those fits'"
