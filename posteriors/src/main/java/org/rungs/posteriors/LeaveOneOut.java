@@ -22,6 +22,13 @@ import org.apache.commons.math3.special.Erf;
  * nothing.
  */
 public final class LeaveOneOut {
+    /**
+     * Pareto k at most this is good; above {@link #RELIABLE_K} the importance sampling is
+     * unreliable (the thresholds of loo 2.5.1's diagnostic table; Vehtari, Gelman & Gabry 2017,
+     * section 2.1, from memory).
+     */
+    public static final double GOOD_K = 0.5;
+    public static final double RELIABLE_K = 0.7;
     /** Fewer tail draws than this leave the ratios unsmoothed and k infinite (loo's {@code enough_tail_samples}). */
     private static final int MIN_TAIL = 5;
     /** The fit's grid has this many points plus sqrt(tail length) (loo's {@code min_grid_pts}). */
@@ -292,7 +299,7 @@ public final class LeaveOneOut {
         return lpd - elpd;
     }
 
-    /** The generalized Pareto shape of the largest ratios: above 0.7 the estimate is unreliable. */
+    /** The generalized Pareto shape of the largest ratios: above {@link #RELIABLE_K} the estimate is unreliable. */
     public double paretoK() {
         return paretoK;
     }

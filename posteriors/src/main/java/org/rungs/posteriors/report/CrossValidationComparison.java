@@ -36,7 +36,7 @@ public final class CrossValidationComparison {
      * @param se         its standard error
      * @param mcse       its Monte Carlo standard error
      * @param effective  p_loo
-     * @param unreliable respondents whose Pareto k exceeds 0.7
+     * @param unreliable respondents whose Pareto k exceeds {@link LeaveOneOut#RELIABLE_K}
      * @param difference elpd_loo minus the best fit's (0 for the best)
      * @param differenceSe the standard error of that difference (0 for the best)
      * @param byGroup    the difference and its standard error over each group's respondents
@@ -324,7 +324,7 @@ public final class CrossValidationComparison {
         int unreliable() {
             int count = 0;
             for (double k : paretoK) {
-                count += k > 0.7 ? 1 : 0;
+                count += k > LeaveOneOut.RELIABLE_K ? 1 : 0;
             }
             return count;
         }

@@ -34,10 +34,6 @@ import org.rungs.priors.StandardNormal;
  * is about the model's predictions, not a population total.
  */
 public final class CrossValidation {
-    /** Pareto k above which a respondent's estimate is unreliable (Vehtari et al. 2017, section 2.1; loo 2.5.1's table). */
-    public static final double K_GOOD = 0.5;
-    public static final double K_OK = 0.7;
-
     private final int[] row;
     private final int[] group;
     private final byte[] category;
@@ -198,7 +194,7 @@ public final class CrossValidation {
     public int[] paretoKCounts() {
         int[] counts = new int[4];
         for (double k : paretoK) {
-            counts[k <= K_GOOD ? 0 : k <= K_OK ? 1 : k <= 1 ? 2 : 3]++;
+            counts[k <= LeaveOneOut.GOOD_K ? 0 : k <= LeaveOneOut.RELIABLE_K ? 1 : k <= 1 ? 2 : 3]++;
         }
         return counts;
     }
@@ -229,7 +225,7 @@ public final class CrossValidation {
         return String.format(Locale.ROOT,
                 "Leave-one-out cross-validation (PSIS, %,d draws): elpd_loo %,.1f (se %.1f, Monte Carlo se %.2f), p_loo %.1f;"
                         + " Pareto k above %.1f for %,d of %,d respondents%s",
-                draws, elpd(), elpdSe(), mcse(), effectiveParameters(), K_OK, unreliable, size(),
+                draws, elpd(), elpdSe(), mcse(), effectiveParameters(), LeaveOneOut.RELIABLE_K, unreliable, size(),
                 unreliable == 0 ? "." : " (their estimates are unreliable; cross_validation.csv lists them).");
     }
 
