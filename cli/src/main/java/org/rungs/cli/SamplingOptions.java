@@ -67,8 +67,8 @@ final class SamplingOptions {
     @Option(names = "--seed", description = "Random seed; with none, one is chosen, printed and recorded in run.json.")
     Long seed;
 
-    @Option(names = "--threads", description = "Worker threads (never changes the draws). Default: one per chain, so that all chains run at once and "
-                    + "share the cores evenly however much their costs differ.")
+    @Option(names = "--threads", description = "Worker threads (never changes the draws); they take turns on the chains, so that the chains end "
+                    + "together. Default: the number of cores, at most the chains.")
     Integer threads;
 
     ModelSpec model() {
@@ -93,7 +93,7 @@ final class SamplingOptions {
 
     SamplerSettings settings() {
         long s = seed != null ? seed : new SecureRandom().nextLong() >>> 1;
-        int t = threads != null ? threads : chains;
+        int t = threads != null ? threads : Math.max(1, Math.min(chains, Runtime.getRuntime().availableProcessors()));
         return new SamplerSettings(chains, warmup, draws, s, t, thin != null ? thin : 1);
     }
 }

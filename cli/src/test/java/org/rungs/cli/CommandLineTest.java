@@ -180,16 +180,6 @@ final class CommandLineTest {
     }
 
     @Test
-    void everyChainHasItsOwnThreadUnlessAskedOtherwise() throws Exception {
-        // more chains than this machine's 2 cores: they share the cores rather than wait
-        Path out = dir.resolve("three-chains");
-        Run r = rungs("fit", simulated.toString(), "--rating", "rating", "--group", "region", "--seed", "5",
-                "--chains", "3", "--warmup", "5", "--draws", "5", "--out", out.toString());
-        assertEquals(0, r.exit(), r.err());
-        assertEquals(3L, jsonLong(Files.readString(out.resolve("run.json")), "threads"));
-    }
-
-    @Test
     void theDemoKeepsEverySecondIterationWithOrWithoutAttractionUnlessAskedOtherwise() throws Exception {
         Path out = dir.resolve("short-demo");
         Run r = rungs("demo", "--out", out.toString(), "--chains", "1", "--warmup", "4", "--draws", "3");

@@ -5,7 +5,6 @@ import java.io.DataOutput;
 import java.io.IOException;
 import java.util.ArrayList;
 import java.util.List;
-import java.util.concurrent.atomic.AtomicBoolean;
 import java.util.function.ToDoubleFunction;
 import org.apache.commons.rng.RestorableUniformRandomProvider;
 import org.apache.commons.rng.core.RandomProviderDefaultState;
@@ -15,7 +14,6 @@ import org.rungs.models.RoundingChannel;
 import org.rungs.models.StyleClasses;
 import org.rungs.models.survey.Scale;
 import org.rungs.priors.Priors;
-import org.rungs.posteriors.Draws;
 
 /**
  * One Markov chain: its state and the cycle of updates of one sweep, in the order the joint
@@ -116,48 +114,9 @@ final class Chain implements Checkpointed {
         return new Chain(state, List.copyOf(sweep), thresholds, rng);
     }
 
-    /**
-     * Runs warm-up then sampling, from the checkpoint's position when it restored one; returns the
-     * number of kept draws written: after warm-up every thin-th iteration is kept. With a
-     * checkpoint, kept draws are appended to it as they are made, and the state is saved when the
-     * checkpoint is due and when the run ends or stops.
-     */
-    int run(int chain, SamplerSettings settings, ParameterLayout layout, Draws draws,
-            ProgressListener progress, AtomicBoolean stop, ChainCheckpoint checkpoint) throws IOException {
-        int total = settings.iterations();
-        double[] row = new double[layout.size()];
-        int it = 0;
-        int kept = 0;
-        if (checkpoint != null) {
-            ChainCheckpoint.Position at = checkpoint.restore(this, draws);
-            it = at.iterations();
-            kept = at.kept();
-            if (it > 0) {
-                progress.iterationDone(chain, it, total, it <= settings.warmup());
-            }
-        }
-        for (; it < total; it++) {
-            if (stop.get()) {
-                break;
-            }
-            boolean warmingUp = it < settings.warmup();
-            sweepOnce(warmingUp);
-            if (!warmingUp && (it + 1 - settings.warmup()) % settings.thin() == 0) {
-                state.writeRow(layout, row);
-                draws.putRow(chain, kept++, row);
-                if (checkpoint != null) {
-                    checkpoint.append(row);
-                }
-            }
-            progress.iterationDone(chain, it + 1, total, warmingUp);
-            if (checkpoint != null && checkpoint.due()) {
-                checkpoint.save(this, it + 1, kept);
-            }
-        }
-        if (checkpoint != null) {
-            checkpoint.save(this, it, kept);
-        }
-        return kept;
+    /** Writes the current state as a draw's row. */
+    void writeRow(ParameterLayout layout, double[] row) {
+        state.writeRow(layout, row);
     }
 
     /** One sweep: every update of the cycle once. */

@@ -18,10 +18,14 @@ import org.rungs.models.survey.Survey;
 import org.rungs.posteriors.Draws;
 
 /**
- * Fits the model of MODEL.md to a survey: runs the chains, each on its own random stream, in a
- * pool of threads, and collects their kept draws. The number of threads never changes a draw.
+ * Fits the model of MODEL.md to a survey: runs the chains, each on its own random stream, on a
+ * pool of threads that take turns on them in stretches ({@link Turns}), and collects their kept
+ * draws. The number of threads never changes a draw.
  */
 public final class Fitter {
+    /** How long a thread runs one chain before it turns to the chain furthest behind. */
+    private static final long STRETCH_NANOS = 500_000_000L;
+
     private Fitter() {
     }
 
@@ -71,6 +75,12 @@ public final class Fitter {
      */
     public static FitResult fit(Survey survey, ModelSpec spec, SamplerSettings settings,
                                 ProgressListener progress, AtomicBoolean stop, Checkpoints checkpoints) {
+        return fit(survey, spec, settings, progress, stop, checkpoints, STRETCH_NANOS);
+    }
+
+    /** As above, a thread turning to another chain after {@code stretchNanos} on one (tests: 0, every iteration). */
+    static FitResult fit(Survey survey, ModelSpec spec, SamplerSettings settings, ProgressListener progress,
+                         AtomicBoolean stop, Checkpoints checkpoints, long stretchNanos) {
         ParameterLayout layout = ParameterLayout.of(survey, spec);
         SurveyOrder order = SurveyOrder.of(survey, spec.attraction().on());
         boolean byGroup = spec.effectiveThresholdMode(survey.groupCount()) == ThresholdMode.BY_GROUP;
@@ -82,28 +92,56 @@ public final class Fitter {
         double[] walls = new double[settings.chains()];
         double[] skipped = new double[settings.chains()];
         long start = System.nanoTime();
-        ExecutorService pool = Executors.newFixedThreadPool(Math.min(settings.threads(), settings.chains()), r -> {
+        int threads = Math.min(settings.threads(), settings.chains());
+        ChainRun[] runs = new ChainRun[settings.chains()];
+        ChainCheckpoint[] opened = new ChainCheckpoint[settings.chains()];
+        Turns turns = new Turns(settings.chains());
+        ExecutorService pool = Executors.newFixedThreadPool(threads, r -> {
             Thread t = new Thread(r, "rungs-chain");
             t.setDaemon(true);
             return t;
         });
         try {
             List<Future<?>> futures = new ArrayList<>();
-            for (int c = 0; c < settings.chains(); c++) {
-                int chain = c;
+            for (int w = 0; w < threads; w++) {
                 futures.add(pool.submit(() -> {
-                    RestorableUniformRandomProvider rng = ChainSeeds.stream(settings.seed(), chain);
-                    Chain run = Chain.of(order, spec, byGroup, settings.warmup(), rng);
-                    try (ChainCheckpoint checkpoint = checkpoints.open(chain, settings, layout.size())) {
-                        kept[chain] = run.run(chain, settings, layout, draws, progress, stop, checkpoint);
-                    } catch (IOException e) {
-                        throw new UncheckedIOException("checkpoint of chain " + (chain + 1) + ": " + e.getMessage(), e);
+                    for (int chain = turns.take(runs); chain >= 0; chain = turns.take(runs)) {
+                        boolean ended = false;
+                        try {
+                            if (runs[chain] == null) {
+                                RestorableUniformRandomProvider rng = ChainSeeds.stream(settings.seed(), chain);
+                                Chain c = Chain.of(order, spec, byGroup, settings.warmup(), rng);
+                                opened[chain] = checkpoints.open(chain, settings, layout.size());
+                                runs[chain] = new ChainRun(c, chain, settings, layout, draws, progress, opened[chain]);
+                            }
+                            ChainRun run = runs[chain];
+                            if (!run.advance(stop, stretchNanos) || stop.get()) {
+                                ended = true;
+                                run.end();
+                                closeCheckpoint(opened[chain]);
+                                Chain c = run.chain();
+                                kept[chain] = run.kept();
+                                acceptance[chain] = c.thresholdAcceptance();
+                                joint[chain] = c.jointAcceptance();
+                                leapfrogSteps[chain] = c.jointLeapfrogSteps();
+                                walls[chain] = c.jointWallShare();
+                                skipped[chain] = c.latentStepsSkipped();
+                            }
+                        } catch (IOException e) {
+                            ended = true;
+                            turns.fail();
+                            fail(stop, opened[chain]);
+                            throw new UncheckedIOException("checkpoint of chain " + (chain + 1) + ": " + e.getMessage(), e);
+                        } catch (RuntimeException | Error e) {
+                            ended = true;
+                            turns.fail();
+                            fail(stop, opened[chain]);
+                            throw e;
+                        } finally {
+                            turns.release(chain, ended);
+                        }
                     }
-                    acceptance[chain] = run.thresholdAcceptance();
-                    joint[chain] = run.jointAcceptance();
-                    leapfrogSteps[chain] = run.jointLeapfrogSteps();
-                    walls[chain] = run.jointWallShare();
-                    skipped[chain] = run.latentStepsSkipped();
+                    return null;
                 }));
             }
             for (Future<?> f : futures) {
@@ -131,5 +169,67 @@ public final class Fitter {
         Draws result = interrupted ? draws.withIterations(common) : draws;
         return new FitResult(result, layout, settings, (System.nanoTime() - start) / 1e9, acceptance, joint, leapfrogSteps, walls, skipped,
                 interrupted);
+    }
+
+    /**
+     * Which chain a free thread runs next: of the chains neither running nor ended, the one with
+     * the fewest iterations done (one not yet begun first). Chains then advance together and end
+     * at about the same time, however much their sweeps' costs differ, so no thread idles while
+     * one slow chain finishes; and no more chains run at once than there are threads.
+     */
+    private static final class Turns {
+        private final boolean[] running;
+        private final boolean[] ended;
+        private boolean failed;
+
+        Turns(int chains) {
+            running = new boolean[chains];
+            ended = new boolean[chains];
+        }
+
+        /** The chain to run next, now marked running, or -1 when none is free. */
+        synchronized int take(ChainRun[] runs) {
+            int next = -1;
+            int fewest = Integer.MAX_VALUE;
+            for (int c = 0; c < running.length; c++) {
+                int done = runs[c] == null ? -1 : runs[c].iterations();
+                if (!running[c] && !ended[c] && !(failed && runs[c] == null) && done < fewest) {
+                    next = c;
+                    fewest = done;
+                }
+            }
+            if (next >= 0) {
+                running[next] = true;
+            }
+            return next;
+        }
+
+        synchronized void release(int chain, boolean end) {
+            running[chain] = false;
+            ended[chain] |= end;
+        }
+
+        /** A chain failed: the chains begun end (saving their checkpoints); the others never begin. */
+        synchronized void fail() {
+            failed = true;
+        }
+    }
+
+    private static void closeCheckpoint(ChainCheckpoint checkpoint) throws IOException {
+        if (checkpoint != null) {
+            checkpoint.close();
+        }
+    }
+
+    /** A chain failed: the others end at their next iteration, and its checkpoint is closed unsaved. */
+    private static void fail(AtomicBoolean stop, ChainCheckpoint checkpoint) {
+        stop.set(true);
+        if (checkpoint != null) {
+            try {
+                checkpoint.close();
+            } catch (IOException ignored) {
+                // the failure being reported says more
+            }
+        }
     }
 }

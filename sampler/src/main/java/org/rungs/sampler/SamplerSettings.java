@@ -37,8 +37,8 @@ public record SamplerSettings(int chains, int warmup, int draws, long seed, int 
         return warmup + draws * thin;
     }
 
-    /** 4 chains of 1000 warm-up and 1000 kept iterations, one thread per chain. */
+    /** 4 chains of 1000 warm-up and 1000 kept iterations, one thread per core. */
     public static SamplerSettings defaults(long seed) {
-        return new SamplerSettings(4, 1000, 1000, seed, 4);
+        return new SamplerSettings(4, 1000, 1000, seed, Math.max(1, Math.min(4, Runtime.getRuntime().availableProcessors())));
     }
 }

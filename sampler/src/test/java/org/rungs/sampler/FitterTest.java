@@ -48,6 +48,13 @@ class FitterTest {
                 Covariates.none(), null);
     }
 
+    /** {@link #smallSurvey} with its level covariate also as the coarse class's style covariate {@code w}. */
+    static Survey styledSurvey(long seed, int perGroup) {
+        Survey plain = smallSurvey(seed, perGroup);
+        return Survey.of(plain.scale(), plain.category(), plain.group(), List.of("north", "south", "east", "west"),
+                plain.level(), Covariates.fromNumeric(List.of("w"), List.of(plain.level().column(0).clone())), null);
+    }
+
     @Test
     void sameSeedGivesSameDrawsWhateverTheThreads() {
         Survey survey = smallSurvey(1L, 150);
@@ -65,6 +72,38 @@ class FitterTest {
     }
 
     /**
+     * Threads take turns on the chains: with a turn of one iteration, 3 chains on 2 threads
+     * interleave at every sweep (coarse class on, so the joint step's adaptation state is handed
+     * between threads), and still give exactly the draws of 1 thread running each chain through.
+     */
+    @Test
+    void chainsTakenInTurnsGiveTheDrawsOfChainsRunThrough() {
+        Survey survey = styledSurvey(6L, 80);
+        ModelSpec spec = new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults(), org.rungs.models.StyleClasses.coarse(null));
+        SamplerSettings through = new SamplerSettings(3, 40, 20, 17L, 1);
+        SamplerSettings inTurns = new SamplerSettings(3, 40, 20, 17L, 2);
+        int[] switches = new int[1];
+        int[] last = {-1};
+        ProgressListener watch = (chain, done, total, warm) -> {
+            synchronized (switches) {
+                if (chain != last[0]) {
+                    switches[0]++;
+                    last[0] = chain;
+                }
+            }
+        };
+        Draws one = Fitter.fit(survey, spec, through, ProgressListener.NONE, new AtomicBoolean(), Checkpoints.none(), Long.MAX_VALUE).draws();
+        Draws turns = Fitter.fit(survey, spec, inTurns, watch, new AtomicBoolean(), Checkpoints.none(), 0L).draws();
+        // each chain runs 80 iterations; run through, the progress would change chain about 3 times
+        assertTrue(switches[0] > 100, "the chains were not interleaved: " + switches[0] + " changes of chain");
+        for (int p = 0; p < one.parameterCount(); p++) {
+            for (int c = 0; c < 3; c++) {
+                assertArrayEquals(one.chainsOf(p)[c], turns.chainsOf(p)[c], one.names().get(p));
+            }
+        }
+    }
+
+    /**
      * With the coarse class on, the joint Hamiltonian step (fitted half-way through warm-up, its
      * metric refitted at three quarters) keeps the draws independent of the thread count, and its
      * acceptance, mean leapfrog steps (1 to 2 x 12 - 1 by construction) and share of trajectories
@@ -72,9 +111,7 @@ class FitterTest {
      */
     @Test
     void coarseFitIsTheSameWhateverTheThreadsAndRecordsItsJointStep() {
-        Survey plain = smallSurvey(2L, 80);
-        Survey survey = Survey.of(plain.scale(), plain.category(), plain.group(), List.of("north", "south", "east", "west"),
-                plain.level(), Covariates.fromNumeric(List.of("w"), List.of(plain.level().column(0).clone())), null);
+        Survey survey = styledSurvey(2L, 80);
         ModelSpec spec = new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults(), org.rungs.models.StyleClasses.coarse(null));
         FitResult one = Fitter.fit(survey, spec, new SamplerSettings(3, 40, 20, 11L, 1), ProgressListener.NONE, new AtomicBoolean());
         FitResult three = Fitter.fit(survey, spec, new SamplerSettings(3, 40, 20, 11L, 3), ProgressListener.NONE, new AtomicBoolean());
@@ -91,7 +128,7 @@ class FitterTest {
             double walls = one.jointWallShare()[c];
             assertTrue(walls >= 0 && walls <= 1 - a, "walls " + walls + " are rejections, acceptance " + a);
         }
-        FitResult ordinal = Fitter.fit(plain, new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults()),
+        FitResult ordinal = Fitter.fit(smallSurvey(2L, 80), new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults()),
                 new SamplerSettings(2, 40, 20, 11L, 2), ProgressListener.NONE, new AtomicBoolean());
         for (int c = 0; c < 2; c++) {
             assertTrue(Double.isNaN(ordinal.jointAcceptance()[c]), "no joint step in the plain model");
@@ -130,9 +167,7 @@ class FitterTest {
      */
     @Test
     void thinningKeepsEveryKthIterationOfTheSameChain() {
-        Survey plain = smallSurvey(4L, 60);
-        Survey survey = Survey.of(plain.scale(), plain.category(), plain.group(), List.of("north", "south", "east", "west"),
-                plain.level(), Covariates.fromNumeric(List.of("w"), List.of(plain.level().column(0).clone())), null);
+        Survey survey = styledSurvey(4L, 60);
         ModelSpec spec = new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults(), org.rungs.models.StyleClasses.coarse(null));
         Draws all = Fitter.fit(survey, spec, new SamplerSettings(2, 20, 30, 7L, 2), ProgressListener.NONE, new AtomicBoolean()).draws();
         Draws thinned = Fitter.fit(survey, spec, new SamplerSettings(2, 20, 10, 7L, 2, 3), ProgressListener.NONE,
