@@ -192,8 +192,11 @@ public final class Fitter {
             int next = -1;
             int fewest = Integer.MAX_VALUE;
             for (int c = 0; c < running.length; c++) {
+                if (running[c] || ended[c] || failed && runs[c] == null) {
+                    continue;
+                }
                 int done = runs[c] == null ? -1 : runs[c].iterations();
-                if (!running[c] && !ended[c] && !(failed && runs[c] == null) && done < fewest) {
+                if (done < fewest) {
                     next = c;
                     fewest = done;
                 }
