@@ -129,13 +129,11 @@ public final class Fitter {
                             }
                         } catch (IOException e) {
                             ended = true;
-                            turns.fail();
-                            fail(stop, opened[chain]);
+                            fail(stop, turns, opened[chain]);
                             throw new UncheckedIOException("checkpoint of chain " + (chain + 1) + ": " + e.getMessage(), e);
                         } catch (RuntimeException | Error e) {
                             ended = true;
-                            turns.fail();
-                            fail(stop, opened[chain]);
+                            fail(stop, turns, opened[chain]);
                             throw e;
                         } finally {
                             turns.release(chain, ended);
@@ -224,8 +222,12 @@ public final class Fitter {
         }
     }
 
-    /** A chain failed: the others end at their next iteration, and its checkpoint is closed unsaved. */
-    private static void fail(AtomicBoolean stop, ChainCheckpoint checkpoint) {
+    /**
+     * A chain failed: the chains begun end at their next iteration, the others never begin, and
+     * its checkpoint is closed unsaved.
+     */
+    private static void fail(AtomicBoolean stop, Turns turns, ChainCheckpoint checkpoint) {
+        turns.fail();
         stop.set(true);
         if (checkpoint != null) {
             try {
