@@ -24,9 +24,10 @@ import java.util.zip.ZipException;
  *
  * <p>A row missing a used column (empty cell, {@code NA} or a declared code) is excluded and
  * counted under each such column. A covariate column becomes categorical when declared so or when
- * a value of a row used is text; a decimal comma ({@code 3,5}), {@code Inf}, {@code NaN} or a
- * magnitude above {@link Covariates#MAX_MAGNITUDE} in an otherwise numeric column is an error,
- * not a level. Ratings and weights are checked in every row, covariates in the rows used. Every
+ * its values in the rows used are all text. Text among numbers (a stray "refused" in a column of
+ * ages) is an error unless the column is declared categorical; a decimal comma ({@code 3,5}),
+ * {@code Inf}, {@code NaN} or a magnitude above {@link Covariates#MAX_MAGNITUDE} in an otherwise
+ * numeric column is an error, not a level. Ratings and weights are checked in every row, covariates in the rows used. Every
  * problem stops the reading with a {@link SurveyInputException} naming the file, row and column.
  *
  * <p>Hostile input costs bounded memory and time: a record longer than {@link #MAX_RECORD_BYTES}
@@ -467,6 +468,8 @@ public final class SurveyReader {
         private ByteInterner levels = new ByteInterner();
         private long textRow;
         private String textValue;
+        private long numberRow;
+        private String numberValue;
         private long badNumberRow;
         private String badNumberValue;
         private DecimalScanner.Kind badNumberKind;
@@ -479,7 +482,12 @@ public final class SurveyReader {
         void add(int i, byte[] data, int from, int to, long row, DecimalScanner scanner) throws SurveyInputException {
             DecimalScanner.Kind kind = scanner.scan(data, from, to);
             values[i] = scanner.value();
-            if (kind != DecimalScanner.Kind.NUMBER) {
+            if (kind == DecimalScanner.Kind.NUMBER) {
+                if (numberRow == 0) {
+                    numberRow = row;
+                    numberValue = new String(data, from, to - from, StandardCharsets.UTF_8).strip();
+                }
+            } else {
                 if (kind == DecimalScanner.Kind.TEXT) {
                     int control = controlCharacter(data, from, to);
                     if (control >= 0) {
@@ -512,7 +520,22 @@ public final class SurveyReader {
             }
         }
 
+        /**
+         * Numbers and text in a column not declared categorical: a stray code such as "refused" in a
+         * column of ages would otherwise make every age a category of its own.
+         */
+        private SurveyInputException mixed() {
+            return new SurveyInputException(file, textRow, name, Text.quote(textValue) + " is text, but the column's other"
+                    + " values are numbers (row " + numberRow + ": " + Text.escape(numberValue) + ")",
+                    "numbers only (declare " + Text.quote(textValue) + " missing with --missing-in " + Text.escape(name) + "="
+                    + Text.escape(textValue.strip()) + "), or --categorical " + Text.escape(name)
+                    + " to read every value as a category");
+        }
+
         private SurveyInputException tooManyLevels(long row) {
+            if (!declaredCategorical && numberRow > 0) {
+                return mixed();
+            }
             String what = declaredCategorical ? "the categorical covariate has" : "the covariate has the non-number "
                     + Text.quote(textValue) + " (so it would be categorical) and";
             return new SurveyInputException(file, row, name, what + " more than " + MAX_LEVELS + " distinct values",
@@ -527,6 +550,9 @@ public final class SurveyReader {
         }
 
         void addTo(Covariates.Builder builder, String referenceLevel, int n) throws SurveyInputException {
+            if (!declaredCategorical && textRow > 0 && numberRow > 0) {
+                throw mixed();
+            }
             if (declaredCategorical || textRow > 0) {
                 List<String> labels = new ArrayList<>(levels.size());
                 for (int level = 0; level < levels.size(); level++) {

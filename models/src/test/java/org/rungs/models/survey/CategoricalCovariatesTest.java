@@ -78,11 +78,34 @@ class CategoricalCovariatesTest {
     }
 
     @Test
-    void aNumberColumnWithOneTextValueIsCategoricalWithNumbersAsLevels() throws Exception {
+    void aNumberColumnWithATextValueIsRefusedNamingTheValueAndAFormerNumber() throws Exception {
+        Path file = SurveyFiles.write(dir, "mixed.csv", "rating,age\n1,34\n2,51\n3,refused\n4,27\n");
+        SurveyInputException e = assertThrows(SurveyInputException.class,
+                () -> SurveyReader.read(file, SurveySpec.builder("rating", ZERO_TEN).level("age").build()));
+        assertEquals(4, e.row());
+        assertEquals("age", e.column());
+        assertTrue(e.getMessage().contains("\"refused\" is text, but the column's other values are numbers (row 2: 34)"),
+                e.getMessage());
+        assertTrue(e.getMessage().contains("--missing-in age=refused"), e.getMessage());
+        assertTrue(e.getMessage().contains("--categorical age"), e.getMessage());
+    }
+
+    @Test
+    void aNumberColumnWithATextValueIsCategoricalWhenDeclared() throws Exception {
         Path file = SurveyFiles.write(dir, "mixed.csv", "rating,children\n1,0\n2,1\n3,none\n4,1\n");
-        Survey survey = SurveyReader.read(file, SurveySpec.builder("rating", ZERO_TEN).level("children").build());
+        Survey survey = SurveyReader.read(file,
+                SurveySpec.builder("rating", ZERO_TEN).level("children").categorical("children").build());
         assertEquals("1", survey.level().referenceLevel(0));
         assertEquals(List.of("children=0", "children=none"), List.of(survey.level().name(0), survey.level().name(1)));
+    }
+
+    @Test
+    void aTextValueDeclaredMissingLeavesTheColumnNumeric() throws Exception {
+        Path file = SurveyFiles.write(dir, "mixed.csv", "rating,age\n1,34\n2,51\n3,refused\n4,27\n");
+        Survey survey = SurveyReader.read(file,
+                SurveySpec.builder("rating", ZERO_TEN).level("age").missingCodesFor("age", "refused").build());
+        assertEquals(3, survey.size());
+        assertFalse(survey.level().isIndicator(0));
     }
 
     @Test
