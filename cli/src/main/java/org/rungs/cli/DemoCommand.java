@@ -1,5 +1,6 @@
 package org.rungs.cli;
 
+import java.io.UncheckedIOException;
 import java.nio.file.Path;
 import java.util.concurrent.Callable;
 import org.rungs.examples.Demo;
@@ -19,7 +20,8 @@ final class DemoCommand implements Callable<Integer> {
     @Option(names = "--out", defaultValue = "rungs-demo", paramLabel = "DIR", description = "Output folder. Default: ${DEFAULT-VALUE}.")
     Path out;
 
-    @Option(names = "--overwrite", defaultValue = "true", negatable = true,
+    // fallbackValue: without it picocli sets a negatable option that is true by default to false when given
+    @Option(names = "--overwrite", defaultValue = "true", fallbackValue = "true", negatable = true,
             description = "Replace the files of an earlier demo run in the output folder. Default: ${DEFAULT-VALUE}.")
     boolean overwrite;
 
@@ -47,12 +49,20 @@ final class DemoCommand implements Callable<Integer> {
                 + Demo.TRUTH_FILE + ")");
         try (Interruption interruption = new Interruption()) {
             FitOutcome outcome = FitJob.run(demo.request(), System.out, System.err, interruption.flag());
+            if (outcome.summaries().isEmpty()) {
+                System.err.println("rungs demo: stopped before any draw was kept; run the demo again");
+                return Main.INTERRUPTED;
+            }
             System.out.println();
             System.out.println("Estimates against the values the demo data were drawn from:");
             System.out.print(Demo.compare(outcome, demo.truth(), model.attraction().on()));
             Runs.writeReport(out);
-            return outcome.result().interrupted() ? Main.INTERRUPTED : 0;
-        } catch (SurveyInputException | IllegalArgumentException e) {
+            if (outcome.interrupted()) {
+                System.err.println("rungs demo: stopped early; the files hold the draws kept so far; run the demo again"
+                        + " for the whole fit");
+            }
+            return outcome.interrupted() ? Main.INTERRUPTED : 0;
+        } catch (SurveyInputException | IllegalArgumentException | UncheckedIOException e) {
             System.err.println("rungs demo: " + e.getMessage());
             return Main.INPUT_ERROR;
         }

@@ -27,7 +27,7 @@ final class Runs {
             if (report) {
                 writeReport(request.out());
             }
-            return outcome.result().interrupted() ? Main.INTERRUPTED : 0;
+            return outcome.interrupted() ? Main.INTERRUPTED : 0;
         } catch (SurveyInputException e) {
             System.err.println("rungs: " + e.getMessage());
             return Main.INPUT_ERROR;

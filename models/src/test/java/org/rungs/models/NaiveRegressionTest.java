@@ -1,6 +1,7 @@
 package org.rungs.models;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.util.List;
 import java.util.Random;
@@ -50,5 +51,40 @@ class NaiveRegressionTest {
         double[] reference = ols.estimateRegressionParameters();
         assertEquals(reference[3], ours[0], 1e-10, "income");
         assertEquals(reference[4], ours[1], 1e-10, "age");
+    }
+
+    /**
+     * A covariate constant within every group (a region's yes/no policy) is absorbed by the group
+     * indicators, so it has no naive coefficient; the other covariate's coefficient is that of the
+     * regression without it (Commons Math 3.6.1, as above).
+     */
+    @Test
+    void aCovariateConstantWithinGroupsHasNoCoefficient() {
+        Random random = new Random(7);
+        int n = 300;
+        int[] group = new int[n];
+        byte[] category = new byte[n];
+        double[] income = new double[n];
+        double[] policy = new double[n];
+        double[][] x = new double[n][3];
+        double[] y = new double[n];
+        for (int i = 0; i < n; i++) {
+            group[i] = i % 3;
+            income[i] = 1 + 4 * random.nextDouble();
+            policy[i] = group[i] == 1 ? 1 : 0;
+            category[i] = (byte) Math.max(0, Math.min(10, Math.round(4 + group[i] + 0.5 * income[i] + random.nextGaussian())));
+            x[i][0] = group[i] == 1 ? 1 : 0;
+            x[i][1] = group[i] == 2 ? 1 : 0;
+            x[i][2] = income[i];
+            y[i] = category[i];
+        }
+        Covariates level = Covariates.fromNumeric(List.of("income", "policy"), List.of(income.clone(), policy.clone()));
+        Survey survey = Survey.of(new Scale(0, 10), category, group, List.of("a", "b", "c"), level, Covariates.none(), null);
+        double[] ours = NaiveRegression.coefficients(survey);
+
+        OLSMultipleLinearRegression ols = new OLSMultipleLinearRegression();
+        ols.newSampleData(y, x);
+        assertEquals(ols.estimateRegressionParameters()[3], ours[0], 1e-10, "income");
+        assertTrue(Double.isNaN(ours[1]), "policy: " + ours[1]);
     }
 }

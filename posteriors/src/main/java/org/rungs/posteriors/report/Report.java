@@ -1,13 +1,11 @@
 package org.rungs.posteriors.report;
 
 import java.io.IOException;
-import java.nio.charset.StandardCharsets;
-import java.nio.file.Files;
 import java.nio.file.Path;
-import java.nio.file.StandardCopyOption;
 import java.util.List;
 import java.util.Locale;
 import java.util.Map;
+import org.rungs.posteriors.AtomicFiles;
 
 /**
  * The fit report: one self-contained HTML file (inline CSS and SVG charts, no script, no link to
@@ -58,13 +56,7 @@ public final class Report {
         System.setProperty("java.awt.headless", "true");
         String html = render(FitFolder.read(fitDir));
         Path target = fitDir.resolve(FILE_NAME).toAbsolutePath();
-        Path temporary = Files.createTempFile(target.getParent(), "." + FILE_NAME, ".tmp");
-        try {
-            Files.writeString(temporary, html, StandardCharsets.UTF_8);
-            Files.move(temporary, target, StandardCopyOption.ATOMIC_MOVE, StandardCopyOption.REPLACE_EXISTING);
-        } finally {
-            Files.deleteIfExists(temporary);
-        }
+        AtomicFiles.write(target, out -> out.write(html));
         return target;
     }
 

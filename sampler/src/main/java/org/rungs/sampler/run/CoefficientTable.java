@@ -24,9 +24,10 @@ final class CoefficientTable {
     }
 
     /**
+     * @param naive per covariate the naive coefficient, NaN (an empty cell) where it is not defined
      * @param plain summaries of the plain ordered probit's derived quantities, or null when the
      *              fitted model is itself the plain one; an effect missing from them (a comparison
-     *              fit interrupted before it kept a draw) leaves its three cells empty
+     *              fit interrupted, or not run because the fit was) leaves its three cells empty
      */
     static void write(Covariates level, List<ParameterSummary> derived, double[] naive, List<ParameterSummary> plain,
                       Path file) throws IOException {
@@ -63,7 +64,8 @@ final class CoefficientTable {
         return number(s.mean()) + "," + number(s.q05()) + "," + number(s.q95());
     }
 
+    /** Empty for NaN: a naive coefficient the group indicators absorb ({@link org.rungs.models.NaiveRegression}). */
     private static String number(double v) {
-        return String.format(Locale.ROOT, "%.6g", v);
+        return Double.isNaN(v) ? "" : String.format(Locale.ROOT, "%.6g", v);
     }
 }

@@ -40,7 +40,10 @@ import org.rungs.sampler.SamplerSettings;
  * {@code summary.csv}, {@code attraction.csv} (number attraction on), the derived quantities and
  * {@code run.json}. Input errors surface before anything is written.
  * While it runs, the chains are saved in {@code .checkpoint} (see {@link SavedFit}), which is
- * removed once every output of a finished fit is written, and kept when the fit was interrupted.
+ * removed once every output of a finished fit is written, and kept when the fit was interrupted
+ * (also after the chains ended); a fit started without the command's arguments (the demo) has no
+ * command to resume with and keeps none. The earlier run's results in the folder are removed
+ * before the first file is written ({@link OutputFolder#clearResults}).
  */
 public final class FitJob {
     /**
@@ -78,7 +81,7 @@ public final class FitJob {
                                  CheckpointPolicy policy) throws SurveyInputException {
         request.model().checkRatings(request.survey().scale());
         OutputFolder folder = policy.resume() ? OutputFolder.resuming(request.out())
-                : OutputFolder.check(request.out(), request.overwrite());
+                : OutputFolder.check(request.out(), request.overwrite(), request.file());
         long readStart = System.nanoTime();
         // Sorted once here, so the chains share these columns instead of a second sorted copy.
         Survey survey = Fitter.sorted(SurveyReader.read(request.file(), request.survey()));
@@ -87,6 +90,8 @@ public final class FitJob {
         err.println(exclusions.describe());
         String sha256 = RunRecord.sha256(request.file());
         Path checkpointDir = folder.resolve(SavedFit.FOLDER);
+        // a fit not started by 'rungs fit' (the demo) has no command to resume with, so it keeps no checkpoint
+        boolean resumable = policy.resume() || !policy.arguments().isEmpty();
         Checkpoints checkpoints;
         if (policy.resume()) {
             SavedFit saved = SavedFit.read(folder.dir());
@@ -102,8 +107,14 @@ public final class FitJob {
             checkpoints = Checkpoints.resume(checkpointDir, policy.seconds());
         } else {
             SavedFit.delete(folder.dir());
-            new SavedFit(request.file().toAbsolutePath(), sha256, request.settings().seed(), policy.arguments()).write(folder.dir());
-            checkpoints = Checkpoints.start(checkpointDir, policy.seconds());
+            folder.clearResults();
+            if (resumable) {
+                new SavedFit(request.file().toAbsolutePath(), sha256, request.settings().seed(), policy.arguments())
+                        .write(folder.dir());
+                checkpoints = Checkpoints.start(checkpointDir, policy.seconds());
+            } else {
+                checkpoints = Checkpoints.none();
+            }
         }
 
         err.println("rungs: seed " + request.settings().seed() + ", " + request.settings().chains() + (request.settings().chains() == 1 ? " chain of " : " chains of ")
@@ -117,11 +128,12 @@ public final class FitJob {
         }
         FitResult result = Fitter.fit(survey, request.model(), request.settings(),
                 new ConsoleProgress(err, request.settings().chains(), 2.0), stop, checkpoints);
-        String whereSaved = "the chains are saved in " + checkpointDir.toAbsolutePath()
-                + (policy.resume() || !policy.arguments().isEmpty() ? "; continue with: rungs fit --resume " + folder.dir() : "");
+        String whereSaved = resumable ? "the chains are saved in " + checkpointDir.toAbsolutePath()
+                + "; continue with: rungs fit --resume " + folder.dir() : "nothing is saved to continue from";
         if (result.interrupted() && result.draws().iterations() == 0) {
             err.println("rungs: interrupted before every chain kept a draw; nothing to summarise; " + whereSaved);
-            return new FitOutcome(survey, result, List.of(), "interrupted before any draw was kept", record.warnings(), List.of());
+            return new FitOutcome(survey, result, List.of(), "interrupted before any draw was kept", record.warnings(),
+                    List.of(), true);
         }
         List<ParameterSummary> summaries = Summaries.of(result.draws());
         String verdict = SummaryTable.verdict(summaries);
@@ -138,6 +150,7 @@ public final class FitJob {
             err.println("warning: " + skipped);
         }
 
+        folder.clearResults();
         folder.write("draws.csv", tmp -> DrawsCsv.write(result.draws(), tmp));
         folder.write("summary.csv", tmp -> SummaryTable.writeCsv(summaries, tmp));
         boolean attraction = result.layout().attractionSet().length > 0;
@@ -155,7 +168,7 @@ public final class FitJob {
             derived = DerivedQuantities.compute(survey, result.draws(), result.layout(), request.model(),
                     DERIVED_DRAWS, request.settings().seed(), request.settings().threads());
             derivedSummaries = Summaries.of(derived.draws());
-            comparison = writeDerived(request, survey, folder, derived, derivedSummaries, err, stop);
+            comparison = writeDerived(request, survey, folder, derived, derivedSummaries, record, err, stop);
         }
         CrossValidation crossValidation = null;
         if (request.crossValidate() && result.draws().iterations() >= MIN_DERIVED_ITERATIONS) {
@@ -168,10 +181,16 @@ public final class FitJob {
             err.println(String.format(Locale.ROOT, "rungs: cross-validated in %.1f s", (System.nanoTime() - started) / 1e9));
             crossValidation = cv;
         }
+        // Ctrl-C after the chains ended cuts the corrected quantities short: the fit counts as interrupted
+        boolean interrupted = result.interrupted() || stop.get();
+        if (interrupted && !result.interrupted()) {
+            record.warn("interrupted after sampling, while the corrected quantities were written: some files may be"
+                    + " missing or incomplete" + (resumable ? "; 'rungs fit --resume " + folder.dir() + "' completes them" : ""));
+        }
         record.put("input", input(request, survey, exclusions, sha256, readSeconds));
         record.put("options", request.options());
         record.put("model", model(request, survey, result.layout()));
-        record.put("sampler", sampler(result));
+        record.put("sampler", sampler(result, interrupted));
         record.put("derived_draws", derived == null ? 0 : derived.draws().iterations() * derived.draws().chains());
         if (comparison != null) {
             String line = comparison.verdict().line("quantities");
@@ -197,7 +216,7 @@ public final class FitJob {
         record.put("finished", Instant.now().toString());
         record.put("resumed", policy.resume());
         folder.writeText(OutputFolder.RUN_RECORD, record.toJson());
-        if (!result.interrupted()) {
+        if (!interrupted || !resumable) {
             SavedFit.delete(folder.dir());
         }
 
@@ -219,20 +238,15 @@ public final class FitJob {
             out.println();
             out.println(crossValidation.describe());
         }
-        if (!converged && !result.interrupted()) {
+        if (!converged && !interrupted) {
             out.println(LongerChains.advice(summaries, derivedSummaries, request.settings().chains(),
                     request.settings().thin()));
         }
-        out.println("Files written to " + folder.dir().toAbsolutePath() + ": draws.csv, summary.csv"
-                + (attraction ? ", attraction.csv" : "") + ", derived_draws.csv, "
-                + "derived_summary.csv, groups.csv, distributions.csv"
-                + (request.model().styleClasses().coarse() ? ", coarse_shares.csv" : "")
-                + (survey.level().count() > 0 ? ", coefficients.csv" : "")
-                + (crossValidation != null ? ", cross_validation.csv" : "") + ", run.json");
-        if (result.interrupted()) {
+        out.println("Files written to " + folder.dir().toAbsolutePath() + ": " + String.join(", ", folder.written()));
+        if (interrupted) {
             err.println("rungs: interrupted; " + whereSaved);
         }
-        return new FitOutcome(survey, result, summaries, verdict, record.warnings(), derivedSummaries);
+        return new FitOutcome(survey, result, summaries, verdict, record.warnings(), derivedSummaries, interrupted);
     }
 
     /** The plain ordered probit fitted for the comparison of effects: its settings and verdict. */
@@ -245,7 +259,8 @@ public final class FitJob {
      * @return the plain fit's settings and verdict, or null when none was made or it kept too few draws
      */
     private static Comparison writeDerived(FitRequest request, Survey survey, OutputFolder folder, DerivedResult derived,
-                                           List<ParameterSummary> derivedSummaries, PrintStream err, AtomicBoolean stop) {
+                                           List<ParameterSummary> derivedSummaries, RunRecord record, PrintStream err,
+                                           AtomicBoolean stop) {
         folder.write("derived_draws.csv", tmp -> DrawsCsv.write(derived.draws(), tmp));
         folder.write("derived_summary.csv", tmp -> SummaryTable.writeCsv(derivedSummaries, tmp));
         folder.write("groups.csv", tmp -> DerivedQuantities.writeGroups(derived, derivedSummaries, tmp));
@@ -256,7 +271,10 @@ public final class FitJob {
         List<ParameterSummary> plain = null;
         Comparison comparison = null;
         boolean attraction = request.model().attraction().on();
-        if ((request.model().styleClasses().coarse() || attraction) && survey.level().count() > 0 && !stop.get()) {
+        boolean compared = (request.model().styleClasses().coarse() || attraction) && survey.level().count() > 0;
+        if (compared && stop.get()) {
+            plain = List.of();
+        } else if (compared) {
             err.println("rungs: fitting the plain ordered probit (style classes " + (attraction ? "and attraction " : "")
                     + "off) for the comparison of effects...");
             ModelSpec plainSpec = request.model().withStyleClasses(StyleClasses.none()).withAttraction(NumberAttraction.none());
@@ -266,7 +284,9 @@ public final class FitJob {
             SamplerSettings settings = request.settings();
             FitResult plainFit = Fitter.fit(survey, plainSpec, settings,
                     new ConsoleProgress(err, settings.chains(), 2.0), stop);
-            if (plainFit.draws().iterations() >= MIN_DERIVED_ITERATIONS) {
+            if (plainFit.interrupted()) {
+                plain = List.of();
+            } else if (plainFit.draws().iterations() >= MIN_DERIVED_ITERATIONS) {
                 Draws effects = DerivedQuantities.effects(survey, plainFit.draws(), plainFit.layout(), DERIVED_DRAWS,
                         settings.threads());
                 plain = Summaries.of(effects);
@@ -279,6 +299,15 @@ public final class FitJob {
         }
         if (survey.level().count() > 0) {
             double[] naive = NaiveRegression.coefficients(survey);
+            for (int j = 0; j < naive.length; j++) {
+                if (Double.isNaN(naive[j])) {
+                    String warning = "the naive least squares of coefficients.csv cannot estimate the effect of "
+                            + survey.level().name(j) + ": it is constant within every group, so the group indicators"
+                            + " absorb it (its naive cells are empty; the corrected effect rests on the model alone)";
+                    record.warn(warning);
+                    err.println("warning: " + warning);
+                }
+            }
             List<ParameterSummary> plainSummaries = plain;
             folder.write("coefficients.csv", tmp -> CoefficientTable.write(survey.level(), derivedSummaries, naive, plainSummaries, tmp));
         }
@@ -358,7 +387,7 @@ public final class FitJob {
                 + "plausible: check the attraction set and the scale", 100 * largest);
     }
 
-    private static Map<String, Object> sampler(FitResult result) {
+    private static Map<String, Object> sampler(FitResult result, boolean interrupted) {
         Map<String, Object> m = new LinkedHashMap<>();
         m.put("chains", result.settings().chains());
         m.put("warmup", result.settings().warmup());
@@ -368,7 +397,7 @@ public final class FitJob {
         m.put("seed", result.settings().seed());
         m.put("threads", result.settings().threads());
         m.put("seconds", result.seconds());
-        m.put("interrupted", result.interrupted());
+        m.put("interrupted", interrupted);
         m.put("threshold_acceptance_per_chain", perChain(result.thresholdAcceptance()));
         if (java.util.Arrays.stream(result.jointAcceptance()).anyMatch(Double::isFinite)) {
             m.put("joint_step_acceptance_per_chain", perChain(result.jointAcceptance()));

@@ -14,7 +14,9 @@ import org.rungs.sampler.FitResult;
  * @param verdict   the one-line convergence verdict
  * @param warnings  every warning, as in {@code run.json}
  * @param derived   one row per derived quantity (MODEL.md 6), as in {@code derived_summary.csv}
+ * @param interrupted whether a stop request cut the fit short: while the chains ran, or after,
+ *                  while the corrected quantities were made
  */
 public record FitOutcome(Survey survey, FitResult result, List<ParameterSummary> summaries, String verdict,
-                         List<String> warnings, List<ParameterSummary> derived) {
+                         List<String> warnings, List<ParameterSummary> derived, boolean interrupted) {
 }

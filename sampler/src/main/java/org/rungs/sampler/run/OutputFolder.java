@@ -7,18 +7,33 @@ import java.nio.file.AtomicMoveNotSupportedException;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.nio.file.StandardCopyOption;
+import java.util.ArrayList;
+import java.util.List;
 import java.util.stream.Stream;
+import org.rungs.posteriors.AtomicFiles;
+import org.rungs.posteriors.report.CrossValidationComparison;
+import org.rungs.posteriors.report.Report;
 
 /**
  * The folder a run writes to. Files appear only complete: each is written to a temporary file
  * in the same folder and then renamed over its final name. A folder holding another run, or
- * anything else, is refused unless overwriting was asked for.
+ * anything else, is refused unless overwriting was asked for; a run then first removes the
+ * earlier run's result files ({@link #clearResults}), so that one run's files never stand beside
+ * another's, and writes {@link #RUN_RECORD} last.
  */
 public final class OutputFolder {
     /** The file whose presence marks a folder as holding a run. */
     public static final String RUN_RECORD = "run.json";
 
+    /** Every result file a run (or the report written after it) may leave in its folder. */
+    static final List<String> RESULT_FILES = List.of("draws.csv", "summary.csv", "attraction.csv", "derived_draws.csv",
+            "derived_summary.csv", "groups.csv", "distributions.csv", "coarse_shares.csv", "coefficients.csv",
+            CrossValidationComparison.FILE, RUN_RECORD, Report.FILE_NAME);
+
+    private static final String PARTIAL = ".partial";
+
     private final Path dir;
+    private final List<String> written = new ArrayList<>();
 
     private OutputFolder(Path dir) {
         this.dir = dir;
@@ -30,6 +45,22 @@ public final class OutputFolder {
      * @throws IllegalArgumentException with a sentence saying why not
      */
     public static OutputFolder check(Path dir, boolean overwrite) {
+        return check(dir, overwrite, null);
+    }
+
+    /**
+     * As {@link #check(Path, boolean)}, and refuses a folder in which the run would replace its
+     * own input file {@code input} (a survey saved as {@code groups.csv} beside the results).
+     */
+    public static OutputFolder check(Path dir, boolean overwrite, Path input) {
+        if (input != null) {
+            Path in = input.toAbsolutePath().normalize();
+            if (in.getParent() != null && in.getParent().equals(dir.toAbsolutePath().normalize())
+                    && isResult(in.getFileName().toString())) {
+                throw new IllegalArgumentException("the input file " + input + " has the name of a file the fit writes"
+                        + " into " + dir + "; choose another output folder");
+            }
+        }
         if (Files.exists(dir)) {
             if (!Files.isDirectory(dir)) {
                 throw new IllegalArgumentException("output " + dir + " exists and is not a folder");
@@ -67,6 +98,43 @@ public final class OutputFolder {
         return dir.resolve(name);
     }
 
+    /** The names of the files this run has written so far, in order. */
+    public List<String> written() {
+        return List.copyOf(written);
+    }
+
+    /**
+     * Deletes the result files of an earlier run, and the temporary files of a run killed while
+     * writing, so that the files this run writes never stand beside another run's. Other files
+     * (the demo's survey, the checkpoint, the user's own) are left alone.
+     */
+    public void clearResults() {
+        if (!Files.isDirectory(dir)) {
+            return;
+        }
+        try (Stream<Path> s = Files.list(dir)) {
+            for (Path file : (Iterable<Path>) s::iterator) {
+                if (isResult(file.getFileName().toString()) && Files.isRegularFile(file)) {
+                    Files.delete(file);
+                }
+            }
+        } catch (IOException e) {
+            throw new UncheckedIOException("could not remove the earlier results in " + dir + ": " + e.getMessage(), e);
+        }
+    }
+
+    /** A result file's name, or a temporary name derived from one (".draws.csv123.partial", "..draws.csv1.partial2.tmp"). */
+    static boolean isResult(String name) {
+        if (RESULT_FILES.contains(name)) {
+            return true;
+        }
+        if (!name.startsWith(".") || !(name.endsWith(PARTIAL) || name.endsWith(AtomicFiles.TEMPORARY))) {
+            return false;
+        }
+        String stem = name.startsWith("..") ? name.substring(2) : name.substring(1);
+        return RESULT_FILES.stream().anyMatch(stem::startsWith);
+    }
+
     /** Writes text to {@code name} atomically. */
     public Path writeText(String name, String text) {
         return write(name, tmp -> Files.writeString(tmp, text, StandardCharsets.UTF_8));
@@ -82,7 +150,8 @@ public final class OutputFolder {
         try {
             Files.createDirectories(dir);
             Path target = dir.resolve(name);
-            Path tmp = Files.createTempFile(dir, "." + name, ".partial");
+            // a file of the user's umask, as createTempFile's owner-only files are not
+            Path tmp = AtomicFiles.createBeside(target, PARTIAL);
             try {
                 content.writeTo(tmp);
                 try {
@@ -93,6 +162,7 @@ public final class OutputFolder {
             } finally {
                 Files.deleteIfExists(tmp);
             }
+            written.add(name);
             return target;
         } catch (IOException e) {
             throw new UncheckedIOException("could not write " + dir.resolve(name) + ": " + e.getMessage(), e);
