@@ -83,6 +83,19 @@ final class ChainCheckpoint implements Closeable {
         return at;
     }
 
+    /**
+     * When resuming, the position the saved state is at, read from its header alone; null when
+     * there is none to resume from.
+     */
+    Position saved() throws IOException {
+        if (!resume || !Files.exists(stateFile)) {
+            return null;
+        }
+        try (DataInputStream in = new DataInputStream(new BufferedInputStream(Files.newInputStream(stateFile)))) {
+            return readHeader(in);
+        }
+    }
+
     private Position readHeader(DataInputStream in) throws IOException {
         if (in.readLong() != MAGIC) {
             throw new IOException(stateFile + " is not a checkpoint of this version");

@@ -24,8 +24,13 @@ final class ChainRun {
     private final int total;
     private int it;
     private int kept;
+    /** Nanoseconds this run has advanced the chain (its stretches, not its waits for a thread). */
+    private long runningNanos;
 
-    /** Restores the checkpoint's position, when it saved one. */
+    /**
+     * Restores the checkpoint's position, when it saved one (the fitter has already reported it,
+     * {@link ProgressListener#resumed}).
+     */
     ChainRun(Chain chain, int index, SamplerSettings settings, ParameterLayout layout, Draws draws,
              ProgressListener progress, ChainCheckpoint checkpoint) throws IOException {
         this.chain = chain;
@@ -41,9 +46,6 @@ final class ChainRun {
             ChainCheckpoint.Position at = checkpoint.restore(chain, draws);
             it = at.iterations();
             kept = at.kept();
-            if (it > 0) {
-                progress.iterationDone(index, it, total, it <= settings.warmup());
-            }
         }
     }
 
@@ -55,6 +57,7 @@ final class ChainRun {
      */
     boolean advance(AtomicBoolean stop, long nanos) throws IOException {
         long start = System.nanoTime();
+        long before = runningNanos;
         while (it < total && !stop.get()) {
             boolean warmingUp = it < settings.warmup();
             chain.sweepOnce(warmingUp);
@@ -66,7 +69,9 @@ final class ChainRun {
                 }
             }
             it++;
-            progress.iterationDone(index, it, total, warmingUp);
+            // a save's time falls into the next iteration's, as the thread spends it on this chain
+            runningNanos = before + System.nanoTime() - start;
+            progress.iterationDone(index, it, total, warmingUp, runningNanos);
             if (checkpoint != null && checkpoint.due()) {
                 checkpoint.save(chain, it, kept);
             }

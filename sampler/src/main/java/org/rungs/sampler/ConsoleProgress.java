@@ -1,220 +1,271 @@
 package org.rungs.sampler;
 
 import java.io.PrintStream;
-import java.util.Arrays;
 import java.util.Locale;
-import java.util.concurrent.atomic.AtomicIntegerArray;
-import java.util.concurrent.atomic.AtomicLongArray;
 
 /**
  * Prints one progress line per interval to a stream (stderr): per chain its phase and
  * iteration, and an estimate of the time left.
  *
- * <p>The estimate times each chain's run in {@link #PARTS} equal parts. Iterations do not all
- * cost the same (the first half of warm-up runs without the joint step, whose sweeps cost
- * several times more), so a part still ahead of a chain is given the mean time the chains that
- * have run it took (scaled to a running chain's own pace), or, where none has, the time of the
- * part finished last (a running chain's own recent pace). The chains still waiting then start,
- * in order, as the running ones finish, on as many threads as ran at once so far; the time left
- * is when the last one ends. A chain that runs on alone after the others have finished is
- * thereby not counted as going faster.
+ * <p>The estimate reads each chain's running time ({@link ProgressListener#iterationDone(int,
+ * int, int, boolean, long)}: the stretches a thread ran it, not its waits for a thread, which
+ * depend on how the threads take turns) and splits its run into {@link #PARTS} equal parts.
+ * Iterations do not all cost the same (the first half of warm-up runs without the joint step,
+ * whose sweeps cost several times more), so the iterations of a part still ahead of a chain are
+ * priced at the mean cost per iteration of the other chains that have run that part whole,
+ * scaled by the chain's own pace against theirs over the last {@link #RECENT} parts both ran
+ * (chains differ by a fifth and more, with their own adapted step sizes); where no other chain
+ * has, at the chain's own recent cost (its last whole part, else its current one). A chain
+ * resumed from a checkpoint has no time for the parts an earlier run made.
+ *
+ * <p>The time left is then the running time left of all chains shared by the threads at work
+ * (as many as the fitter runs, fewer when fewer chains are left), but never less than the
+ * running time left of the slowest chain, which no thread can share: with the threads taking
+ * turns on the chains in short stretches, the fitter's schedule is close to the preemptive one
+ * whose length is exactly the larger of the two (McNaughton 1959, Management Science 6, 1-12).
  */
 public final class ConsoleProgress implements ProgressListener {
     /** Parts of a chain's run that are timed. */
     static final int PARTS = 100;
     /** Parts over which a chain's pace is compared with the others'. */
-    private static final int RECENT = 5;
-    private static final long UNSET = Long.MIN_VALUE;
+    private static final int RECENT = 10;
 
     private final PrintStream out;
     private final int chains;
-    private final AtomicIntegerArray done;
-    private final AtomicIntegerArray warming;
-    /** Per chain, the time it reached the start of each part (part PARTS: its end), or UNSET. */
-    private final AtomicLongArray reached;
     private final long intervalNanos;
-    private final long start;
-    private volatile long lastPrint;
-    private volatile int total = 1;
+    private long lastPrint;
+    private int total = 1;
     private int threads = 1;
+    private final int[] done;
+    private final boolean[] warming;
+    /** Per chain and part: nanoseconds of running time timed, and the iterations they cover. */
+    private final long[][] spent;
+    private final int[][] timed;
+    /** Per chain, the iterations and running time of its last record: where the next timing starts. */
+    private final int[] timedFrom;
+    private final long[] runningAt;
 
     public ConsoleProgress(PrintStream out, int chains, double intervalSeconds) {
         this(out, chains, intervalSeconds, System.nanoTime());
     }
 
-    /** Starting the clock at {@code startNanos} (tests). */
+    /** Starting the clock of the printing interval at {@code startNanos} (tests). */
     ConsoleProgress(PrintStream out, int chains, double intervalSeconds, long startNanos) {
         this.out = out;
         this.chains = chains;
-        this.done = new AtomicIntegerArray(chains);
-        this.warming = new AtomicIntegerArray(chains);
-        this.reached = new AtomicLongArray(chains * (PARTS + 1));
-        for (int i = 0; i < reached.length(); i++) {
-            reached.set(i, UNSET);
-        }
         this.intervalNanos = (long) (intervalSeconds * 1e9);
-        this.start = startNanos;
         this.lastPrint = startNanos;
+        this.done = new int[chains];
+        this.warming = new boolean[chains];
+        this.spent = new long[chains][PARTS];
+        this.timed = new int[chains][PARTS];
+        this.timedFrom = new int[chains];
+        this.runningAt = new long[chains];
+    }
+
+    /** Without a running time the iterations are shown but not timed. */
+    @Override
+    public synchronized void iterationDone(int chain, int iterations, int totalIterations, boolean warmingUp) {
+        untimed(chain, iterations, totalIterations, warmingUp);
+        maybePrint(System.nanoTime(), iterations == totalIterations);
     }
 
     @Override
-    public void iterationDone(int chain, int iterations, int totalIterations, boolean warmingUp) {
-        long now = System.nanoTime();
-        record(chain, iterations, totalIterations, warmingUp, now);
-        if (now - lastPrint >= intervalNanos || iterations == totalIterations) {
-            synchronized (this) {
-                if (now - lastPrint >= intervalNanos || iterations == totalIterations) {
-                    lastPrint = now;
-                    out.println(line(now));
-                }
+    public synchronized void iterationDone(int chain, int iterations, int totalIterations, boolean warmingUp, long runningNanos) {
+        record(chain, iterations, totalIterations, warmingUp, runningNanos);
+        maybePrint(System.nanoTime(), iterations == totalIterations);
+    }
+
+    @Override
+    public synchronized void resumed(int chain, int iterations, int totalIterations, boolean warmingUp) {
+        untimed(chain, iterations, totalIterations, warmingUp);
+        boolean allDone = true;
+        for (int d : done) {
+            allDone &= d == total;
+        }
+        if (allDone) {
+            out.println(line());
+        }
+    }
+
+    @Override
+    public synchronized void threads(int threads) {
+        this.threads = Math.max(1, threads);
+    }
+
+    private void maybePrint(long now, boolean chainEnded) {
+        if (now - lastPrint >= intervalNanos || chainEnded) {
+            lastPrint = now;
+            out.println(line());
+        }
+    }
+
+    /** Chain {@code chain} is at {@code iterations} of {@code totalIterations}, made without a timing. */
+    synchronized void untimed(int chain, int iterations, int totalIterations, boolean warmingUp) {
+        total = totalIterations;
+        done[chain] = iterations;
+        warming[chain] = warmingUp;
+        timedFrom[chain] = iterations;
+    }
+
+    /**
+     * Chain {@code chain} has finished {@code iterations} of {@code totalIterations} after
+     * {@code runningNanos} of running time; the time since its last record is shared evenly by
+     * the iterations made since (one, as {@link ChainRun} reports).
+     */
+    synchronized void record(int chain, int iterations, int totalIterations, boolean warmingUp, long runningNanos) {
+        total = totalIterations;
+        int from = timedFrom[chain];
+        int n = iterations - from;
+        if (n > 0) {
+            long nanos = runningNanos - runningAt[chain];
+            for (int k = from; k < iterations; k++) {
+                int p = part(k);
+                // the iteration's share, so that the shares sum to the whole
+                spent[chain][p] += nanos * (k - from + 1) / n - nanos * (k - from) / n;
+                timed[chain][p]++;
             }
         }
+        done[chain] = iterations;
+        warming[chain] = warmingUp;
+        timedFrom[chain] = iterations;
+        runningAt[chain] = runningNanos;
     }
 
-    /** Chain {@code chain} has finished {@code iterations} of {@code totalIterations} at time {@code now}. */
-    void record(int chain, int iterations, int totalIterations, boolean warmingUp, long now) {
-        done.set(chain, iterations);
-        warming.set(chain, warmingUp ? 1 : 0);
-        total = totalIterations;
-        // Only the chain's own thread writes its row; parts crossed in one call share one time.
-        int at = chain * (PARTS + 1);
-        int part = (int) ((long) iterations * PARTS / totalIterations);
-        for (int p = part; p >= 0 && reached.get(at + p) == UNSET; p--) {
-            reached.set(at + p, now);
-        }
-    }
-
-    /** The progress line at time {@code now}. */
-    synchronized String line(long now) {
+    /** The progress line. */
+    synchronized String line() {
         StringBuilder sb = new StringBuilder();
         long sum = 0;
-        int running = 0;
         for (int c = 0; c < chains; c++) {
-            int d = done.get(c);
+            int d = done[c];
             sum += d;
-            running += d > 0 && d < total ? 1 : 0;
             if (c > 0) {
                 sb.append(" | ");
             }
             sb.append("chain ").append(c + 1).append(' ')
-                    .append(d == total ? "done" : d == 0 ? "waiting" : warming.get(c) == 1 ? "warm-up" : "sampling")
+                    .append(d == total ? "done" : d == 0 ? "waiting" : warming[c] ? "warm-up" : "sampling")
                     .append(' ').append(d).append('/').append(total);
         }
-        threads = Math.max(threads, running);
-        long all = (long) total * chains;
-        if (sum > 0 && sum < all) {
-            sb.append(" | about ").append(formatSeconds(secondsLeft(now, sum, all))).append(" left");
+        double left = secondsLeft();
+        if (sum < (long) total * chains && !Double.isNaN(left)) {
+            sb.append(" | about ").append(formatSeconds(left)).append(" left");
         }
         return sb.toString();
     }
 
-    private double secondsLeft(long now, long sum, long all) {
-        double[] part = partSeconds();
-        if (part == null) {
-            // No part timed yet: the pace since the start.
-            return (now - start) / 1e9 * (all - sum) / sum;
+    /** The estimated wall time left in seconds (see the class comment); NaN before any iteration is timed. */
+    synchronized double secondsLeft() {
+        double fallback = recentMean();
+        if (Double.isNaN(fallback)) {
+            return Double.NaN;
         }
-        double whole = 0;
-        for (double p : part) {
-            whole += p;
-        }
-        double[] free = new double[threads];
-        int slot = 0;
+        double all = 0;
+        double longest = 0;
+        int unfinished = 0;
         for (int c = 0; c < chains; c++) {
-            int d = done.get(c);
-            if (d > 0 && d < total) {
-                free[Math.min(slot++, threads - 1)] += left(c, d, now, part);
+            if (done[c] < total) {
+                double left = nanosLeft(c, fallback);
+                all += left;
+                longest = Math.max(longest, left);
+                unfinished++;
             }
         }
-        for (int c = 0; c < chains; c++) {
-            if (done.get(c) == 0) {
-                Arrays.sort(free);
-                free[0] += whole;
-            }
-        }
-        return Arrays.stream(free).max().orElse(0);
+        return Math.max(all / Math.max(1, Math.min(threads, unfinished)), longest) / 1e9;
     }
 
     /**
-     * Seconds left for chain c at iteration d: the rest of its current part, then the parts ahead,
-     * each the other chains' mean for it scaled by how much slower or faster than them chain c ran
-     * its last {@link #RECENT} parts (chains differ by a fifth and more, with their own adapted
-     * step sizes), or at chain c's own recent pace where no other chain has run it yet.
+     * Running nanoseconds chain c needs for the iterations it has left: each at the others' cost
+     * for its part times the chain's relative pace, or at the chain's own recent cost (for a
+     * chain that has not run in this fit, {@code fallback}: the chains' mean recent cost).
      */
-    private double left(int c, int d, long now, double[] part) {
-        int current = (int) ((long) d * PARTS / total);
+    private double nanosLeft(int c, double fallback) {
+        double ratio = pace(c);
+        double own = recent(c);
+        if (Double.isNaN(own)) {
+            own = fallback;
+        }
+        double left = 0;
+        for (int p = part(done[c]); p < PARTS; p++) {
+            int iterations = start(p + 1) - Math.max(start(p), done[c]);
+            if (iterations > 0) {
+                double theirs = others(c, p);
+                left += iterations * (Double.isNaN(theirs) ? own : theirs * ratio);
+            }
+        }
+        return left;
+    }
+
+    /** Chain c's cost over the other chains' on the last {@link #RECENT} parts it and they ran whole; 1 if none. */
+    private double pace(int c) {
         double own = 0;
-        double others = 0;
+        double theirs = 0;
         int n = 0;
-        for (int p = current - 1; p >= 0 && n < RECENT; p--) {
-            double mine = seconds(c, p);
-            if (Double.isNaN(mine)) {
-                break;
-            }
-            own += mine;
-            others += otherMean(c, p);
-            n++;
-        }
-        double ratio = n > 0 && !Double.isNaN(others) ? own / others : 1;
-        double seconds = -(now - reached.get(c * (PARTS + 1) + current)) / 1e9;
-        for (int p = current; p < PARTS; p++) {
-            double theirs = otherMean(c, p);
-            seconds += !Double.isNaN(theirs) ? theirs * ratio : n > 0 ? own / n : part[p];
-            if (p == current) {
-                seconds = Math.max(0, seconds);
+        for (int p = PARTS - 1; p >= 0 && n < RECENT; p--) {
+            double mine = whole(c, p);
+            double others = Double.isNaN(mine) ? Double.NaN : others(c, p);
+            if (!Double.isNaN(others)) {
+                own += mine;
+                theirs += others;
+                n++;
             }
         }
-        return seconds;
+        return n > 0 ? own / theirs : 1;
     }
 
-    /** Seconds chain c took for part p, NaN if it has not run it (or crossed it in one record). */
-    private double seconds(int c, int p) {
-        long from = reached.get(c * (PARTS + 1) + p);
-        long to = reached.get(c * (PARTS + 1) + p + 1);
-        return from != UNSET && to != UNSET && to > from ? (to - from) / 1e9 : Double.NaN;
+    /** Chain c's cost per iteration in its last part run whole, else in the part it is in; NaN if neither is timed. */
+    private double recent(int c) {
+        for (int p = PARTS - 1; p >= 0; p--) {
+            double cost = whole(c, p);
+            if (!Double.isNaN(cost)) {
+                return cost;
+            }
+        }
+        int current = Math.min(part(done[c]), PARTS - 1);
+        return timed[c][current] > 0 ? (double) spent[c][current] / timed[c][current] : Double.NaN;
     }
 
-    /** The mean seconds of part p over the chains other than c (all, for c = -1) that have run it; NaN if none has. */
-    private double otherMean(int c, int p) {
+    /** The mean of the chains' recent costs per iteration; NaN if no chain has one. */
+    private double recentMean() {
         double sum = 0;
         int n = 0;
-        for (int o = 0; o < chains; o++) {
-            double s = o == c ? Double.NaN : seconds(o, p);
-            if (!Double.isNaN(s)) {
-                sum += s;
+        for (int c = 0; c < chains; c++) {
+            double r = recent(c);
+            if (!Double.isNaN(r)) {
+                sum += r;
                 n++;
             }
         }
         return n > 0 ? sum / n : Double.NaN;
     }
 
-    /**
-     * Per part, the mean seconds the chains that ran it took; where none has, the seconds of the
-     * part finished last. Null if no part has been timed.
-     */
-    private double[] partSeconds() {
-        double[] seconds = new double[PARTS];
-        double latest = Double.NaN;
-        long latestEnd = UNSET;
-        for (int p = 0; p < PARTS; p++) {
-            seconds[p] = otherMean(-1, p);
-            for (int c = 0; c < chains; c++) {
-                long to = reached.get(c * (PARTS + 1) + p + 1);
-                if (!Double.isNaN(seconds(c, p)) && to > latestEnd) {
-                    latestEnd = to;
-                    latest = seconds(c, p);
-                }
+    /** The mean cost per iteration of part p over the chains other than c that ran it whole; NaN if none did. */
+    private double others(int c, int p) {
+        double sum = 0;
+        int n = 0;
+        for (int o = 0; o < chains; o++) {
+            double cost = o == c ? Double.NaN : whole(o, p);
+            if (!Double.isNaN(cost)) {
+                sum += cost;
+                n++;
             }
         }
-        if (latestEnd == UNSET) {
-            return null;
-        }
-        for (int p = 0; p < PARTS; p++) {
-            if (Double.isNaN(seconds[p])) {
-                seconds[p] = latest;
-            }
-        }
-        return seconds;
+        return n > 0 ? sum / n : Double.NaN;
+    }
+
+    /** Chain c's cost per iteration of part p when it timed the whole part in this fit; NaN otherwise (empty parts too). */
+    private double whole(int c, int p) {
+        int width = start(p + 1) - start(p);
+        return width > 0 && timed[c][p] == width ? (double) spent[c][p] / width : Double.NaN;
+    }
+
+    /** The part that iteration k (0-based) belongs to. */
+    private int part(int k) {
+        return (int) ((long) k * PARTS / total);
+    }
+
+    /** The first iteration (0-based) of part p; {@code total} for p = PARTS. */
+    private int start(int p) {
+        return (int) (((long) p * total + PARTS - 1) / PARTS);
     }
 
     static String formatSeconds(double seconds) {

@@ -96,6 +96,20 @@ public final class Fitter {
         ChainRun[] runs = new ChainRun[settings.chains()];
         ChainCheckpoint[] opened = new ChainCheckpoint[settings.chains()];
         Turns turns = new Turns(settings.chains());
+        progress.threads(threads);
+        for (int chain = 0; chain < settings.chains(); chain++) {
+            // every resumed chain's position is shown from the start, a finished one as done,
+            // though a thread may reach it only after a stretch of the others
+            opened[chain] = checkpoints.open(chain, settings, layout.size());
+            try {
+                ChainCheckpoint.Position saved = opened[chain] == null ? null : opened[chain].saved();
+                if (saved != null && saved.iterations() > 0) {
+                    progress.resumed(chain, saved.iterations(), settings.iterations(), saved.iterations() <= settings.warmup());
+                }
+            } catch (IOException e) {
+                throw new UncheckedIOException("checkpoint of chain " + (chain + 1) + ": " + e.getMessage(), e);
+            }
+        }
         ExecutorService pool = Executors.newFixedThreadPool(threads, r -> {
             Thread t = new Thread(r, "rungs-chain");
             t.setDaemon(true);
@@ -111,7 +125,6 @@ public final class Fitter {
                             if (runs[chain] == null) {
                                 RestorableUniformRandomProvider rng = ChainSeeds.stream(settings.seed(), chain);
                                 Chain c = Chain.of(order, spec, byGroup, settings.warmup(), rng);
-                                opened[chain] = checkpoints.open(chain, settings, layout.size());
                                 runs[chain] = new ChainRun(c, chain, settings, layout, draws, progress, opened[chain]);
                             }
                             ChainRun run = runs[chain];

@@ -6,8 +6,11 @@ import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import java.io.ByteArrayOutputStream;
 import java.io.IOException;
+import java.io.PrintStream;
 import java.io.UncheckedIOException;
+import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.nio.file.StandardCopyOption;
@@ -219,6 +222,30 @@ final class CheckpointTest {
         assertTrue(Files.size(here.resolve("draws-0.bin")) > (long) (at - 1 - SETTINGS.warmup()) * reference.parameterCount() * Double.BYTES,
                 "the draws file ran ahead of the restored state");
         assertSameDraws(reference, fit(ProgressListener.NONE, new AtomicBoolean(), Checkpoints.resume(here, RARELY)).draws());
+    }
+
+    /**
+     * A chain restored finished shows as done from the first progress line, though its thread
+     * reaches it only after the other chain: chain 1 saved at iteration 10 and chain 2 finished
+     * (its files copied from a whole fit), resumed on one thread that runs chain 1 through first.
+     */
+    @Test
+    void aChainRestoredFinishedIsShownDoneFromTheStart() throws IOException {
+        SamplerSettings oneThread = new SamplerSettings(2, 30, 40, 17L, 1);
+        Path partial = dir.resolve("partial");
+        Path whole = dir.resolve("whole");
+        AtomicBoolean stop = new AtomicBoolean();
+        Fitter.fit(survey(), spec(), oneThread, stopAt(10, stop), stop, Checkpoints.start(partial, RARELY), Long.MAX_VALUE);
+        Fitter.fit(survey(), spec(), oneThread, ProgressListener.NONE, new AtomicBoolean(), Checkpoints.start(whole, RARELY), Long.MAX_VALUE);
+        for (String file : List.of("chain-1.bin", "draws-1.bin")) {
+            Files.copy(whole.resolve(file), partial.resolve(file), StandardCopyOption.REPLACE_EXISTING);
+        }
+        ByteArrayOutputStream lines = new ByteArrayOutputStream();
+        ConsoleProgress progress = new ConsoleProgress(new PrintStream(lines, true, StandardCharsets.UTF_8), 2, RARELY);
+        assertFalse(Fitter.fit(survey(), spec(), oneThread, progress, new AtomicBoolean(), Checkpoints.resume(partial, RARELY),
+                Long.MAX_VALUE).interrupted());
+        String first = lines.toString(StandardCharsets.UTF_8).lines().findFirst().orElse("");
+        assertEquals("chain 1 done 70/70 | chain 2 done 70/70", first);
     }
 
     @Test
