@@ -15,8 +15,10 @@ import java.util.Locale;
  * priced at the mean cost per iteration of the other chains that have run that part whole,
  * scaled by the chain's own pace against theirs over the last {@link #RECENT} parts both ran
  * (chains differ by a fifth and more, with their own adapted step sizes); where no other chain
- * has, at the chain's own recent cost (its last whole part, else its current one). A chain
- * resumed from a checkpoint has no time for the parts an earlier run made.
+ * has, at the chain's own recent cost (its last whole part, its dearest iteration left out as a
+ * one-off, else its current part). A chain resumed from a checkpoint has no time for the parts
+ * an earlier run made. Costs that change in parts no chain has reached (the dearer second half
+ * of warm-up, seen from the first) cannot be foreseen.
  *
  * <p>The time left is then the running time left of all chains shared by the threads at work
  * (as many as the fitter runs, fewer when fewer chains are left), but never less than the
@@ -41,6 +43,9 @@ public final class ConsoleProgress implements ProgressListener {
     /** Per chain and part: nanoseconds of running time timed, and the iterations they cover. */
     private final long[][] spent;
     private final int[][] timed;
+    /** Per chain and part: the running time of its dearest iteration and of its second dearest. */
+    private final long[][] dearest;
+    private final long[][] secondDearest;
     /** Per chain, the iterations and running time of its last record: where the next timing starts. */
     private final int[] timedFrom;
     private final long[] runningAt;
@@ -59,6 +64,8 @@ public final class ConsoleProgress implements ProgressListener {
         this.warming = new boolean[chains];
         this.spent = new long[chains][PARTS];
         this.timed = new int[chains][PARTS];
+        this.dearest = new long[chains][PARTS];
+        this.secondDearest = new long[chains][PARTS];
         this.timedFrom = new int[chains];
         this.runningAt = new long[chains];
     }
@@ -122,8 +129,15 @@ public final class ConsoleProgress implements ProgressListener {
             for (int k = from; k < iterations; k++) {
                 int p = part(k);
                 // the iteration's share, so that the shares sum to the whole
-                spent[chain][p] += nanos * (k - from + 1) / n - nanos * (k - from) / n;
+                long share = nanos * (k - from + 1) / n - nanos * (k - from) / n;
+                spent[chain][p] += share;
                 timed[chain][p]++;
+                if (share > dearest[chain][p]) {
+                    secondDearest[chain][p] = dearest[chain][p];
+                    dearest[chain][p] = share;
+                } else if (share > secondDearest[chain][p]) {
+                    secondDearest[chain][p] = share;
+                }
             }
         }
         done[chain] = iterations;
@@ -212,12 +226,17 @@ public final class ConsoleProgress implements ProgressListener {
         return n > 0 ? own / theirs : 1;
     }
 
-    /** Chain c's cost per iteration in its last part run whole, else in the part it is in; NaN if neither is timed. */
+    /**
+     * Chain c's cost per iteration in its last part run whole, its dearest iteration counted at
+     * the cost of its second dearest (in parts of 3 iterations or more): a one-off such as the
+     * joint step's first fit of its metric belongs to its part, not to every part ahead. Else in
+     * the part it is in; NaN if neither is timed.
+     */
     private double recent(int c) {
         for (int p = PARTS - 1; p >= 0; p--) {
-            double cost = whole(c, p);
-            if (!Double.isNaN(cost)) {
-                return cost;
+            if (!Double.isNaN(whole(c, p))) {
+                long oneOff = timed[c][p] >= 3 ? dearest[c][p] - secondDearest[c][p] : 0;
+                return (double) (spent[c][p] - oneOff) / timed[c][p];
             }
         }
         int current = Math.min(part(done[c]), PARTS - 1);

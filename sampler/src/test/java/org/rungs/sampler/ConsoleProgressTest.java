@@ -185,6 +185,23 @@ class ConsoleProgressTest {
     }
 
     /**
+     * One dear iteration (as the joint step's first fit of its metric, half-way through warm-up)
+     * is not expected again in every part ahead: 1,000 iterations at 0.1 s, iteration 505 at 5 s.
+     * At 510, the end of its part, 490 x 0.1 = 49 s are left; pricing the part's mean cost ahead
+     * would say 289 s.
+     */
+    @Test
+    void aOneOffDearIterationIsNotExpectedAgain() {
+        ConsoleProgress p = progress(1, 1);
+        long running = 0;
+        for (int k = 1; k <= 510; k++) {
+            running += k == 505 ? 5 * SECOND : SECOND / 10;
+            p.record(0, k, 1000, true, running);
+        }
+        assertEquals("chain 1 warm-up 510/1000 | about 49 s left", p.line());
+    }
+
+    /**
      * The running time left of the slowest chain, not the threads' share of all chains', when it
      * is the larger: three chains on two threads, chain 1 done at 0.1 s an iteration, chain 2 at
      * 60 of 100 at twice that cost (8 s left), chain 3 at 90 at 0.1 s (1 s left). Shared by two
