@@ -67,7 +67,7 @@ final class FitCommand implements Callable<Integer> {
     @Option(names = "--weight", paramLabel = "COL", description = "Survey weights; used in population summaries only, never in the likelihood.")
     String weight;
 
-    @Option(names = "--missing", split = ",", paramLabel = "CODE", description = "Codes meaning missing in every used column (e.g. 88,98,99), besides empty cells and NA.")
+    @Option(names = "--missing", split = ",", paramLabel = "CODE", description = "Codes meaning missing in every used column (e.g. 88,98,99), besides empty cells and NA; a rating of the scale is refused (say --missing-in RATINGCOL=CODE if it is meant).")
     List<String> missing = new ArrayList<>();
 
     @Option(names = "--missing-in", paramLabel = "COL=CODES", description = "Missing codes of one column, e.g. income=-1,999999. Repeatable.")

@@ -361,6 +361,26 @@ final class CommandLineTest {
         assertTrue(Pattern.compile("\"missing_by_column\":\\s*\\{\\s*\"rating\":\\s*3\\b").matcher(json).find(), json);
     }
 
+    /**
+     * Our rule, after an audit where {@code --missing 5} on 0..10 silently dropped 28 real answers
+     * of 5: refused for every column; said of the rating column, accepted and counted.
+     */
+    @Test
+    void aMissingCodeOnTheRatingScaleIsRefusedForEveryColumnAndCountedForTheRatingColumn() throws IOException {
+        assertInputError("five.csv", GOOD, List.of("--rating", "rating", "--missing", "99,5"),
+                "rungs fit: the missing code \"5\" for every column is the rating 5 of the scale 0..10, so it would"
+                        + " discard the real answers of 5 in the rating column \"rating\"", "--missing-in rating=5");
+        Path file = dir.resolve("fives.csv");
+        Files.writeString(file, "rating\n7\n5\n4\n5\n6\n8\n");
+        Path out = dir.resolve("fives");
+        Run r = rungs(fit(file.toString(), "--rating", "rating", "--missing-in", "rating=5", "--seed", "5",
+                "--out", out.toString()));
+        assertEquals(0, r.exit(), r.err());
+        assertTrue(r.err().contains("warning: every answer of 5 was declared missing (2 answers, by a missing code of"
+                + " the rating column)"), r.err());
+        assertFalse(r.err().contains("nobody answered 5"), r.err());
+    }
+
     @Test
     void crossValidatedFitsAreCompared() throws IOException {
         Path plain = dir.resolve("plain");

@@ -10,14 +10,23 @@ import java.util.Map;
  * Rows dropped for missing values. {@code missingByColumn} lists every used column in the order of
  * the specification with its number of missing values; a row missing several used columns is
  * counted under each, so the counts may add up to more than {@link #rowsExcluded()}.
+ * {@code answersDeclaredMissing} counts, per rating of the scale, the answers that a missing code
+ * of the rating column made missing (only ratings with some, in the scale's order).
  */
-public record Exclusions(long rowsRead, long rowsUsed, Map<String, Long> missingByColumn) {
+public record Exclusions(long rowsRead, long rowsUsed, Map<String, Long> missingByColumn,
+        Map<Integer, Long> answersDeclaredMissing) {
 
     public Exclusions {
         if (rowsRead < 0 || rowsUsed < 0 || rowsUsed > rowsRead) {
             throw new IllegalArgumentException("rows used " + rowsUsed + " of rows read " + rowsRead);
         }
         missingByColumn = Collections.unmodifiableMap(new LinkedHashMap<>(missingByColumn));
+        answersDeclaredMissing = Collections.unmodifiableMap(new LinkedHashMap<>(answersDeclaredMissing));
+    }
+
+    /** No answer on the scale declared missing. */
+    public Exclusions(long rowsRead, long rowsUsed, Map<String, Long> missingByColumn) {
+        this(rowsRead, rowsUsed, missingByColumn, Map.of());
     }
 
     /** Nothing excluded from {@code rows} rows. */

@@ -23,8 +23,13 @@ import java.util.zip.ZipException;
  * 1f 8b), streamed once into primitive columns.
  *
  * <p>A row missing a used column (empty cell, {@code NA} or a declared code) is excluded and
- * counted under each such column. A covariate column becomes categorical when declared so or when
- * its values in the rows used are all text. Text among numbers (a stray "refused" in a column of
+ * counted under each such column. In the group column and in categorical covariates a code
+ * matches only the same text ({@code 1} leaves the labels {@code 01} and {@code 1.0} alone); in the
+ * other columns also the same number. Answers on the scale that a code of the rating column made
+ * missing are counted per rating ({@link Exclusions#answersDeclaredMissing()}).
+ *
+ * <p>A covariate column becomes categorical when declared so or when its values in the rows used
+ * are all text. Text among numbers (a stray "refused" in a column of
  * ages) is an error unless the column is declared categorical; a decimal comma ({@code 3,5}),
  * {@code Inf}, {@code NaN} or a magnitude above {@link Covariates#MAX_MAGNITUDE} in an otherwise
  * numeric column is an error, not a level. Ratings and weights are checked in every row, covariates in the rows used. Every
@@ -34,9 +39,12 @@ import java.util.zip.ZipException;
  * or a header of more than {@link #MAX_COLUMNS} columns stops the reading at once, without reading
  * the rest, and group labels are interned with a seeded hash (see {@link ByteInterner}).
  *
- * <p>Labels (group labels and levels of categorical covariates) are kept byte for byte, HTML
- * included: whoever writes them out escapes them. A label holding a control character other than
- * tab (U+0000..U+001F, U+007F..U+009F, so also a line break inside quotes or a terminal escape
+ * <p>Labels (group labels and levels of categorical covariates) are cut of the spaces, tabs and
+ * invisible characters at their ends (U+00A0, U+200B, U+FEFF and the other Unicode spaces, see
+ * {@link Blanks}) before they are interned, so "Dunsellow " joins "Dunsellow" instead of making a
+ * group that looks the same in every table; the cut is on the bytes, allocation-free. Inside, a
+ * label is kept byte for byte, HTML included: whoever writes it out escapes it. A label holding a
+ * control character other than tab (U+0000..U+001F, U+007F..U+009F, so also a line break inside quotes or a terminal escape
  * sequence) stops the reading, naming row and column: such a label is almost surely damage, and
  * printed as is it would break the lines of a table or drive the terminal.
  *
@@ -79,6 +87,8 @@ public final class SurveyReader {
     private final List<String> used;
     private int[] headerIndex;
     private MissingCodes[] missingCodes;
+    /** Whether a slot holds text (group labels, declared categorical covariates): missing codes match it only as text. */
+    private boolean[] textColumn;
     private long[] missing;
     private boolean[] missingInRow;
     private int columns;
@@ -92,6 +102,11 @@ public final class SurveyReader {
     private long[] groupRowsRead = new long[16];
     private long[] groupFirstRow = new long[16];
     private int[] groupRowsUsed = new int[16];
+
+    /** Whether a missing code of the rating column lies on the scale, so that answers may be declared missing. */
+    private boolean ratingCodesOnScale;
+    /** Per position on the scale, the answers a missing code of the rating column made missing. */
+    private final long[] answersDeclaredMissing;
 
     private int size;
     private byte[] category = new byte[1 << 12];
@@ -111,6 +126,7 @@ public final class SurveyReader {
         weightSlot = spec.weightColumn() == null ? -1 : slot++;
         firstCovariateSlot = slot;
         weight = weightSlot < 0 ? null : new double[category.length];
+        answersDeclaredMissing = new long[spec.scale().categories()];
     }
 
     /**
@@ -210,6 +226,7 @@ public final class SurveyReader {
         int slots = used.size();
         headerIndex = new int[slots];
         missingCodes = new MissingCodes[slots];
+        textColumn = new boolean[slots];
         missing = new long[slots];
         missingInRow = new boolean[slots];
         boolean[] keep = new boolean[columns];
@@ -225,7 +242,9 @@ public final class SurveyReader {
             List<String> codes = new ArrayList<>(spec.missingCodes());
             codes.addAll(spec.missingCodesByColumn().getOrDefault(name, List.of()));
             missingCodes[s] = new MissingCodes(codes);
+            textColumn[s] = s == groupSlot || s >= firstCovariateSlot && spec.declaredCategorical(name);
         }
+        ratingCodesOnScale = missingCodes[0].anyNumberWithin(spec.scale().lowest(), spec.scale().highest());
         tokenizer.keep(keep);
         covariates = new CovariateColumn[slots - firstCovariateSlot];
         for (int s = firstCovariateSlot; s < slots; s++) {
@@ -256,25 +275,42 @@ public final class SurveyReader {
                     + ", as many as the header has (a field containing the delimiter must be quoted)");
         }
         rowsRead++;
-        boolean complete = true;
+        int absentColumns = 0;
+        int missingAsNumberOnly = -1;
         for (int s = 0; s < headerIndex.length; s++) {
             int k = headerIndex[s];
-            boolean absent = missingCodes[s].matches(t.data, t.start[k], t.end[k], scanner);
+            boolean absent = missingCodes[s].matchesText(t.data, t.start[k], t.end[k]);
+            if (!absent && !textColumn[s] && missingCodes[s].matchesAsNumber(t.data, t.start[k], t.end[k], scanner)) {
+                absent = true;
+                missingAsNumberOnly = s;
+            }
             missingInRow[s] = absent;
             if (absent) {
                 missing[s]++;
-                complete = false;
+                absentColumns++;
             }
+        }
+        boolean complete = absentColumns == 0;
+        if (missingInRow[0] && ratingCodesOnScale) {
+            countAnswerDeclaredMissing(headerIndex[0]);
+        }
+        if (absentColumns == 1 && missingAsNumberOnly >= firstCovariateSlot) {
+            // the row's fate rests on this column being numbers, known only at the end
+            int k = headerIndex[missingAsNumberOnly];
+            covariates[missingAsNumberOnly - firstCovariateSlot].missingAsNumberOnly(t.data, t.start[k], t.end[k],
+                    t.recordLine);
         }
         int position = missingInRow[0] ? -1 : position(headerIndex[0]);
         double w = weightSlot < 0 || missingInRow[weightSlot] ? Double.NaN : weight(headerIndex[weightSlot]);
         int g = 0;
         if (groupSlot >= 0 && !missingInRow[groupSlot]) {
             int k = headerIndex[groupSlot];
+            int from = Blanks.start(t.data, t.start[k], t.end[k]);
+            int to = Blanks.end(t.data, from, t.end[k]);
             int known = groups.size();
-            g = groups.intern(t.data, t.start[k], t.end[k]);
+            g = groups.intern(t.data, from, to);
             if (g == known) {
-                checkLabel(spec.groupColumn(), "group label", k);
+                checkLabel(spec.groupColumn(), "group label", from, to);
             }
             if (g == groupRowsRead.length) {
                 groupRowsRead = Arrays.copyOf(groupRowsRead, 2 * g);
@@ -306,11 +342,12 @@ public final class SurveyReader {
     }
 
     /** Stops at a label with a control character other than tab (see the class comment). */
-    private void checkLabel(String column, String what, int k) throws SurveyInputException {
+    private void checkLabel(String column, String what, int from, int to) throws SurveyInputException {
         DelimitedTokenizer t = tokenizer;
-        int control = controlCharacter(t.data, t.start[k], t.end[k]);
+        int control = controlCharacter(t.data, from, to);
         if (control >= 0) {
-            throw new SurveyInputException(file, t.recordLine, column, "the " + what + " " + Text.quote(text(k))
+            throw new SurveyInputException(file, t.recordLine, column, "the " + what + " "
+                    + Text.quote(new String(t.data, from, to - from, StandardCharsets.UTF_8))
                     + " contains the control character " + String.format("U+%04X", control),
                     "labels without control characters other than tab (remove them from the file)");
         }
@@ -333,10 +370,25 @@ public final class SurveyReader {
         return -1;
     }
 
+    /** Counts a missing rating cell that holds an answer on the scale (so a missing code of the rating column matched it). */
+    private void countAnswerDeclaredMissing(int k) {
+        DelimitedTokenizer t = tokenizer;
+        int from = Blanks.start(t.data, t.start[k], t.end[k]);
+        int to = Blanks.end(t.data, from, t.end[k]);
+        if (scanner.scan(t.data, from, to) == DecimalScanner.Kind.NUMBER) {
+            double v = scanner.value();
+            Scale scale = spec.scale();
+            if (v == Math.rint(v) && v >= scale.lowest() && v <= scale.highest()) {
+                answersDeclaredMissing[(int) v - scale.lowest()]++;
+            }
+        }
+    }
+
     /** The rating's position on the scale; stops at a non-integer or a rating off the scale. */
     private int position(int k) throws SurveyInputException {
         DelimitedTokenizer t = tokenizer;
-        DecimalScanner.Kind kind = scanner.scan(t.data, t.start[k], t.end[k]);
+        int from = Blanks.start(t.data, t.start[k], t.end[k]);
+        DecimalScanner.Kind kind = scanner.scan(t.data, from, Blanks.end(t.data, from, t.end[k]));
         double v = scanner.value();
         Scale scale = spec.scale();
         String expected = "an integer rating on the scale " + scale + ", an empty cell, NA or a declared missing code";
@@ -356,7 +408,8 @@ public final class SurveyReader {
 
     private double weight(int k) throws SurveyInputException {
         DelimitedTokenizer t = tokenizer;
-        DecimalScanner.Kind kind = scanner.scan(t.data, t.start[k], t.end[k]);
+        int from = Blanks.start(t.data, t.start[k], t.end[k]);
+        DecimalScanner.Kind kind = scanner.scan(t.data, from, Blanks.end(t.data, from, t.end[k]));
         String expected = "a finite non-negative number with a decimal point, an empty cell, NA or a declared missing code";
         if (kind == DecimalScanner.Kind.NOT_FINITE) {
             throw new SurveyInputException(file, t.recordLine, spec.weightColumn(), "the weight " + Text.quote(text(k))
@@ -408,7 +461,13 @@ public final class SurveyReader {
         for (int s = 0; s < used.size(); s++) {
             byColumn.put(used.get(s), missing[s]);
         }
-        return new Exclusions(rowsRead, size, byColumn);
+        Map<Integer, Long> answers = new LinkedHashMap<>();
+        for (int position = 0; position < answersDeclaredMissing.length; position++) {
+            if (answersDeclaredMissing[position] > 0) {
+                answers.put(spec.scale().rating(position), answersDeclaredMissing[position]);
+            }
+        }
+        return new Exclusions(rowsRead, size, byColumn, answers);
     }
 
     private List<String> groupLabels() {
@@ -473,6 +532,9 @@ public final class SurveyReader {
         private long badNumberRow;
         private String badNumberValue;
         private DecimalScanner.Kind badNumberKind;
+        /** The first value made missing only by matching a code as a number, in a row missing nothing else. */
+        private long missingAsNumberRow;
+        private String missingAsNumberValue;
 
         CovariateColumn(String name, boolean declaredCategorical) {
             this.name = name;
@@ -480,6 +542,8 @@ public final class SurveyReader {
         }
 
         void add(int i, byte[] data, int from, int to, long row, DecimalScanner scanner) throws SurveyInputException {
+            from = Blanks.start(data, from, to);
+            to = Blanks.end(data, from, to);
             DecimalScanner.Kind kind = scanner.scan(data, from, to);
             values[i] = scanner.value();
             if (kind == DecimalScanner.Kind.NUMBER) {
@@ -521,6 +585,27 @@ public final class SurveyReader {
         }
 
         /**
+         * A value such as {@code 01} that a code ({@code 1}) made missing as a number: right if the
+         * column holds numbers, wrong if it turns out to hold text, where codes match only as text.
+         */
+        void missingAsNumberOnly(byte[] data, int from, int to, long row) {
+            if (missingAsNumberRow == 0 && !declaredCategorical) {
+                missingAsNumberRow = row;
+                from = Blanks.start(data, from, to);
+                missingAsNumberValue = new String(data, from, Blanks.end(data, from, to) - from, StandardCharsets.UTF_8);
+            }
+        }
+
+        private SurveyInputException numberAmongText() {
+            return new SurveyInputException(file, missingAsNumberRow, name, Text.quote(missingAsNumberValue)
+                    + " equals a missing code only as a number, but the column's other values are text (row " + textRow
+                    + ": " + Text.quote(textValue) + "), and in a column of text a missing code matches only the same text",
+                    "--categorical " + Text.escape(name) + " to read " + Text.quote(missingAsNumberValue)
+                    + " as a level, or the code as written in the file (--missing-in " + Text.escape(name) + "="
+                    + Text.escape(missingAsNumberValue) + ") to make it missing");
+        }
+
+        /**
          * Numbers and text in a column not declared categorical: a stray code such as "refused" in a
          * column of ages would otherwise make every age a category of its own.
          */
@@ -553,12 +638,16 @@ public final class SurveyReader {
             if (!declaredCategorical && textRow > 0 && numberRow > 0) {
                 throw mixed();
             }
+            if (!declaredCategorical && textRow > 0 && missingAsNumberRow > 0) {
+                throw numberAmongText();
+            }
             if (declaredCategorical || textRow > 0) {
                 List<String> labels = new ArrayList<>(levels.size());
                 for (int level = 0; level < levels.size(); level++) {
                     labels.add(levels.label(level));
                 }
-                builder.categorical(name, Arrays.copyOf(codes, n), labels, referenceLevel);
+                builder.categorical(name, Arrays.copyOf(codes, n), labels,
+                        referenceLevel == null ? null : Blanks.strip(referenceLevel));
                 return;
             }
             if (badNumberRow > 0) {

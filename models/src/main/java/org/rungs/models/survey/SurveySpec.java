@@ -1,5 +1,6 @@
 package org.rungs.models.survey;
 
+import java.nio.charset.StandardCharsets;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.Collections;
@@ -22,7 +23,9 @@ import java.util.Set;
  * @param referenceLevels reference level per categorical column (naming one makes the column
  *     categorical); otherwise the most frequent level
  * @param weightColumn survey weights, or null when unweighted
- * @param missingCodes values meaning "missing" in every used column, besides empty cells and {@code NA}
+ * @param missingCodes values meaning "missing" in every used column, besides empty cells and {@code NA};
+ *     none may be a rating of {@code scale}, which would discard real answers unasked (say so with
+ *     {@code missingCodesByColumn} of the rating column if it is meant)
  * @param missingCodesByColumn further missing codes of single columns
  */
 public record SurveySpec(String ratingColumn, String groupColumn, List<String> levelColumns, List<String> styleColumns,
@@ -42,6 +45,9 @@ public record SurveySpec(String ratingColumn, String groupColumn, List<String> l
         referenceLevels = Collections.unmodifiableMap(new LinkedHashMap<>(
                 referenceLevels == null ? Map.of() : referenceLevels));
         missingCodes = List.copyOf(missingCodes == null ? List.of() : missingCodes);
+        for (String code : missingCodes) {
+            requireOffTheScale(code, scale, ratingColumn);
+        }
         Map<String, List<String>> byColumn = new LinkedHashMap<>();
         if (missingCodesByColumn != null) {
             missingCodesByColumn.forEach((column, codes) -> byColumn.put(column, List.copyOf(codes)));
@@ -82,6 +88,27 @@ public record SurveySpec(String ratingColumn, String groupColumn, List<String> l
                 throw new IllegalArgumentException("column \"" + column
                         + "\" has missing codes but is not used by the survey specification");
             }
+        }
+    }
+
+    /**
+     * Refuses a code for every column that is a rating of the scale (our rule): in the rating
+     * column it would silently discard every real answer of that rating.
+     */
+    private static void requireOffTheScale(String code, Scale scale, String ratingColumn) {
+        byte[] bytes = Blanks.strip(code).getBytes(StandardCharsets.UTF_8);
+        DecimalScanner scanner = new DecimalScanner();
+        if (scanner.scan(bytes, 0, bytes.length) != DecimalScanner.Kind.NUMBER) {
+            return;
+        }
+        double v = scanner.value();
+        if (v == Math.rint(v) && v >= scale.lowest() && v <= scale.highest()) {
+            long rating = (long) v;
+            throw new IllegalArgumentException("the missing code " + Text.quote(code) + " for every column is the rating "
+                    + rating + " of the scale " + scale + ", so it would discard the real answers of " + rating
+                    + " in the rating column " + Text.quote(ratingColumn) + "; expected missing codes off the scale, or"
+                    + " --missing-in " + Text.escape(ratingColumn) + "=" + Text.escape(Blanks.strip(code))
+                    + " if answers of " + rating + " really mean missing");
         }
     }
 

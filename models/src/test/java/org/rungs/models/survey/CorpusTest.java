@@ -29,8 +29,8 @@ import org.junit.jupiter.params.provider.MethodSource;
  *
  * <p>Columns of {@code corpus.tsv}: file, spec, outcome, message or row count, warnings. The spec is
  * {@code -} for {@code rating=rating group=region scale=0..10}, or those keys overridden and
- * {@code level=}, {@code style=}, {@code categorical=}, {@code weight=}, {@code missing=} added,
- * lists comma-separated, {@code group=} alone meaning no group column. Outcome {@code error} lists
+ * {@code level=}, {@code style=}, {@code categorical=}, {@code weight=}, {@code missing=},
+ * {@code missing-in=COL=CODES} added, lists comma-separated, {@code group=} alone meaning no group column. Outcome {@code error} lists
  * the message; outcome {@code ok} lists {@code rows=N} and the warnings separated by {@code " | "}
  * ({@code -} for none).
  */
@@ -115,8 +115,14 @@ class CorpusTest {
             counts[c]++;
         }
         for (int k = 0; k < counts.length; k++) {
-            if (counts[k] == 0) {
-                out.add("nobody answered " + survey.scale().rating(k)
+            int rating = survey.scale().rating(k);
+            long declared = survey.exclusions().answersDeclaredMissing().getOrDefault(rating, 0L);
+            if (declared > 0) {
+                out.add("every answer of " + rating + " was declared missing (" + declared
+                        + (declared == 1 ? " answer" : " answers") + ", by a missing code of the rating column)"
+                        + "; the thresholds around it rest on the prior and on their neighbours");
+            } else if (counts[k] == 0) {
+                out.add("nobody answered " + rating
                         + "; the thresholds around it rest on the prior and on their neighbours");
             }
         }
@@ -151,6 +157,7 @@ class CorpusTest {
         List<String> style = List.of();
         List<String> categorical = List.of();
         List<String> missing = List.of();
+        String missingIn = null;
         if (!text.equals("-")) {
             for (String option : text.split(" ")) {
                 int eq = option.indexOf('=');
@@ -166,12 +173,18 @@ class CorpusTest {
                     case "style" -> style = list;
                     case "categorical" -> categorical = list;
                     case "missing" -> missing = list;
+                    case "missing-in" -> missingIn = value;
                     default -> throw new IllegalArgumentException("unknown spec key " + key);
                 }
             }
         }
-        return SurveySpec.builder(rating, Scale.parse(scale)).group(group).weight(weight)
+        SurveySpec.Builder builder = SurveySpec.builder(rating, Scale.parse(scale)).group(group).weight(weight)
                 .level(level.toArray(String[]::new)).style(style.toArray(String[]::new))
-                .categorical(categorical.toArray(String[]::new)).missingCodes(missing.toArray(String[]::new)).build();
+                .categorical(categorical.toArray(String[]::new)).missingCodes(missing.toArray(String[]::new));
+        if (missingIn != null) {
+            int eq = missingIn.indexOf('=');
+            builder.missingCodesFor(missingIn.substring(0, eq), missingIn.substring(eq + 1).split(","));
+        }
+        return builder.build();
     }
 }

@@ -29,14 +29,53 @@ class GroupsTest {
     }
 
     @Test
-    void keepsLabelsExactlyAsWrittenIncludingMarkupTabsAndSpaces() throws Exception {
+    void keepsLabelsAsWrittenInsideIncludingMarkupTabsAndSpaces() throws Exception {
         String html = "<b>North & \"South\"</b>";
         String tab = "tab\there";
-        String padded = " West ";
+        String inner = "Lake  Shore";
         Path file = SurveyFiles.write(dir, "labels.csv", "rating,region\n1,\"" + html.replace("\"", "\"\"") + "\"\n2,\""
-                + tab + "\"\n3," + padded + "\n4,West\n");
+                + tab + "\"\n3," + inner + "\n4,Lake Shore\n");
         Survey survey = SurveyReader.read(file, SurveySpec.of("rating", "region", ZERO_TEN));
-        assertEquals(List.of(html, tab, padded, "West"), survey.groupLabels());
+        assertEquals(List.of(html, tab, inner, "Lake Shore"), survey.groupLabels());
+    }
+
+    /**
+     * Our rule, after an audit where "Dunsellow " (a trailing space) became a group of its own that
+     * looked like "Dunsellow" in every table: spaces, tabs and invisible characters (no-break
+     * space U+00A0, zero-width space U+200B, byte-order mark U+FEFF, ideographic space U+3000) at
+     * either end of a label are cut before the label is compared.
+     */
+    @Test
+    void lookAlikeLabelsJoinTheirGroup() throws Exception {
+        String[] lookAlikes = {"Dunsellow ", " Dunsellow", "Dunsellow\u00A0", "\u00A0Dunsellow", "Dunsellow\u200B",
+            "\u200BDunsellow", "\uFEFFDunsellow", "Dunsellow\uFEFF", "\tDunsellow\t", "\u3000Dunsellow \u00A0\u200B"};
+        StringBuilder content = new StringBuilder("rating,region\n1,Dunsellow\n2,Carrow\n");
+        for (String label : lookAlikes) {
+            content.append("3,\"").append(label).append("\"\n");
+        }
+        Path file = SurveyFiles.write(dir, "lookalike.csv", content.toString());
+        Survey survey = SurveyReader.read(file, SurveySpec.of("rating", "region", ZERO_TEN));
+        assertEquals(List.of("Dunsellow", "Carrow"), survey.groupLabels());
+        assertArrayEquals(new int[] {1 + lookAlikes.length, 1}, survey.groupSizes());
+    }
+
+    @Test
+    void aLabelOfOnlyInvisibleCharactersIsAnEmptyCell() throws Exception {
+        Path file = SurveyFiles.write(dir, "blank.csv", "rating,region\n1,West\n2,\"\u00A0\u200B \"\n");
+        Survey survey = SurveyReader.read(file, SurveySpec.of("rating", "region", ZERO_TEN));
+        assertEquals(List.of("West"), survey.groupLabels());
+        assertEquals(1L, survey.exclusions().missingByColumn().get("region"));
+    }
+
+    @Test
+    void lookAlikeLevelsOfACategoricalCovariateAreOneLevel() throws Exception {
+        Path file = SurveyFiles.write(dir, "levels.csv", "rating,area\n1,urban\n2,\"urban\u00A0\"\n3, rural\n"
+                + "4,\"\uFEFFrural\"\n5,urban\n");
+        Survey survey = SurveyReader.read(file, SurveySpec.builder("rating", ZERO_TEN).level("area").build());
+        assertEquals(1, survey.level().count());
+        assertEquals("area=rural", survey.level().name(0));
+        assertEquals("urban", survey.level().referenceLevel(0));
+        assertArrayEquals(new double[] {0, 0, 1, 1, 0}, survey.level().column(0), 0.0);
     }
 
     @Test

@@ -103,4 +103,74 @@ class MissingValuesTest {
                 SurveySpec.builder("rating", ZERO_TEN).level("x").missingCodes("99", "-1").build());
         assertEquals(2, survey.size());
     }
+
+    /**
+     * Our rule, after an audit where {@code --missing 1} dropped the groups "1", "01" and "1.0"
+     * (here 12, as a code for every column may not be a rating of the scale)
+     * (120 of 160 rows): in a column of text a code matches only the same text, after the blanks
+     * at the ends are cut; NA and empty cells stay missing.
+     */
+    @Test
+    void aCodeMatchesGroupLabelsOnlyAsWritten() throws Exception {
+        Path file = SurveyFiles.write(dir, "labels.csv",
+                "rating,region\n1,12\n2,012\n3,12.0\n4, 12 \n5,+12\n6,NA\n7,\n8,012\n");
+        Survey survey = SurveyReader.read(file,
+                SurveySpec.builder("rating", ZERO_TEN).group("region").missingCodes("12").build());
+        assertEquals(List.of("012", "12.0", "+12"), survey.groupLabels());
+        assertArrayEquals(new int[] {2, 3, 5, 8}, SurveyFiles.ratings(survey));
+        assertEquals(4L, survey.exclusions().missingByColumn().get("region"));
+    }
+
+    @Test
+    void aCodeMatchesTheLevelsOfACategoricalCovariateOnlyAsWritten() throws Exception {
+        Path file = SurveyFiles.write(dir, "levels.csv", "rating,wave\n1,12\n2,012\n3,12.0\n4,2\n5,012\n");
+        Survey survey = SurveyReader.read(file,
+                SurveySpec.builder("rating", ZERO_TEN).level("wave").categorical("wave").missingCodes("12").build());
+        assertArrayEquals(new int[] {2, 3, 4, 5}, SurveyFiles.ratings(survey));
+        assertEquals("012", survey.level().referenceLevel(0));
+        assertEquals(List.of("wave=12.0", "wave=2"), List.of(survey.level().name(0), survey.level().name(1)));
+    }
+
+    @Test
+    void aCodeStillMatchesNumbersInAColumnOfNumbers() throws Exception {
+        Path file = SurveyFiles.write(dir, "numbers.csv", "rating,income\n1,12\n2,012\n3,12.0\n4,2\n5,3\n");
+        Survey survey = SurveyReader.read(file,
+                SurveySpec.builder("rating", ZERO_TEN).level("income").missingCodes("12").build());
+        assertArrayEquals(new int[] {4, 5}, SurveyFiles.ratings(survey));
+    }
+
+    /**
+     * An undeclared column is text only if its values in the rows used are: a number there that a
+     * code matched only as a number ("012" for the code 12) would be kept if the column is text, so
+     * the reader stops rather than guess.
+     */
+    @Test
+    void aNumberThatMatchesACodeOnlyAsANumberAmongTextIsRefusedNamingItsRow() throws Exception {
+        Path file = SurveyFiles.write(dir, "mixed.csv", "rating,area\n1,urban\n2,12\n3,rural\n4,012\n5,urban\n");
+        SurveyInputException e = assertThrows(SurveyInputException.class, () -> SurveyReader.read(file,
+                SurveySpec.builder("rating", ZERO_TEN).level("area").missingCodes("12").build()));
+        assertEquals(file + ", row 5, column \"area\": \"012\" equals a missing code only as a number, but the column's"
+                + " other values are text (row 2: \"urban\"), and in a column of text a missing code matches only the"
+                + " same text; expected --categorical area to read \"012\" as a level, or the code as written in the file"
+                + " (--missing-in area=012) to make it missing", e.getMessage());
+        Survey declared = SurveyReader.read(file,
+                SurveySpec.builder("rating", ZERO_TEN).level("area").missingCodes("12").categorical("area").build());
+        assertArrayEquals(new int[] {1, 3, 4, 5}, SurveyFiles.ratings(declared));
+        Survey asWritten = SurveyReader.read(file,
+                SurveySpec.builder("rating", ZERO_TEN).level("area").missingCodes("12").missingCodesFor("area", "012").build());
+        assertArrayEquals(new int[] {1, 3, 5}, SurveyFiles.ratings(asWritten));
+    }
+
+    /** Our rule: answers a code of the rating column made missing are counted per rating, for the fit's warning. */
+    @Test
+    void countsTheAnswersACodeOfTheRatingColumnMadeMissing() throws Exception {
+        Path file = SurveyFiles.write(dir, "fives.csv", "rating\n5\n7\n5.0\n 5 \n99\nNA\n6\n");
+        Survey survey = SurveyReader.read(file,
+                SurveySpec.builder("rating", ZERO_TEN).missingCodesFor("rating", "5", "99").build());
+        assertArrayEquals(new int[] {7, 6}, SurveyFiles.ratings(survey));
+        assertEquals(Map.of(5, 3L), survey.exclusions().answersDeclaredMissing());
+        Survey kept = SurveyReader.read(file, SurveySpec.builder("rating", ZERO_TEN).missingCodesFor("rating", "99").build());
+        assertArrayEquals(new int[] {5, 7, 5, 5, 6}, SurveyFiles.ratings(kept));
+        assertEquals(Map.of(), kept.exclusions().answersDeclaredMissing());
+    }
 }

@@ -48,4 +48,26 @@ class SurveySpecTest {
                 () -> SurveySpec.builder("r", ZERO_TEN).missingCodesFor("a", "1").build());
         assertThrows(NullPointerException.class, () -> SurveySpec.of("r", null, null));
     }
+
+    /**
+     * Our rule, after an audit where {@code --missing 5} on 0..10 silently dropped 28 real answers
+     * of 5: a code for every column may not be a rating of the scale; the rating column's own codes
+     * may, since naming the column says it is meant.
+     */
+    @Test
+    void refusesACodeForEveryColumnThatIsARatingOfTheScale() {
+        for (String code : List.of("5", "5.0", " 5 ", "05", "0", "10")) {
+            IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
+                    () -> SurveySpec.builder("q1", ZERO_TEN).missingCodes("99", code).build(), code);
+            String rating = code.strip().equals("05") ? "5" : code.strip().replace(".0", "");
+            assertTrue(e.getMessage().contains("is the rating " + rating + " of the scale 0..10, so it would discard the real"
+                    + " answers of " + rating + " in the rating column \"q1\"; expected missing codes off the scale, or"
+                    + " --missing-in q1=" + code.strip() + " if answers of " + rating + " really mean missing"), e.getMessage());
+        }
+        for (String code : List.of("11", "-1", "99", "5.5", "refused")) {
+            assertEquals(List.of(code), SurveySpec.builder("q1", ZERO_TEN).missingCodes(code).build().missingCodes());
+        }
+        assertEquals(Map.of("q1", List.of("5")),
+                SurveySpec.builder("q1", ZERO_TEN).missingCodesFor("q1", "5").build().missingCodesByColumn());
+    }
 }

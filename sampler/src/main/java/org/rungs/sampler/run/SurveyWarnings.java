@@ -3,6 +3,7 @@ package org.rungs.sampler.run;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
+import java.util.Map;
 import org.rungs.models.ModelSpec;
 import org.rungs.models.survey.Scale;
 import org.rungs.models.survey.Survey;
@@ -22,9 +23,17 @@ final class SurveyWarnings {
         for (byte c : survey.category()) {
             counts[c]++;
         }
+        Map<Integer, Long> declaredMissing = survey.exclusions().answersDeclaredMissing();
         for (int k = 0; k < m; k++) {
-            if (counts[k] == 0) {
-                warnings.add("nobody answered " + survey.scale().rating(k)
+            int rating = survey.scale().rating(k);
+            long declared = declaredMissing.getOrDefault(rating, 0L);
+            if (declared > 0) {
+                // a code of the rating column matches every answer of its rating, so none is left
+                warnings.add("every answer of " + rating + " was declared missing (" + declared
+                        + (declared == 1 ? " answer" : " answers") + ", by a missing code of the rating column)"
+                        + "; the thresholds around it rest on the prior and on their neighbours");
+            } else if (counts[k] == 0) {
+                warnings.add("nobody answered " + rating
                         + "; the thresholds around it rest on the prior and on their neighbours");
             }
         }
