@@ -1,7 +1,6 @@
 package org.rungs.posteriors.report;
 
 import java.io.IOException;
-import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.List;
@@ -24,9 +23,9 @@ record FitFolder(Path dir, Object run, CsvTable summary, Draws draws, CsvTable g
                 throw new IOException(dir + " is not a fit folder: " + required.getFileName() + " is missing");
             }
         }
-        Object run = Json.parse(Files.readString(runFile, StandardCharsets.UTF_8));
+        Object run = Json.read(runFile);
         if (!(run instanceof Map)) {
-            throw new IOException(runFile + ": expected a JSON object");
+            throw new IOException(runFile.toAbsolutePath() + ": expected a JSON object, the run record of a fit");
         }
         Path drawsFile = dir.resolve("draws.csv");
         return new FitFolder(dir, run, CsvTable.read(summaryFile),

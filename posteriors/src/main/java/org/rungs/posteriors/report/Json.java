@@ -1,9 +1,14 @@
 package org.rungs.posteriors.report;
 
 import java.io.IOException;
+import java.nio.charset.CharacterCodingException;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
+import java.util.Locale;
 import java.util.Map;
 
 /**
@@ -12,15 +17,41 @@ import java.util.Map;
  * needs no JSON library for one file of a few dozen keys.
  */
 final class Json {
+    /** Longer values are cut in messages: a stray binary value must not flood the terminal. */
+    private static final int MAX_SHOWN = 60;
+
+    private final String source;
     private final String text;
     private int at;
 
-    private Json(String text) {
+    private Json(String source, String text) {
+        this.source = source;
         this.text = text;
     }
 
+    /**
+     * Reads and parses a file (run.json).
+     *
+     * @throws IOException when it cannot be read or is malformed; the message names the file by its
+     *                     full path, and the row and column where the text goes wrong
+     */
+    static Object read(Path file) throws IOException {
+        Path path = file.toAbsolutePath();
+        String text;
+        try {
+            text = Files.readString(file, StandardCharsets.UTF_8);
+        } catch (CharacterCodingException e) {
+            throw new IOException(path + ": expected JSON text in UTF-8, found bytes that are not UTF-8", e);
+        }
+        return parse(path.toString(), text);
+    }
+
     static Object parse(String text) throws IOException {
-        Json json = new Json(text);
+        return parse("JSON text", text);
+    }
+
+    private static Object parse(String source, String text) throws IOException {
+        Json json = new Json(source, text);
         Object value = json.value();
         json.skipSpace();
         if (json.at != text.length()) {
@@ -153,7 +184,7 @@ final class Json {
 
     private Object literal(String word, Object value) throws IOException {
         if (!text.startsWith(word, at)) {
-            throw fault("unexpected character '" + text.charAt(at) + "'");
+            throw fault("unexpected character " + quote(String.valueOf(text.charAt(at))));
         }
         at += word.length();
         return value;
@@ -168,7 +199,7 @@ final class Json {
             return Double.valueOf(text.substring(start, at));
         } catch (NumberFormatException e) {
             at = start;
-            throw fault("expected a value");
+            throw fault("expected a value, found " + quote(String.valueOf(text.charAt(at))));
         }
     }
 
@@ -189,7 +220,50 @@ final class Json {
         }
     }
 
+    /** The source, then the row and column (1-based, counted in characters) of {@code at}. */
     private IOException fault(String message) {
-        return new IOException("run.json: character " + (at + 1) + ": " + message);
+        int end = Math.min(at, text.length());
+        int row = 1;
+        int rowStart = 0;
+        for (int i = 0; i < end; i++) {
+            if (text.charAt(i) == '\n') {
+                row++;
+                rowStart = i + 1;
+            }
+        }
+        return new IOException(source + ", row " + row + ", column " + (end - rowStart + 1) + ": " + message);
+    }
+
+    /**
+     * {@code s} as a JSON string, quotes included, for a message: quotes, backslashes and control
+     * characters escaped, so that text read from a file never sends raw control characters to the
+     * terminal; cut after 60 characters.
+     */
+    static String quote(String s) {
+        return "\"" + escape(s) + "\"";
+    }
+
+    /** {@code s} with quotes, backslashes and control characters escaped as in JSON; cut after 60 characters. */
+    static String escape(String s) {
+        return escape(s, MAX_SHOWN);
+    }
+
+    /** {@code s} with quotes, backslashes and control characters escaped as in JSON; cut after {@code longest} characters. */
+    static String escape(String s, int longest) {
+        StringBuilder out = new StringBuilder();
+        int shown = Math.min(s.length(), longest);
+        for (int i = 0; i < shown; i++) {
+            char c = s.charAt(i);
+            switch (c) {
+                case '"' -> out.append("\\\"");
+                case '\\' -> out.append("\\\\");
+                case '\t' -> out.append("\\t");
+                case '\n' -> out.append("\\n");
+                case '\r' -> out.append("\\r");
+                default -> out.append(Character.isISOControl(c) ? String.format(Locale.ROOT, "\\u%04x", (int) c)
+                        : String.valueOf(c));
+            }
+        }
+        return shown < s.length() ? out.append("...").toString() : out.toString();
     }
 }

@@ -16,6 +16,9 @@ public final class Report {
     /** File name of the report inside the fit folder. */
     public static final String FILE_NAME = "report.html";
 
+    /** What the report shows for a fact that run.json does not hold. */
+    static final String NOT_RECORDED = "unknown (not in run.json)";
+
     private static final String STYLE = """
             body{font-family:"DejaVu Sans",Helvetica,Arial,sans-serif;font-size:15px;line-height:1.45;color:#111;
             max-width:1180px;margin:0 auto;padding:16px 24px}
@@ -95,13 +98,14 @@ public final class Report {
     private static void writeFitted(FitFolder fit, StringBuilder out) {
         out.append("<section id=\"fitted\"><h2>1. What was fitted</h2>\n<div class=\"two\"><div><h3>Data</h3>\n");
         Html.tableHead(out, "facts", List.of("", ""));
-        Html.row(out, "file", "<code>" + Html.escape(fit.text("input.file", "")) + "</code>");
-        Html.row(out, "SHA-256", "<code>" + Html.escape(fit.text("input.sha256", "")) + "</code>");
-        Html.row(out, "scale", Html.escape(fit.text("input.scale", "")));
-        Html.row(out, "groups", Html.escape(fit.text("input.groups", "")));
-        Html.row(out, "rows read", Html.escape(fit.text("input.rows_read", "")));
-        Html.row(out, "rows used", Html.escape(fit.text("input.rows_used", "")));
-        Html.row(out, "rows excluded", Html.escape(fit.text("input.rows_excluded", "0")));
+        // a run.json without some of these (hand-made, or cut short) says so rather than show a guess
+        Html.row(out, "file", "<code>" + Html.escape(fit.text("input.file", NOT_RECORDED)) + "</code>");
+        Html.row(out, "SHA-256", "<code>" + Html.escape(fit.text("input.sha256", NOT_RECORDED)) + "</code>");
+        Html.row(out, "scale", Html.escape(fit.text("input.scale", NOT_RECORDED)));
+        Html.row(out, "groups", Html.escape(fit.text("input.groups", NOT_RECORDED)));
+        Html.row(out, "rows read", Html.escape(fit.text("input.rows_read", NOT_RECORDED)));
+        Html.row(out, "rows used", Html.escape(fit.text("input.rows_used", NOT_RECORDED)));
+        Html.row(out, "rows excluded", Html.escape(fit.text("input.rows_excluded", NOT_RECORDED)));
         for (Map.Entry<String, Object> reason : fit.map("input.excluded_by_reason").entrySet()) {
             Html.row(out, "&nbsp;&nbsp;excluded: " + Html.escape(reason.getKey()), Html.escape(fit.text("input.excluded_by_reason."
                     + reason.getKey(), "")));

@@ -34,8 +34,16 @@ class JsonTest {
         IOException unclosed = assertThrows(IOException.class, () -> Json.parse("{\"a\": [1, 2}"));
         assertTrue(unclosed.getMessage().contains("expected ']'"), unclosed.getMessage());
         IOException trailing = assertThrows(IOException.class, () -> Json.parse("{} x"));
-        assertTrue(trailing.getMessage().contains("character 4"), trailing.getMessage());
+        assertTrue(trailing.getMessage().contains("row 1, column 4"), trailing.getMessage());
+        IOException second = assertThrows(IOException.class, () -> Json.parse("{\"a\": 1,\n \"b\" 2}"));
+        assertTrue(second.getMessage().contains("row 2, column 6: expected ':'"), second.getMessage());
         assertThrows(IOException.class, () -> Json.parse("\"open"));
         assertThrows(IOException.class, () -> Json.parse("{\"a\": tru}"));
+    }
+
+    @Test
+    void quotesTextForMessagesWithoutRawControlCharacters() {
+        assertEquals("\"a\\u0007b\\t\\\"c\\\\\"", Json.quote("a\u0007b\t\"c\\"));
+        assertEquals("x".repeat(60) + "...", Json.escape("x".repeat(61)));
     }
 }

@@ -233,6 +233,32 @@ class ReportTest {
     }
 
     @Test
+    void aMalformedRunJsonIsNamedByItsFullPathRowAndColumn() throws Exception {
+        Path dir = copyOfOneGroup(tmp.resolve("fit"));
+        // a control character where a value belongs: the message shows it escaped, never raw
+        Files.writeString(dir.resolve("run.json"), "{\n  \"input\": \u0007}");
+        IOException e = assertThrows(IOException.class, () -> Report.write(dir));
+        String full = dir.resolve("run.json").toAbsolutePath().toString();
+        assertTrue(e.getMessage().startsWith(full + ", row 2, column 12: "), e.getMessage());
+        assertTrue(e.getMessage().contains("\\u0007"), e.getMessage());
+        assertFalse(e.getMessage().contains("\u0007"), "no raw control character in the message");
+        assertFalse(Files.exists(dir.resolve("report.html")));
+    }
+
+    @Test
+    void aRunJsonWithoutItsInputSaysTheRowsExcludedAreUnknown() throws Exception {
+        // our rule: a fact run.json does not hold is shown as unknown, never as a guess such as 0
+        Path dir = copyOfOneGroup(tmp.resolve("fit"));
+        String run = Files.readString(dir.resolve("run.json"));
+        int from = run.indexOf("  \"input\"");
+        int to = run.indexOf("  \"model\"");
+        Files.writeString(dir.resolve("run.json"), run.substring(0, from) + run.substring(to));
+        String html = Files.readString(Report.write(dir));
+        assertTrue(html.contains("rows excluded</td><td>" + Report.NOT_RECORDED), html);
+        assertTrue(html.contains("rows read</td><td>" + Report.NOT_RECORDED), html);
+    }
+
+    @Test
     void absentDerivedFilesAreNamedInOneSentenceEach() throws Exception {
         Path dir = FitFolderFixture.write(tmp.resolve("fit"), FitFolderFixture.demoRegions(), true, 15);
         for (String file : List.of("groups.csv", "distributions.csv", "coarse_shares.csv", "coefficients.csv", "attraction.csv")) {
