@@ -19,7 +19,9 @@ import org.rungs.posteriors.LeaveOneOut;
  * predictive accuracy (each fit's {@code cross_validation.csv}): the difference of elpd_loo from
  * the best fit and its standard error, sqrt(n) times the sd of the pointwise differences
  * (Vehtari, Gelman & Gabry 2017, Statistics and Computing 27, eq. 24). The pointwise differences
- * are paired by the file's row, so the fits must have used the same rows; a difference of a few
+ * are paired by the file's row, so the fits must have used the same rows, and they must predict the
+ * same thing: the same rating column on the same scale (our rule: otherwise elpd_loo measures
+ * predictions of different outcomes, and their difference means nothing); a difference of a few
  * standard errors or less does not tell the models apart (same paper, section 5.2; equation and
  * section numbers from memory).
  */
@@ -61,8 +63,9 @@ public final class CrossValidationComparison {
     /**
      * Reads the fit folders and compares them, best first.
      *
-     * @throws IOException when a folder is not a cross-validated fit, the fits read different files
-     *                     or used different rows, or a file is malformed; the message says which
+     * @throws IOException when a folder is named twice or is not a cross-validated fit, the fits read
+     *                     different files, other rating columns or scales, or used different rows, or
+     *                     a file is malformed; the message says which
      */
     public static List<Fit> compare(List<Path> dirs) throws IOException {
         if (dirs.size() < 2) {
@@ -72,9 +75,17 @@ public final class CrossValidationComparison {
         for (Path dir : dirs) {
             fits.add(Pointwise.read(dir));
         }
+        for (int i = 0; i < fits.size(); i++) {
+            for (int j = i + 1; j < fits.size(); j++) {
+                if (Files.isSameFile(fits.get(i).dir, fits.get(j).dir)) {
+                    throw new IOException(fits.get(i).dir + " and " + fits.get(j).dir + " are the same fit folder; name"
+                            + " the folders of different fits");
+                }
+            }
+        }
         Pointwise first = fits.get(0);
         for (Pointwise other : fits.subList(1, fits.size())) {
-            first.checkSameRows(other);
+            first.checkComparable(other);
         }
         Pointwise best = fits.stream().max(Comparator.comparingDouble(Pointwise::total)).orElseThrow();
         List<Fit> out = new ArrayList<>();
@@ -118,12 +129,13 @@ public final class CrossValidationComparison {
 
     /**
      * Per group, each fit's elpd_loo minus the best fit's with its standard error, one column per
-     * fit but the best.
+     * fit but the best; control characters in the labels escaped.
      */
     public static String formatByGroup(List<Fit> fits) {
         StringBuilder b = new StringBuilder();
         List<GroupDifference> first = fits.get(0).byGroup();
-        int width = Math.max(5, first.stream().mapToInt(d -> d.group().length()).max().orElse(5));
+        List<String> labels = first.stream().map(d -> Json.escape(d.group(), Integer.MAX_VALUE)).toList();
+        int width = Math.max(5, labels.stream().mapToInt(String::length).max().orElse(5));
         b.append("elpd_diff by group against the best fit, ").append(fits.get(0).dir()).append(", with its se:")
                 .append(System.lineSeparator());
         b.append(String.format(Locale.ROOT, "%-" + width + "s %11s", "group", "respondents"));
@@ -132,7 +144,7 @@ public final class CrossValidationComparison {
         }
         b.append(System.lineSeparator());
         for (int g = 0; g < first.size(); g++) {
-            b.append(String.format(Locale.ROOT, "%-" + width + "s %11d", first.get(g).group(), first.get(g).respondents()));
+            b.append(String.format(Locale.ROOT, "%-" + width + "s %11d", labels.get(g), first.get(g).respondents()));
             for (Fit f : fits.subList(1, fits.size())) {
                 GroupDifference d = f.byGroup().get(g);
                 b.append(String.format(Locale.ROOT, "  %22s", String.format(Locale.ROOT, "%.1f (%.1f)", d.difference(),
@@ -170,6 +182,9 @@ public final class CrossValidationComparison {
     private static final class Pointwise {
         final Path dir;
         final String sha256;
+        /** The rating column as given to the fit, or null when run.json does not name it (a demo). */
+        final String rating;
+        final String scale;
         final String model;
         final int[] row;
         final double[] elpd;
@@ -180,10 +195,12 @@ public final class CrossValidationComparison {
         final int[] group;
         final List<String> labels;
 
-        private Pointwise(Path dir, String sha256, String model, int[] row, double[] elpd, double[] effective,
+        private Pointwise(Path dir, String sha256, String rating, String scale, String model, int[] row, double[] elpd, double[] effective,
                 double[] paretoK, double[] mcse, int[] group, List<String> labels) {
             this.dir = dir;
             this.sha256 = sha256;
+            this.rating = rating;
+            this.scale = scale;
             this.model = model;
             this.row = row;
             this.elpd = elpd;
@@ -199,7 +216,7 @@ public final class CrossValidationComparison {
             if (!Files.isRegularFile(runFile)) {
                 throw new IOException(dir + " is not a fit folder: run.json is missing");
             }
-            Object run = Json.parse(Files.readString(runFile, StandardCharsets.UTF_8));
+            Object run = Json.read(runFile);
             Path file = dir.resolve(FILE);
             if (!Files.isRegularFile(file)) {
                 throw new IOException(dir + " holds no " + FILE + ": the fit ran without --cross-validate; fit it again with"
@@ -209,6 +226,11 @@ public final class CrossValidationComparison {
             if (!(sha instanceof String)) {
                 throw new IOException(runFile + ": no input.sha256; expected the run record of a fit");
             }
+            Object scale = Json.at(run, "input.scale");
+            if (!(scale instanceof String)) {
+                throw new IOException(runFile + ": no input.scale; expected the run record of a fit");
+            }
+            Object rating = Json.at(run, "options.rating");
             int capacity = 1 << 12;
             int[] row = new int[capacity];
             double[] elpd = new double[capacity];
@@ -258,7 +280,7 @@ public final class CrossValidationComparison {
             if (n == 0) {
                 throw new IOException(file + ": no respondents after the header");
             }
-            return new Pointwise(dir, (String) sha, model(run), Arrays.copyOf(row, n), Arrays.copyOf(elpd, n),
+            return new Pointwise(dir, (String) sha, rating instanceof String r ? r : null, (String) scale, model(run), Arrays.copyOf(row, n), Arrays.copyOf(elpd, n),
                     Arrays.copyOf(effective, n), Arrays.copyOf(paretoK, n), Arrays.copyOf(mcse, n), Arrays.copyOf(group, n),
                     List.copyOf(groupIndex.keySet()));
         }
@@ -269,18 +291,54 @@ public final class CrossValidationComparison {
                     ? field.substring(1, field.length() - 1).replace("\"\"", "\"") : field;
         }
 
-        /** The model's switches from run.json, in a few words. */
+        /**
+         * The model's switches from run.json, in a few words, then what else may differ between fits
+         * of the same rows when the fit has it: the level's covariates (by source column), the style
+         * covariates and the priors given, control characters escaped.
+         */
         private static String model(Object run) {
-            Object classes = Json.at(run, "model.style_classes");
-            Object attraction = Json.at(run, "model.attraction");
-            Object thresholds = Json.at(run, "model.thresholds");
-            return "style classes " + classes + ", attraction " + attraction + ", thresholds " + thresholds;
+            StringBuilder b = new StringBuilder();
+            b.append("style classes ").append(Json.at(run, "model.style_classes"))
+                    .append(", attraction ").append(Json.at(run, "model.attraction"))
+                    .append(", thresholds ").append(Json.at(run, "model.thresholds"));
+            List<String> level = new ArrayList<>();
+            if (Json.at(run, "model.level_covariates") instanceof Map<?, ?> covariates) {
+                for (Map.Entry<?, ?> c : covariates.entrySet()) {
+                    Object source = Json.at(c.getValue(), "source_column");
+                    String name = String.valueOf(source != null ? source : c.getKey());
+                    if (!level.contains(name)) {
+                        level.add(name);
+                    }
+                }
+            }
+            appendList(b, "level covariates", level);
+            appendList(b, "style covariates", Json.at(run, "options.style"));
+            appendList(b, "priors", Json.at(run, "options.prior"));
+            return Json.escape(b.toString(), Integer.MAX_VALUE);
         }
 
-        void checkSameRows(Pointwise other) throws IOException {
+        private static void appendList(StringBuilder b, String what, Object list) {
+            if (list instanceof List<?> items && !items.isEmpty()) {
+                b.append(", ").append(what).append(' ');
+                for (int i = 0; i < items.size(); i++) {
+                    b.append(i > 0 ? "," : "").append(items.get(i));
+                }
+            }
+        }
+
+        void checkComparable(Pointwise other) throws IOException {
             if (!sha256.equals(other.sha256)) {
-                throw new IOException(dir + " and " + other.dir + " were fitted to different files (SHA-256 " + sha256
-                        + " and " + other.sha256 + "); compare fits of the same file");
+                throw new IOException(dir + " and " + other.dir + " were fitted to different files (SHA-256 "
+                        + Json.escape(sha256) + " and " + Json.escape(other.sha256) + "); compare fits of the same file");
+            }
+            if (rating != null && other.rating != null && !rating.equals(other.rating)) {
+                throw new IOException(dir + " and " + other.dir + " predict different rating columns (--rating "
+                        + Json.quote(rating) + " and " + Json.quote(other.rating) + "); compare fits of the same rating"
+                        + " column");
+            }
+            if (!scale.equals(other.scale)) {
+                throw new IOException(dir + " and " + other.dir + " read the ratings on different scales (--scale "
+                        + Json.quote(scale) + " and " + Json.quote(other.scale) + "); compare fits on the same scale");
             }
             if (!Arrays.equals(row, other.row)) {
                 int onlyHere = 0;

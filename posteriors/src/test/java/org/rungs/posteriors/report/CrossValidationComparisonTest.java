@@ -20,10 +20,17 @@ class CrossValidationComparisonTest {
     private static final String HEADER = "row,rating,elpd_loo,p_loo,pareto_k,mcse_elpd_loo,group\n";
 
     private static Path fit(Path dir, String name, String sha, String... rows) throws IOException {
+        return recordedFit(dir, name, sha, "rating", "0..10", "", rows);
+    }
+
+    /** A fit folder whose run.json records the rating column, the scale and {@code model}'s further keys. */
+    private static Path recordedFit(Path dir, String name, String sha, String rating, String scale, String model, String... rows)
+            throws IOException {
         Path folder = dir.resolve(name);
         Files.createDirectories(folder);
-        Files.writeString(folder.resolve("run.json"), "{\"input\": {\"sha256\": \"" + sha + "\"}, \"model\": {\"style_classes\": "
-                + "\"none\", \"attraction\": \"none\", \"thresholds\": \"shared\"}}");
+        Files.writeString(folder.resolve("run.json"), "{\"input\": {\"sha256\": \"" + sha + "\", \"scale\": \"" + scale
+                + "\"}, \"options\": {\"rating\": \"" + rating + "\", \"style\": [], \"prior\": []}, \"model\": {\"style_classes\": "
+                + "\"none\", \"attraction\": \"none\", \"thresholds\": \"shared\"" + model + "}}");
         Files.writeString(folder.resolve("cross_validation.csv"), HEADER + String.join("\n", rows) + "\n");
         return folder;
     }
@@ -84,6 +91,44 @@ class CrossValidationComparisonTest {
         assertMessage(List.of(a), "name at least two fit folders");
         assertMessage(List.of(a, unordered), "row 3: the rows are not in increasing order (2 after 3)");
         assertMessage(List.of(a, broken), "row 2: expected a row number and five numbers before the group");
+    }
+
+    @Test
+    void refusesFitsOfAnotherRatingColumnOrScaleAndAFolderNamedTwice(@TempDir Path dir) throws IOException {
+        // our rule: elpd_loo of different outcomes measures different predictions; their difference means nothing
+        String[] rows = {"2,3,-1,0.1,0.2,0.01,North", "3,4,-2,0.1,0.3,0.01,North"};
+        Path a = recordedFit(dir, "a", "abc", "rating", "0..10", "", rows);
+        Path otherColumn = recordedFit(dir, "r2", "abc", "r2", "0..10", "", rows);
+        Path otherScale = recordedFit(dir, "wide", "abc", "rating", "0..12", "", rows);
+        Path bell = recordedFit(dir, "bell", "abc", "rat\\u0007ing", "0..10", "", rows);
+        Files.createDirectories(dir.resolve("x"));
+
+        assertMessage(List.of(a, otherColumn), a + " and " + otherColumn + " predict different rating columns (--rating"
+                + " \"rating\" and \"r2\")");
+        assertMessage(List.of(a, otherScale), a + " and " + otherScale + " read the ratings on different scales (--scale"
+                + " \"0..10\" and \"0..12\")");
+        IOException escaped = assertThrows(IOException.class, () -> CrossValidationComparison.compare(List.of(a, bell)));
+        assertTrue(escaped.getMessage().contains("\"rat\\u0007ing\""), escaped.getMessage());
+        assertTrue(escaped.getMessage().chars().noneMatch(Character::isISOControl), escaped.getMessage());
+        assertMessage(List.of(a, a), a + " and " + a + " are the same fit folder");
+        assertMessage(List.of(a, otherScale, dir.resolve("x").resolve("..").resolve("a")), "are the same fit folder");
+    }
+
+    @Test
+    void theModelColumnNamesWhatMayDifferBetweenFitsOfTheSameRows(@TempDir Path dir) throws IOException {
+        String[] rows = {"2,3,-1,0.1,0.2,0.01,North", "3,4,-2,0.1,0.3,0.01,North"};
+        Path plain = fit(dir, "plain", "abc", rows);
+        Path covariates = recordedFit(dir, "covariates", "abc", "rating", "0..10", ", \"level_covariates\": {\"income\": "
+                + "{\"source_column\": \"income\"}, \"school=high\": {\"source_column\": \"school\"}, \"school=low\": "
+                + "{\"source_column\": \"school\"}}", rows);
+        List<CrossValidationComparison.Fit> fits = CrossValidationComparison.compare(List.of(plain, covariates));
+        assertEquals(List.of("style classes none, attraction none, thresholds shared",
+                "style classes none, attraction none, thresholds shared, level covariates income,school"),
+                List.of(model(fits, plain), model(fits, covariates)));
+    }
+
+    private static String model(List<CrossValidationComparison.Fit> fits, Path dir) {
+        return fits.stream().filter(f -> f.dir().equals(dir)).findFirst().orElseThrow().model();
     }
 
     private static void assertMessage(List<Path> dirs, String part) {
