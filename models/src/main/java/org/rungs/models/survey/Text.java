@@ -3,7 +3,7 @@ package org.rungs.models.survey;
 import java.util.List;
 
 /** Quoting of file text inside error messages, so that control characters stay visible. */
-final class Text {
+public final class Text {
 
     /** Longer values are cut in messages: a stray binary field must not flood the terminal. */
     private static final int MAX_SHOWN = 60;
@@ -12,7 +12,7 @@ final class Text {
     }
 
     /** {@code s} in double quotes, with quotes, backslashes and control characters escaped. */
-    static String quote(String s) {
+    public static String quote(String s) {
         return "\"" + escape(s) + "\"";
     }
 
@@ -28,7 +28,7 @@ final class Text {
         return out.toString();
     }
 
-    static String escape(String s) {
+    public static String escape(String s) {
         StringBuilder out = new StringBuilder();
         int shown = Math.min(s.length(), MAX_SHOWN);
         for (int i = 0; i < shown; i++) {

@@ -7,11 +7,13 @@ import java.io.Writer;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.AtomicMoveNotSupportedException;
 import java.nio.file.Files;
+import java.nio.file.InvalidPathException;
 import java.nio.file.Path;
 import java.nio.file.StandardCopyOption;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Properties;
+import org.rungs.models.survey.Text;
 
 /**
  * What a resume needs beyond the chains' states, kept in {@code OUT/.checkpoint/fit.properties}:
@@ -40,7 +42,8 @@ public record SavedFit(Path file, String sha256, long seed, List<String> argumen
     /**
      * Reads the saved fit of output folder {@code out}.
      *
-     * @throws IllegalArgumentException when {@code out} holds no checkpoint
+     * @throws IllegalArgumentException when {@code out} holds no checkpoint, or its file lacks a key or
+     *     holds a value that is not what this class writes; the message names the file and the key
      */
     public static SavedFit read(Path out) {
         Path path = out.resolve(FOLDER).resolve(NAME);
@@ -53,13 +56,52 @@ public record SavedFit(Path file, String sha256, long seed, List<String> argumen
             p.load(r);
         } catch (IOException e) {
             throw new UncheckedIOException("could not read " + path + ": " + e.getMessage(), e);
+        } catch (IllegalArgumentException e) {
+            // Properties.load refuses a malformed unicode escape this way
+            throw new IllegalArgumentException(path.toAbsolutePath() + ": expected the properties a fit writes; " + e.getMessage()
+                    + "; the checkpoint is damaged: start the fit again", e);
         }
-        int count = Integer.parseInt(p.getProperty("arguments"));
+        int count = (int) number(path, p, "arguments", "the number of the fit's arguments, a whole number 0 or more", 0,
+                Integer.MAX_VALUE);
         List<String> arguments = new ArrayList<>();
         for (int i = 0; i < count; i++) {
-            arguments.add(p.getProperty("argument." + i));
+            arguments.add(text(path, p, "argument." + i, "the fit's argument " + (i + 1) + " of " + count));
         }
-        return new SavedFit(Path.of(p.getProperty("file")), p.getProperty("sha256"), Long.parseLong(p.getProperty("seed")), arguments);
+        Path file;
+        try {
+            file = Path.of(text(path, p, "file", "the path of the survey file"));
+        } catch (InvalidPathException e) {
+            throw damaged(path, "file", "the path of the survey file", "holds " + Text.quote(p.getProperty("file")));
+        }
+        String sha256 = text(path, p, "sha256", "the survey file's SHA-256");
+        long seed = number(path, p, "seed", "the seed, a whole number", Long.MIN_VALUE, Long.MAX_VALUE);
+        return new SavedFit(file, sha256, seed, arguments);
+    }
+
+    private static String text(Path path, Properties p, String key, String expected) {
+        String value = p.getProperty(key);
+        if (value == null) {
+            throw damaged(path, key, expected, "is missing");
+        }
+        return value;
+    }
+
+    private static long number(Path path, Properties p, String key, String expected, long lowest, long highest) {
+        String value = text(path, p, key, expected);
+        try {
+            long n = Long.parseLong(value.strip());
+            if (n >= lowest && n <= highest) {
+                return n;
+            }
+        } catch (NumberFormatException e) {
+            // reported below with the value
+        }
+        throw damaged(path, key, expected, "holds " + Text.quote(value));
+    }
+
+    private static IllegalArgumentException damaged(Path path, String key, String expected, String found) {
+        return new IllegalArgumentException(path.toAbsolutePath() + ": the key " + Text.quote(key) + " " + found + "; expected " + expected
+                + "; the checkpoint is damaged: start the fit again");
     }
 
     /** Writes this record into {@code out}'s checkpoint folder atomically. */
