@@ -300,6 +300,34 @@ final class CommandLineTest {
     }
 
     @Test
+    void coarsePointsThatCannotBeIdentifiedOnTheScaleAreRefusedBeforeAnythingIsWritten() throws IOException {
+        // our rule (ModelSpec.checkRatings): coarse points that are the whole scale leave the coarse share unidentified
+        String binary = "region,rating\nA,0\nB,1\nA,1\nB,0\nA,1\nB,1\n";
+        assertInputError("binary.csv", binary, List.of("--rating", "rating", "--scale", "0..1"),
+                "the default coarse points (the two ends and the middle of the scale) need a scale of at least 3 points",
+                "--style-classes none");
+        assertInputError("binary-points.csv", binary, List.of("--rating", "rating", "--scale", "0..1", "--coarse-points", "0,1"),
+                "the coarse points are every rating of the scale 0..1", "--style-classes none");
+        assertInputError("three.csv", binary, List.of("--rating", "rating", "--scale", "0..2"),
+                "are every rating of the scale 0..2", "--coarse-points", "--style-classes none");
+        Path out = dir.resolve("binary-plain");
+        Run plain = rungs(fit(Files.writeString(dir.resolve("binary-plain.csv"), binary).toString(), "--rating", "rating",
+                "--scale", "0..1", "--style-classes", "none", "--seed", "1", "--out", out.toString()));
+        assertEquals(0, plain.exit(), plain.err());
+    }
+
+    @Test
+    void aDamagedCheckpointIsRefusedNamingItsFileAndKey() throws IOException {
+        Path out = dir.resolve("damaged");
+        Path properties = Files.createDirectories(out.resolve(".checkpoint")).resolve("fit.properties");
+        Files.writeString(properties, "file=/data/survey.csv\nsha256=00\nseed=abc\narguments=0\n");
+        Run r = rungs("fit", "--resume", out.toString());
+        assertEquals(Main.INPUT_ERROR, r.exit(), r.err());
+        assertTrue(r.err().contains(properties.toAbsolutePath() + ": the key \"seed\" holds \"abc\"; expected the seed,"
+                + " a whole number"), r.err());
+    }
+
+    @Test
     void optionsOfTheCoarseClassAreRefusedWithoutIt() throws IOException {
         String withStyle = "region,rating,school\nA,7,basic\nB,3,high\nA,5,\nB,6,high\n";
         assertInputError("points-none.csv", GOOD, List.of("--rating", "rating", "--style-classes", "none",
@@ -407,6 +435,9 @@ final class CommandLineTest {
         Run refused = rungs("compare", plain.toString(), uncrossed.toString());
         assertEquals(Main.INPUT_ERROR, refused.exit());
         assertTrue(refused.err().contains("holds no cross_validation.csv: the fit ran without --cross-validate"), refused.err());
+        Run twice = rungs("compare", plain.toString(), plain.resolve(".").toString());
+        assertEquals(Main.INPUT_ERROR, twice.exit());
+        assertTrue(twice.err().contains("are the same fit folder"), twice.err());
         Run alone = rungs("compare", plain.toString());
         assertEquals(2, alone.exit());
         assertTrue(alone.err().contains("DIR"), alone.err());

@@ -25,14 +25,30 @@ public record ModelSpec(ThresholdMode thresholdMode, Priors priors, StyleClasses
 
     /**
      * Checks the ratings the model names against the survey's scale (the coarse points and the
-     * attraction set), so that a caller can refuse them before writing anything.
+     * attraction set), so that a caller can refuse them before writing anything. Coarse points
+     * that are every rating of the scale are refused: a coarse responder then reports the rating
+     * a full-scale responder would (MODEL.md 4a's channel is the identity), so the coarse share is
+     * not identified by the data (its posterior is its prior).
      *
      * @throws IllegalArgumentException naming the first rating that is off the scale, given twice,
-     *     or otherwise unusable
+     *     or otherwise unusable, or saying that the coarse points cover the scale
      */
     public void checkRatings(Scale scale) {
         if (styleClasses.coarse()) {
-            RoundingChannel.of(scale, styleClasses.points(scale));
+            if (styleClasses.coarsePoints() == null && scale.categories() < 3) {
+                throw new IllegalArgumentException("the default coarse points (the two ends and the middle of the scale)"
+                        + " need a scale of at least 3 points, and " + scale + " has " + scale.categories() + "; switch"
+                        + " the coarse class off with --style-classes none (on a scale of 2 points, coarse points given"
+                        + " with --coarse-points would be the whole scale, where the coarse share cannot be identified)");
+            }
+            int[] points = RoundingChannel.of(scale, styleClasses.points(scale)).points();
+            if (points.length == scale.categories()) {
+                throw new IllegalArgumentException("the coarse points " + (styleClasses.coarsePoints() == null
+                        ? "(by default the two ends and the middle) " : "") + "are every rating of the scale " + scale
+                        + ": a coarse responder then gives the same answer as a full-scale responder, so the share of"
+                        + " coarse responders cannot be identified; name fewer coarse points with --coarse-points, or"
+                        + " switch the coarse class off with --style-classes none");
+            }
         }
         attraction.resolve(scale, styleClasses);
     }
