@@ -317,6 +317,31 @@ final class CommandLineTest {
     }
 
     @Test
+    void fitsOfAnotherRatingColumnOrScaleAreNotCompared() throws IOException {
+        // our rule: elpd_loo of different outcomes measures different predictions; their difference means nothing
+        StringBuilder csv = new StringBuilder("region,rating,r2\n");
+        for (int i = 0; i < 40; i++) {
+            csv.append(i % 2 == 0 ? "A," : "B,").append(i % 11).append(',').append((3 * i) % 11).append('\n');
+        }
+        Path file = Files.writeString(dir.resolve("two-ratings.csv"), csv.toString());
+        String[] common = {file.toString(), "--group", "region", "--style-classes", "none", "--seed", "2", "--cross-validate"};
+        Path first = dir.resolve("rating-fit");
+        Path second = dir.resolve("r2-fit");
+        Path wider = dir.resolve("wider-fit");
+        assertEquals(0, rungs(fit(concat(common, "--rating", "rating", "--out", first.toString()))).exit());
+        assertEquals(0, rungs(fit(concat(common, "--rating", "r2", "--out", second.toString()))).exit());
+        assertEquals(0, rungs(fit(concat(common, "--rating", "rating", "--scale", "0..12", "--out", wider.toString()))).exit());
+        Run columns = rungs("compare", first.toString(), second.toString());
+        assertEquals(Main.INPUT_ERROR, columns.exit(), columns.out());
+        assertTrue(columns.err().contains(first + " and " + second + " predict different rating columns (--rating \"rating\""
+                + " and \"r2\")"), columns.err());
+        Run scales = rungs("compare", first.toString(), wider.toString());
+        assertEquals(Main.INPUT_ERROR, scales.exit(), scales.out());
+        assertTrue(scales.err().contains("read the ratings on different scales (--scale \"0..10\" and \"0..12\")"),
+                scales.err());
+    }
+
+    @Test
     void aDamagedCheckpointIsRefusedNamingItsFileAndKey() throws IOException {
         Path out = dir.resolve("damaged");
         Path properties = Files.createDirectories(out.resolve(".checkpoint")).resolve("fit.properties");
