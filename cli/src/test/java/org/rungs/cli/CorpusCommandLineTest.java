@@ -14,6 +14,7 @@ import java.util.stream.Stream;
 import org.junit.jupiter.api.io.TempDir;
 import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.MethodSource;
+import org.rungs.models.survey.Scale;
 
 /**
  * The bad-input corpus of the models module (models/src/test/resources/survey/corpus, whose
@@ -46,7 +47,11 @@ final class CorpusCommandLineTest {
         return cases.stream();
     }
 
-    /** The manifest's spec column as fit options (keys as in the models module's CorpusTest). */
+    /**
+     * The manifest's spec column as fit options (keys as in the models module's CorpusTest). On a
+     * scale of 3 points the default coarse points are the whole scale, which fit refuses
+     * (ModelSpec.checkRatings); the corpus is about the reader, so there the coarse class is off.
+     */
     private static List<String> options(String spec) {
         List<String> args = new ArrayList<>(List.of("--rating", "rating", "--group", "region"));
         if (!spec.equals("-")) {
@@ -54,6 +59,9 @@ final class CorpusCommandLineTest {
                 int eq = option.indexOf('=');
                 args.add("--" + option.substring(0, eq));
                 args.add(option.substring(eq + 1));
+                if (option.startsWith("scale=") && Scale.parse(option.substring(eq + 1)).categories() <= 3) {
+                    args.addAll(List.of("--style-classes", "none"));
+                }
             }
         }
         return args;
