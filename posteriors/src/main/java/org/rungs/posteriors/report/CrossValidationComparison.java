@@ -195,8 +195,8 @@ public final class CrossValidationComparison {
         final int[] group;
         final List<String> labels;
 
-        private Pointwise(Path dir, String sha256, String rating, String scale, String model, int[] row, double[] elpd, double[] effective,
-                double[] paretoK, double[] mcse, int[] group, List<String> labels) {
+        private Pointwise(Path dir, String sha256, String rating, String scale, String model, int[] row, double[] elpd,
+                double[] effective, double[] paretoK, double[] mcse, int[] group, List<String> labels) {
             this.dir = dir;
             this.sha256 = sha256;
             this.rating = rating;
@@ -280,8 +280,8 @@ public final class CrossValidationComparison {
             if (n == 0) {
                 throw new IOException(file + ": no respondents after the header");
             }
-            return new Pointwise(dir, (String) sha, rating instanceof String r ? r : null, (String) scale, model(run), Arrays.copyOf(row, n), Arrays.copyOf(elpd, n),
-                    Arrays.copyOf(effective, n), Arrays.copyOf(paretoK, n), Arrays.copyOf(mcse, n), Arrays.copyOf(group, n),
+            return new Pointwise(dir, (String) sha, rating instanceof String r ? r : null, (String) scale, model(run),
+                    Arrays.copyOf(row, n), Arrays.copyOf(elpd, n), Arrays.copyOf(effective, n), Arrays.copyOf(paretoK, n), Arrays.copyOf(mcse, n), Arrays.copyOf(group, n),
                     List.copyOf(groupIndex.keySet()));
         }
 

@@ -59,7 +59,8 @@ public record SavedFit(Path file, String sha256, long seed, List<String> argumen
         } catch (IllegalArgumentException e) {
             // Properties.load refuses a malformed unicode escape this way
             throw new IllegalArgumentException(path.toAbsolutePath() + ": expected the properties a fit writes; " + e.getMessage()
-                    + "; the checkpoint is damaged: start the fit again, with --overwrite to replace it", e);
+                    + "; the checkpoint is damaged: start the fit again, with --overwrite to replace it",
+                    e);
         }
         int count = (int) number(path, p, "arguments", "the number of the fit's arguments, a whole number 0 or more", 0,
                 Integer.MAX_VALUE);
@@ -100,8 +101,8 @@ public record SavedFit(Path file, String sha256, long seed, List<String> argumen
     }
 
     private static IllegalArgumentException damaged(Path path, String key, String expected, String found) {
-        return new IllegalArgumentException(path.toAbsolutePath() + ": the key " + Text.quote(key) + " " + found + "; expected " + expected
-                + "; the checkpoint is damaged: start the fit again, with --overwrite to replace it");
+        return new IllegalArgumentException(path.toAbsolutePath() + ": the key " + Text.quote(key) + " " + found
+                + "; expected " + expected + "; the checkpoint is damaged: start the fit again, with --overwrite to replace it");
     }
 
     /** Writes this record into {@code out}'s checkpoint folder atomically. */

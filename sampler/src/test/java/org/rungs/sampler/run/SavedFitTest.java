@@ -35,7 +35,8 @@ class SavedFitTest {
         String written = Files.readString(file, StandardCharsets.UTF_8);
         String where = file.toAbsolutePath() + ": the key ";
 
-        assertRefused(out, written.replace("seed=-7", "seed=abc"), where + "\"seed\" holds \"abc\"; expected the seed, a whole number");
+        assertRefused(out, written.replace("seed=-7", "seed=abc"),
+                where + "\"seed\" holds \"abc\"; expected the seed, a whole number");
         assertRefused(out, written.replace("seed=-7", "seed=1\u0007"), where + "\"seed\" holds \"1\\u0007\"");
         assertRefused(out, written.replace("seed=-7\n", ""), where + "\"seed\" is missing; expected the seed");
         assertRefused(out, written.replace("arguments=4", "arguments=-1"), where + "\"arguments\" holds \"-1\"; expected the"
