@@ -64,7 +64,7 @@ final class FitCommand implements Callable<Integer> {
     @Option(names = "--reference", split = ",", paramLabel = "COL=LEVEL", description = "Reference level of a categorical covariate (default: its most frequent level).")
     Map<String, String> reference = new LinkedHashMap<>();
 
-    @Option(names = "--weight", paramLabel = "COL", description = "Survey weights; used in population summaries only, never in the likelihood.")
+    @Option(names = "--weight", paramLabel = "COL", description = "Survey weights; used in population summaries only, never in the likelihood. A row whose weight is missing is excluded from the whole fit (and counted), as the summaries need every used row's weight.")
     String weight;
 
     @Option(names = "--missing", split = ",", paramLabel = "CODE", description = "Codes meaning missing in every used column (e.g. 88,98,99), besides empty cells and NA; a rating of the scale is refused (say --missing-in RATINGCOL=CODE if it is meant).")

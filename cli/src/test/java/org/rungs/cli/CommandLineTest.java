@@ -187,6 +187,8 @@ final class CommandLineTest {
         assertEquals(SamplingOptions.DEMO_THIN, jsonLong(Files.readString(out.resolve("run.json")), "thin"));
         assertTrue(r.err().contains("seed 1, 1 chain of 4 warm-up + 3 kept iterations (one in 2 of 6 iterations)"), r.err());
         assertEquals(3, Files.readAllLines(out.resolve("draws.csv")).size() - 1);
+        assertTrue(r.err().contains("warning: fewer than 4 kept draws per chain: no corrected quantities"), r.err());
+        assertFalse(Files.exists(out.resolve("groups.csv")));
 
         Path attracted = dir.resolve("short-attraction-demo");
         Run a = rungs("demo", "--attraction", "default", "--out", attracted.toString(), "--chains", "1", "--warmup", "4", "--draws", "3");

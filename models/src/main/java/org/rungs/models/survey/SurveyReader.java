@@ -49,8 +49,8 @@ import java.util.zip.ZipException;
  * printed as is it would break the lines of a table or drive the terminal.
  *
  * <p>Valid but unusual data (a category nobody uses, a group of one respondent, a group whose
- * respondents all give the same rating) are read without complaint; warnings about them are the
- * caller's.
+ * respondents all give the same rating) are read without complaint; {@link DataWarnings} words
+ * them for the caller to print.
  */
 public final class SurveyReader {
 

@@ -82,7 +82,7 @@ class CorpusTest {
                 Survey survey = SurveyReader.read(file, spec);
                 assertEquals(c.expected(), "rows=" + survey.size());
                 List<String> expected = c.warnings().equals("-") ? List.of() : Arrays.asList(c.warnings().split(" \\| "));
-                assertEquals(expected, warnings(survey));
+                assertEquals(expected, DataWarnings.of(survey));
                 assertFinite(survey.level());
                 assertFinite(survey.style());
             }
@@ -101,39 +101,6 @@ class CorpusTest {
         assertEquals(files, new TreeSet<>(listed));
         assertEquals(listed.size(), new TreeSet<>(listed).size(), "a file is listed twice");
         assertTrue(listed.size() >= 30, "issue 7 asks for at least 30 files");
-    }
-
-    /**
-     * The warnings a fit prints for valid but unusual data: this mirrors
-     * {@code org.rungs.sampler.run.SurveyWarnings} (sampler module, which depends on this one and
-     * is kept in step with it by hand): a category nobody uses, a group under 30 respondents.
-     */
-    private static List<String> warnings(Survey survey) {
-        List<String> out = new ArrayList<>();
-        long[] counts = new long[survey.scale().categories()];
-        for (byte c : survey.category()) {
-            counts[c]++;
-        }
-        for (int k = 0; k < counts.length; k++) {
-            int rating = survey.scale().rating(k);
-            long declared = survey.exclusions().answersDeclaredMissing().getOrDefault(rating, 0L);
-            if (declared > 0) {
-                out.add("every answer of " + rating + " was declared missing (" + declared
-                        + (declared == 1 ? " answer" : " answers") + ", by a missing code of the rating column)"
-                        + "; the thresholds around it rest on the prior and on their neighbours");
-            } else if (counts[k] == 0) {
-                out.add("nobody answered " + rating
-                        + "; the thresholds around it rest on the prior and on their neighbours");
-            }
-        }
-        int[] sizes = survey.groupSizes();
-        for (int g = 0; g < sizes.length; g++) {
-            if (sizes[g] < 30) {
-                out.add("group " + survey.groupLabels().get(g) + " has only " + sizes[g]
-                        + " respondents; its estimates lean on the other groups");
-            }
-        }
-        return out;
     }
 
     /** No NaN or infinity reaches the model, however odd the covariate's values. */

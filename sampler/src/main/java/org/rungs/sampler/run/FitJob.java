@@ -169,6 +169,11 @@ public final class FitJob {
                     DERIVED_DRAWS, request.settings().seed(), request.settings().threads());
             derivedSummaries = Summaries.of(derived.draws());
             comparison = writeDerived(request, survey, folder, derived, derivedSummaries, record, err, stop);
+        } else {
+            String warning = "fewer than " + MIN_DERIVED_ITERATIONS + " kept draws per chain: no corrected quantities"
+                    + " (groups.csv, distributions.csv, coefficients.csv and the others) were written";
+            record.warn(warning);
+            err.println("warning: " + warning);
         }
         CrossValidation crossValidation = null;
         if (request.crossValidate() && result.draws().iterations() >= MIN_DERIVED_ITERATIONS) {

@@ -3,53 +3,19 @@ package org.rungs.sampler.run;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
-import java.util.Map;
 import org.rungs.models.ModelSpec;
+import org.rungs.models.survey.DataWarnings;
 import org.rungs.models.survey.Scale;
 import org.rungs.models.survey.Survey;
 
-/** Valid but unusual data, or model choices, that deserve a word before fitting. */
+/** The warnings a fit prints before sampling: the data's ({@link DataWarnings}), then the model's on them. */
 final class SurveyWarnings {
-    /** Below this many respondents a group's own thresholds and level rest mostly on the priors (common practice, no source). */
-    static final int SMALL_GROUP = 30;
-
     private SurveyWarnings() {
-    }
-
-    static List<String> of(Survey survey) {
-        List<String> warnings = new ArrayList<>();
-        int m = survey.scale().categories();
-        long[] counts = new long[m];
-        for (byte c : survey.category()) {
-            counts[c]++;
-        }
-        Map<Integer, Long> declaredMissing = survey.exclusions().answersDeclaredMissing();
-        for (int k = 0; k < m; k++) {
-            int rating = survey.scale().rating(k);
-            long declared = declaredMissing.getOrDefault(rating, 0L);
-            if (declared > 0) {
-                // a code of the rating column matches every answer of its rating, so none is left
-                warnings.add("every answer of " + rating + " was declared missing (" + declared
-                        + (declared == 1 ? " answer" : " answers") + ", by a missing code of the rating column)"
-                        + "; the thresholds around it rest on the prior and on their neighbours");
-            } else if (counts[k] == 0) {
-                warnings.add("nobody answered " + rating
-                        + "; the thresholds around it rest on the prior and on their neighbours");
-            }
-        }
-        int[] sizes = survey.groupSizes();
-        for (int g = 0; g < sizes.length; g++) {
-            if (sizes[g] < SMALL_GROUP) {
-                warnings.add("group " + survey.groupLabels().get(g) + " has only " + sizes[g]
-                        + " respondents; its estimates lean on the other groups");
-            }
-        }
-        return warnings;
     }
 
     /** The survey's warnings, then the model's on it. */
     static List<String> of(Survey survey, ModelSpec model) {
-        List<String> warnings = of(survey);
+        List<String> warnings = new ArrayList<>(DataWarnings.of(survey));
         warnings.addAll(model(survey.scale(), model));
         return warnings;
     }

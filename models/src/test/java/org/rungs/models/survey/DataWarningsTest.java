@@ -1,4 +1,4 @@
-package org.rungs.sampler.run;
+package org.rungs.models.survey;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 
@@ -8,12 +8,9 @@ import java.nio.file.Path;
 import java.util.List;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
-import org.rungs.models.survey.Scale;
-import org.rungs.models.survey.SurveyReader;
-import org.rungs.models.survey.SurveySpec;
 
 /** The warnings about the data a fit prints before sampling. */
-class SurveyWarningsTest {
+class DataWarningsTest {
 
     @TempDir
     Path dir;
@@ -33,7 +30,7 @@ class SurveyWarningsTest {
     void aRatingNobodyAnsweredIsNamed() throws Exception {
         Path file = Files.writeString(dir.resolve("n.csv"), "rating\n" + "1\n2\n4\n".repeat(10));
         assertEquals(List.of("nobody answered 3; the thresholds around it rest on the prior and on their neighbours"),
-                SurveyWarnings.of(SurveyReader.read(file, SurveySpec.of("rating", null, ONE_FOUR))));
+                DataWarnings.of(SurveyReader.read(file, SurveySpec.of("rating", null, ONE_FOUR))));
     }
 
     /**
@@ -45,6 +42,16 @@ class SurveyWarningsTest {
         SurveySpec spec = SurveySpec.builder("rating", ONE_FOUR).missingCodesFor("rating", "3").build();
         assertEquals(List.of("every answer of 3 was declared missing (2 answers, by a missing code of the rating column);"
                 + " the thresholds around it rest on the prior and on their neighbours"),
-                SurveyWarnings.of(SurveyReader.read(file(), spec)));
+                DataWarnings.of(SurveyReader.read(file(), spec)));
+    }
+
+    @Test
+    void aGroupWhoseRespondentsAllGaveOneRatingIsNamed() throws Exception {
+        Path file = Files.writeString(dir.resolve("g.csv"), "region,rating\n"
+                + "North,1\nNorth,2\nNorth,3\nNorth,4\n".repeat(10) + "South,4\n".repeat(40));
+        List<String> warnings = DataWarnings.of(SurveyReader.read(file,
+                SurveySpec.builder("rating", ONE_FOUR).group("region").build()));
+        assertEquals(List.of("every respondent of group South answered 4; its level and thresholds cannot be told"
+                + " apart, so they rest on the priors and on the other groups"), warnings);
     }
 }

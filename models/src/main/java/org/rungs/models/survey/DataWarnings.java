@@ -1,0 +1,69 @@
+package org.rungs.models.survey;
+
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.List;
+import java.util.Map;
+
+/**
+ * Valid but unusual data that deserve a word before fitting: a rating nobody gave (or whose
+ * answers were all declared missing), a small group, a group whose respondents all gave one
+ * rating. The reader accepts such data ({@link SurveyReader}); a fit prints these warnings.
+ */
+public final class DataWarnings {
+    /** Below this many respondents a group's own thresholds and level rest mostly on the priors (common practice, no source). */
+    public static final int SMALL_GROUP = 30;
+
+    private DataWarnings() {
+    }
+
+    /** The warnings about {@code survey}'s data, in the order a fit prints them. */
+    public static List<String> of(Survey survey) {
+        List<String> warnings = new ArrayList<>();
+        int m = survey.scale().categories();
+        long[] counts = new long[m];
+        for (byte c : survey.category()) {
+            counts[c]++;
+        }
+        Map<Integer, Long> declaredMissing = survey.exclusions().answersDeclaredMissing();
+        for (int k = 0; k < m; k++) {
+            int rating = survey.scale().rating(k);
+            long declared = declaredMissing.getOrDefault(rating, 0L);
+            if (declared > 0) {
+                // a code of the rating column matches every answer of its rating, so none is left
+                warnings.add("every answer of " + rating + " was declared missing (" + declared
+                        + (declared == 1 ? " answer" : " answers") + ", by a missing code of the rating column)"
+                        + "; the thresholds around it rest on the prior and on their neighbours");
+            } else if (counts[k] == 0) {
+                warnings.add("nobody answered " + rating
+                        + "; the thresholds around it rest on the prior and on their neighbours");
+            }
+        }
+        int[] sizes = survey.groupSizes();
+        int[] first = new int[sizes.length];
+        boolean[] varied = new boolean[sizes.length];
+        Arrays.fill(first, -1);
+        byte[] category = survey.category();
+        int[] group = survey.group();
+        for (int i = 0; i < category.length; i++) {
+            int g = group[i];
+            if (first[g] < 0) {
+                first[g] = category[i];
+            } else if (first[g] != category[i]) {
+                varied[g] = true;
+            }
+        }
+        for (int g = 0; g < sizes.length; g++) {
+            if (sizes[g] < SMALL_GROUP) {
+                warnings.add("group " + survey.groupLabels().get(g) + " has only " + sizes[g]
+                        + " respondents; its estimates lean on the other groups");
+            }
+            if (sizes[g] > 1 && !varied[g]) {
+                warnings.add("every respondent of group " + survey.groupLabels().get(g) + " answered "
+                        + survey.scale().rating(first[g]) + "; its level and thresholds cannot be told apart, so"
+                        + " they rest on the priors and on the other groups");
+            }
+        }
+        return warnings;
+    }
+}
