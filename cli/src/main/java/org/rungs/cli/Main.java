@@ -35,6 +35,15 @@ public final class Main implements Runnable {
             ex.getCommandLine().getErr().println("Try '" + ex.getCommandLine().getCommandSpec().qualifiedName() + " --help'.");
             return INPUT_ERROR;
         });
+        // a file that cannot be read or written (a damaged checkpoint, a full disk) is a sentence, not
+        // a stack trace; anything else escaping a command is a bug and keeps picocli's stack trace
+        cl.setExecutionExceptionHandler((ex, commandLine, parseResult) -> {
+            if (ex instanceof java.io.UncheckedIOException) {
+                commandLine.getErr().println("rungs " + commandLine.getCommandName() + ": " + ex.getMessage());
+                return INPUT_ERROR;
+            }
+            throw ex;
+        });
         return cl;
     }
 }

@@ -355,6 +355,16 @@ final class CommandLineTest {
     }
 
     @Test
+    void aCheckpointThatCannotBeReadIsASentenceNotAStackTrace() throws IOException {
+        Path out = dir.resolve("unreadable");
+        Path properties = Files.createDirectories(out.resolve(".checkpoint").resolve("fit.properties"));
+        Run r = rungs("fit", "--resume", out.toString());
+        assertEquals(Main.INPUT_ERROR, r.exit(), r.err());
+        assertTrue(r.err().startsWith("rungs fit: could not read " + properties), r.err());
+        assertFalse(r.err().contains("\tat "), r.err());
+    }
+
+    @Test
     void optionsOfTheCoarseClassAreRefusedWithoutIt() throws IOException {
         String withStyle = "region,rating,school\nA,7,basic\nB,3,high\nA,5,\nB,6,high\n";
         assertInputError("points-none.csv", GOOD, List.of("--rating", "rating", "--style-classes", "none",
