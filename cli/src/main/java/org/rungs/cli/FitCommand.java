@@ -62,7 +62,7 @@ final class FitCommand implements Callable<Integer> {
     List<String> categorical = new ArrayList<>();
 
     @Option(names = "--reference", split = ",", paramLabel = "COL=LEVEL", description = "Reference level of a categorical covariate (default: its most frequent level).")
-    Map<String, String> reference = new LinkedHashMap<>();
+    List<String> reference = new ArrayList<>();
 
     @Option(names = "--weight", paramLabel = "COL", description = "Survey weights; used in population summaries only, never in the likelihood. A row whose weight is missing is excluded from the whole fit (and counted), as the summaries need every used row's weight.")
     String weight;
@@ -158,7 +158,7 @@ final class FitCommand implements Callable<Integer> {
         SurveySpec.Builder survey = SurveySpec.builder(rating, Scale.parse(scale)).group(group)
                 .level(level.toArray(new String[0])).style(style.toArray(new String[0])).categorical(categorical.toArray(new String[0]))
                 .missingCodes(missing.toArray(new String[0]));
-        reference.forEach(survey::reference);
+        referenceLevels().forEach(survey::reference);
         for (String m : missingIn) {
             int eq = m.indexOf('=');
             if (eq <= 0) {
@@ -178,6 +178,24 @@ final class FitCommand implements Callable<Integer> {
         return new FitRequest(file, survey.build(), model, settings, out, overwrite, options(settings), sampling.crossValidate);
     }
 
+    /** {@code --reference} as column to level; a column named twice is refused, not decided by order. */
+    private Map<String, String> referenceLevels() {
+        Map<String, String> levels = new LinkedHashMap<>();
+        for (String r : reference) {
+            int eq = r.indexOf('=');
+            if (eq <= 0) {
+                throw new IllegalArgumentException("--reference takes COL=LEVEL, got '" + r + "'");
+            }
+            String column = r.substring(0, eq);
+            String earlier = levels.putIfAbsent(column, r.substring(eq + 1));
+            if (earlier != null) {
+                throw new IllegalArgumentException("--reference names the column " + column + " twice (" + earlier
+                        + " and " + r.substring(eq + 1) + "); give it one reference level");
+            }
+        }
+        return levels;
+    }
+
     private Map<String, Object> options(SamplerSettings settings) {
         Map<String, Object> o = new LinkedHashMap<>();
         o.put("rating", rating);
@@ -186,7 +204,7 @@ final class FitCommand implements Callable<Integer> {
         o.put("level", List.copyOf(level));
         o.put("style", List.copyOf(style));
         o.put("categorical", List.copyOf(categorical));
-        o.put("reference", new LinkedHashMap<>(reference));
+        o.put("reference", referenceLevels());
         o.put("weight", weight);
         o.put("missing", List.copyOf(missing));
         o.put("missing_in", List.copyOf(missingIn));

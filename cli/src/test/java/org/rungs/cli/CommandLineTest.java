@@ -252,6 +252,16 @@ final class CommandLineTest {
     private static final String GOOD = "region,rating,income\nA,7,1.5\nB,3,2.0\nA,5,0.5\nB,6,1.0\n";
 
     @Test
+    void aReferenceLevelGivenTwiceForOneColumnIsRefused() throws IOException {
+        String edu = "region,rating,school\nA,7,basic\nB,3,high\nA,5,mid\nB,6,high\n";
+        assertInputError("reference-twice.csv", edu, List.of("--rating", "rating", "--level", "school",
+                "--reference", "school=basic", "--reference", "school=mid"),
+                "--reference names the column school twice (basic and mid)");
+        assertInputError("reference-bad.csv", edu, List.of("--rating", "rating", "--level", "school",
+                "--reference", "school"), "--reference takes COL=LEVEL, got 'school'");
+    }
+
+    @Test
     void missingColumnIsNamedWithTheExistingOnes() throws IOException {
         assertInputError("cols.csv", GOOD, List.of("--rating", "score"),
                 "cols.csv", "\"score\"", "\"region\"", "\"rating\"", "\"income\"");
