@@ -22,6 +22,18 @@ public final class DrawsCsv {
 
     /** Writes all draws, atomically (temporary file in the same folder, then rename). */
     public static void write(Draws draws, Path file) throws IOException {
+        write(draws, null, file);
+    }
+
+    /**
+     * As {@link #write(Draws, Path)}, with {@code iterations[i]} in the iteration column of each
+     * chain's i-th draw (a subset's draws keep the numbers they have in the whole), or 1, 2, ...
+     * when it is null. Such a file reads back with {@link #read} only when the numbers are 1, 2, ...
+     */
+    public static void write(Draws draws, int[] iterations, Path file) throws IOException {
+        if (iterations != null && iterations.length != draws.iterations()) {
+            throw new IllegalArgumentException(iterations.length + " iteration numbers for " + draws.iterations() + " draws per chain");
+        }
         AtomicFiles.write(file, out -> {
             StringBuilder line = new StringBuilder(CHAIN).append(',').append(ITERATION);
             for (String name : draws.names()) {
@@ -29,12 +41,12 @@ public final class DrawsCsv {
             }
             out.append(line).append('\n');
             int parameters = draws.parameterCount();
-            int iterations = draws.iterations();
+            int perChain = draws.iterations();
             for (int c = 0; c < draws.chains(); c++) {
-                for (int i = 0; i < iterations; i++) {
+                for (int i = 0; i < perChain; i++) {
                     line.setLength(0);
-                    line.append(c + 1).append(',').append(i + 1);
-                    int position = c * iterations + i;
+                    line.append(c + 1).append(',').append(iterations == null ? i + 1 : iterations[i]);
+                    int position = c * perChain + i;
                     for (int p = 0; p < parameters; p++) {
                         line.append(',').append(draws.column(p)[position]);
                     }

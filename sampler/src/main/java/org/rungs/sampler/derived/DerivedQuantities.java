@@ -15,6 +15,7 @@ import org.rungs.models.ParameterLayout;
 import org.rungs.models.RoundingChannel;
 import org.rungs.models.survey.Survey;
 import org.rungs.posteriors.Draws;
+import org.rungs.posteriors.DrawsCsv;
 import org.rungs.posteriors.ParameterSummary;
 
 /**
@@ -166,6 +167,18 @@ public final class DerivedQuantities {
     public static void writeDistributions(DerivedResult r, List<ParameterSummary> derivedSummaries, Path file)
             throws IOException {
         DerivedTables.writeDistributions(r, derivedSummaries, file);
+    }
+
+    /**
+     * derived_draws.csv: the derived quantities per used draw, each row numbered with the
+     * iteration its draw has in draws.csv, so that the two files can be matched row by row.
+     */
+    public static void writeDraws(DerivedResult r, Path file) throws IOException {
+        int[] iterations = new int[r.usedIterations().length];
+        for (int u = 0; u < iterations.length; u++) {
+            iterations[u] = r.usedIterations()[u] + 1;
+        }
+        DrawsCsv.write(r.draws(), iterations, file);
     }
 
     /** coarse_shares.csv: the coarse share at each level of each categorical style covariate. */

@@ -266,7 +266,7 @@ public final class FitJob {
     private static Comparison writeDerived(FitRequest request, Survey survey, OutputFolder folder, DerivedResult derived,
                                            List<ParameterSummary> derivedSummaries, RunRecord record, PrintStream err,
                                            AtomicBoolean stop) {
-        folder.write("derived_draws.csv", tmp -> DrawsCsv.write(derived.draws(), tmp));
+        folder.write("derived_draws.csv", tmp -> DerivedQuantities.writeDraws(derived, tmp));
         folder.write("derived_summary.csv", tmp -> SummaryTable.writeCsv(derivedSummaries, tmp));
         folder.write("groups.csv", tmp -> DerivedQuantities.writeGroups(derived, derivedSummaries, tmp));
         folder.write("distributions.csv", tmp -> DerivedQuantities.writeDistributions(derived, derivedSummaries, tmp));

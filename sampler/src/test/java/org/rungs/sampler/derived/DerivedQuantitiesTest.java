@@ -483,6 +483,22 @@ class DerivedQuantitiesTest {
         assertEquals(alone.draws().get(mean, 0, 0), one.draws().get(mean, 1, 3), 0);
     }
 
+    /** An audit matched derived_draws.csv to draws.csv by chain and iteration: the numbers must be draws.csv's. */
+    @Test
+    void derivedDrawsAreNumberedByTheIterationOfTheirDraw(@TempDir Path folder) throws IOException {
+        Survey survey = survey(WEIGHT);
+        ModelSpec spec = coarseModel();
+        ParameterLayout layout = ParameterLayout.of(survey, spec);
+        DerivedResult result = DerivedQuantities.compute(survey, varied(layout, 2, 40), layout, spec, 30, 5, 1);
+        Path file = folder.resolve("derived_draws.csv");
+        DerivedQuantities.writeDraws(result, file);
+        List<String> lines = Files.readAllLines(file);
+        assertEquals(1 + 2 * 14, lines.size());
+        // the 4th used draw of chain 2 is iteration 9 (0-based) of draws.csv, written 10
+        assertTrue(lines.get(1 + 14 + 3).startsWith("2,10,"), lines.get(1 + 14 + 3));
+        assertTrue(lines.get(14).startsWith("1,40,"), lines.get(14));
+    }
+
     @Test
     void effectsAloneAreTheSameNumbersAsAmongEveryDerivedQuantity() {
         for (double[] weight : Arrays.asList(null, WEIGHT)) {
