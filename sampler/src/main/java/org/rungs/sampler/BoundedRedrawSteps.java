@@ -52,8 +52,8 @@ final class BoundedRedrawSteps implements Update, Checkpointed {
             skipped += bounded ? 0 : 1;
         }
         if (bounded) {
-            for (Update u : steps) {
-                u.update(adapt);
+            for (int i = 0; i < steps.size(); i++) { // indexed: no iterator per sweep
+                steps.get(i).update(adapt);
             }
         }
     }

@@ -119,10 +119,10 @@ final class Chain implements Checkpointed {
         state.writeRow(layout, row);
     }
 
-    /** One sweep: every update of the cycle once. */
+    /** One sweep: every update of the cycle once (indexed, so a sweep allocates no iterator). */
     void sweepOnce(boolean warmingUp) {
-        for (Update u : sweep) {
-            u.update(warmingUp);
+        for (int i = 0; i < sweep.size(); i++) {
+            sweep.get(i).update(warmingUp);
         }
     }
 
