@@ -53,6 +53,8 @@ public final class FitJob {
     static final int DERIVED_DRAWS = 1000;
     /** Fewer kept iterations than this (an early interruption) leave no derived quantities. */
     private static final int MIN_DERIVED_ITERATIONS = 4;
+    /** How the verdict on the derived quantities names them: they are not parameters. */
+    private static final String DERIVED_NOUN = "derived quantities";
 
     private FitJob() {
     }
@@ -216,7 +218,7 @@ public final class FitJob {
             record.put("cross_validation", crossValidation.record());
         }
         if (derivedSummaries.stream().anyMatch(ParameterSummary::flagged)) {
-            record.warn("derived quantities: " + SummaryTable.verdict(derivedSummaries));
+            record.warn("derived quantities: " + ConvergenceVerdict.of(derivedSummaries).line(DERIVED_NOUN));
         }
         record.put("finished", Instant.now().toString());
         record.put("resumed", policy.resume());
@@ -231,7 +233,7 @@ public final class FitJob {
         boolean converged = ConvergenceVerdict.of(summaries).readable()
                 && (derived == null || ConvergenceVerdict.of(derivedSummaries).readable());
         if (derived != null) {
-            out.println("Derived quantities: " + SummaryTable.verdict(derivedSummaries));
+            out.println("Derived quantities: " + ConvergenceVerdict.of(derivedSummaries).line(DERIVED_NOUN));
             out.println();
             out.print(GroupTable.format(derived, derivedSummaries));
         }
