@@ -14,8 +14,8 @@ import picocli.CommandLine.Option;
 /** {@code rungs benchmark}: times the sampler and measures its memory on invented surveys. */
 @Command(name = "benchmark", mixinStandardHelpOptions = true, sortOptions = false,
         description = {"Time the sampler and measure its memory on invented surveys.",
-                "Surveys of 50 groups, 4 covariates, scale 0..10, by-group thresholds:",
-                "ns per respondent per sweep on one core, bulk ESS per second with 2 chains, and heap bytes per respondent.",
+                "Surveys of 50 groups, 4 covariates, scale 0..10, by-group thresholds: ns per respondent per sweep on "
+                        + "one core, bulk ESS per second with 2 chains, and heap bytes per respondent.",
                 "Prints a Markdown table. Give the JVM a heap large enough for the largest size (about -Xmx4g for 1,000,000)."})
 final class BenchmarkCommand implements Callable<Integer> {
     @Option(names = "--sizes", split = ",", defaultValue = "10000,100000,1000000", paramLabel = "N,...",

@@ -28,10 +28,10 @@ import picocli.CommandLine.Parameters;
 @Command(name = "calibrate", mixinStandardHelpOptions = true, sortOptions = false,
         subcommands = CalibrateCommand.Merge.class,
         description = {"Check the sampler by simulation-based calibration (Talts et al. 2018).",
-                "Each replication draws parameters from the prior,",
-                "simulates a survey, fits it and ranks every true value among thinned posterior draws. Writes ranks.csv,",
-                "fits.csv, verdicts.csv and plots/*.svg to the output folder; a rerun with the same folder skips finished",
-                "replications. Exit code 1 when a quantity fails the uniformity verdict. See VALIDATION.md."})
+                "Each replication draws parameters from the prior, simulates a survey, fits it and ranks every true "
+                        + "value among thinned posterior draws. Writes ranks.csv, fits.csv, verdicts.csv and plots/*.svg "
+                        + "to the output folder; a rerun with the same folder skips finished replications. Exit code 1 "
+                        + "when a quantity fails the uniformity verdict. See VALIDATION.md."})
 final class CalibrateCommand implements Callable<Integer> {
     /** Exit code when some quantity's ranks are judged not uniform. */
     static final int CALIBRATION_FAILED = 1;
@@ -174,8 +174,8 @@ final class CalibrateCommand implements Callable<Integer> {
 
     /** {@code rungs calibrate merge}: combines shard folders into one calibration. */
     @Command(name = "merge", mixinStandardHelpOptions = true, sortOptions = false,
-            description = {"Combine the folders of calibration shards (same configuration) into one folder and write the",
-                    "verdicts: the files equal those of a single run over the same replications."})
+            description = {"Combine the folders of calibration shards (same configuration) into one folder and write the verdicts.",
+                    "The files equal those of a single run over the same replications."})
     static final class Merge implements Callable<Integer> {
         @Parameters(arity = "1..*", paramLabel = "SHARD_DIR", description = "Folders written by calibrate --shard.")
         List<Path> inputs;

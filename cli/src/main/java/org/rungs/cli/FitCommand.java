@@ -28,8 +28,9 @@ import picocli.CommandLine.Spec;
         customSynopsis = {"rungs fit [OPTIONS] FILE --rating=COL --out=DIR",
                 "       rungs fit --resume=DIR [--report] [--threads=N]"},
         description = {"Fit the model to a survey file (CSV or TSV, optionally gzip-compressed, with a header row).",
-                "Writes draws.csv, summary.csv, the corrected quantities (derived_summary.csv, groups.csv, distributions.csv,",
-                "coarse_shares.csv, coefficients.csv) and run.json to the output folder, and prints the summary.",
+                "Writes draws.csv, summary.csv, the corrected quantities (derived_draws.csv, derived_summary.csv, "
+                        + "groups.csv, distributions.csv, coarse_shares.csv, attraction.csv with --attraction, "
+                        + "coefficients.csv) and run.json to the output folder, and prints the summary.",
                 "While it runs, the chains are saved every few seconds in DIR/.checkpoint; a fit that was killed or "
                         + "interrupted (Ctrl-C, exit code 130) continues with 'rungs fit --resume DIR' and then gives the "
                         + "same draws, bit for bit, as if it had never stopped."})

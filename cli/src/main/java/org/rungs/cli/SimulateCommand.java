@@ -13,8 +13,8 @@ import picocli.CommandLine.Option;
 /** {@code rungs simulate}: writes a simulated survey and its true parameter values. */
 @Command(name = "simulate", mixinStandardHelpOptions = true, sortOptions = false,
         description = {"Write an invented survey and the true values it was drawn from.",
-                "survey.csv (region, rating, income, age, education) and truth.csv (parameter, value), drawn from",
-                "the demo scenario, for anyone to fit."})
+                "Writes survey.csv (region, rating, income, age, education) and truth.csv (parameter, value), drawn "
+                        + "from the demo scenario, for anyone to fit."})
 final class SimulateCommand implements Callable<Integer> {
     @Option(names = "--out", required = true, paramLabel = "DIR", description = "Output folder.")
     Path out;

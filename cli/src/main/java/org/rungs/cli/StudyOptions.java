@@ -15,7 +15,7 @@ final class StudyOptions {
     int draws;
 
     @Option(names = "--replications", defaultValue = "100",
-            description = "Simulated data sets, each fitted once (with --shard: over all shards). Default: ${DEFAULT-VALUE}.")
+            description = "Simulated data sets, each fitted once (calibrate --shard: over all shards). Default: ${DEFAULT-VALUE}.")
     int replications;
 
     @Option(names = "--seed", defaultValue = "1", description = "Base seed; replication r depends on (seed, r) only. Default: ${DEFAULT-VALUE}.")

@@ -123,6 +123,29 @@ final class CommandLineTest {
         }
     }
 
+    /**
+     * Each element of a command's description is a paragraph of its own in --help, and the first
+     * is the one-line summary the parent command lists: each must end a sentence, not break one
+     * (our rule: --help is the manual). An option shared with calibrate names --shard as
+     * calibrate's, since recover has none.
+     */
+    @Test
+    void helpDescriptionsAreWholeSentences() {
+        List<picocli.CommandLine> commands = new ArrayList<>(List.of(Main.commandLine()));
+        for (int i = 0; i < commands.size(); i++) {
+            picocli.CommandLine command = commands.get(i);
+            commands.addAll(command.getSubcommands().values());
+            for (String paragraph : command.getCommandSpec().usageMessage().description()) {
+                // picocli's own help command ends its text with a format newline
+                assertTrue(paragraph.replace("%n", "").strip().endsWith("."), () -> command.getCommandName() + ": \"" + paragraph + "\"");
+            }
+        }
+        Run merge = rungs("calibrate", "--help");
+        assertTrue(merge.flatOut().contains("into one folder and write the verdicts."), merge.out());
+        Run recover = rungs("recover", "--help");
+        assertFalse(recover.flatOut().contains("(with --shard"), recover.out());
+    }
+
     @Test
     void everySubcommandHelpExitsZeroAndShowsDefaults() {
         Run fit = rungs("fit", "--help");
