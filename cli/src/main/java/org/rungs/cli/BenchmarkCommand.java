@@ -18,7 +18,7 @@ import picocli.CommandLine.Option;
                         + "one core, bulk ESS per second with 2 chains, and heap bytes per respondent.",
                 "Prints a Markdown table. Give the JVM a heap large enough for the largest size (about -Xmx4g for 1,000,000)."})
 final class BenchmarkCommand implements Callable<Integer> {
-    @Option(names = "--sizes", split = ",", defaultValue = "10000,100000,1000000", paramLabel = "N,...",
+    @Option(names = "--sizes", split = ",", defaultValue = "10000,100000,1000000", paramLabel = "N",
             description = "Numbers of respondents to time. Default: ${DEFAULT-VALUE}.")
     int[] sizes;
 
@@ -29,7 +29,7 @@ final class BenchmarkCommand implements Callable<Integer> {
     @Option(names = "--seed", defaultValue = "20261202", description = "Seed of the data and the sampler. Default: ${DEFAULT-VALUE}.")
     long seed;
 
-    @Option(names = "--ess-sizes", split = ",", defaultValue = "10000,100000", paramLabel = "N,...",
+    @Option(names = "--ess-sizes", split = ",", defaultValue = "10000,100000", paramLabel = "N",
             description = "Numbers of respondents of the bulk-ESS fits (2 chains, 2 threads). Default: ${DEFAULT-VALUE}.")
     int[] essSizes;
 
@@ -39,7 +39,7 @@ final class BenchmarkCommand implements Callable<Integer> {
     @Option(names = "--ess-draws", defaultValue = "1000", description = "Kept draws per chain of the ESS fits. Default: ${DEFAULT-VALUE}.")
     int essDraws;
 
-    @Option(names = "--models", split = ",", defaultValue = "plain,coarse,complete,education", paramLabel = "MODEL,...",
+    @Option(names = "--models", split = ",", defaultValue = "plain,coarse,complete,education", paramLabel = "MODEL",
             description = "Models whose speed is timed: plain (style classes off), coarse (the coarse class on, half the sweeps), "
                     + "complete (attraction too, a quarter of the sweeps), education (the complete model with education "
                     + "as the coarse class's covariate, a quarter of the sweeps). Default: ${DEFAULT-VALUE}.")

@@ -56,7 +56,7 @@ final class CalibrateCommand implements Callable<Integer> {
             description = "Response-style classes of simulation and fit (MODEL.md 4): none or coarse. Default: ${DEFAULT-VALUE}.")
     String styleClasses;
 
-    @Option(names = "--coarse-points", paramLabel = "J,K,...", split = ",",
+    @Option(names = "--coarse-points", paramLabel = "RATING", split = ",",
             description = "Coarse points as ratings, with --style-classes coarse. Default: {L, floor((L+U)/2), U}.")
     int[] coarsePoints;
 

@@ -146,6 +146,18 @@ final class CommandLineTest {
         assertFalse(recover.flatOut().contains("(with --shard"), recover.out());
     }
 
+    /** A comma-split option's label names one value: picocli adds the repetition, "N[,N...]" (our rule). */
+    @Test
+    void commaSeparatedOptionsShowOneValueInTheirLabel() {
+        List<picocli.CommandLine> commands = new ArrayList<>(List.of(Main.commandLine()));
+        for (int i = 0; i < commands.size(); i++) {
+            picocli.CommandLine command = commands.get(i);
+            commands.addAll(command.getSubcommands().values());
+            String usage = command.getUsageMessage();
+            assertFalse(usage.contains("...[,"), () -> command.getCommandName() + ":\n" + usage);
+        }
+    }
+
     @Test
     void everySubcommandHelpExitsZeroAndShowsDefaults() {
         Run fit = rungs("fit", "--help");
