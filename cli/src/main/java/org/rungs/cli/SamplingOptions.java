@@ -40,7 +40,8 @@ final class SamplingOptions {
     String attraction;
 
     @Option(names = "--prior", paramLabel = "NAME=DIST",
-            description = "Replace a default prior, e.g. level=normal(0,2.5) or group_sd=half-normal(0.5). Names: " + Priors.NAMES + ".")
+            description = "Replace a default prior, e.g. level=normal(0,2.5) or group_sd=half-normal(0.5); a mean in -100..100, an sd in "
+                    + "1e-6..1e6. Names: " + Priors.NAMES + ".")
     List<String> priors = new ArrayList<>();
 
     @Option(names = "--cross-validate",

@@ -35,6 +35,18 @@ public record Priors(
     public static final String NAMES =
             "level, group_mean, group_sd, threshold, threshold_sd, style, style_mean, style_sd, attraction_mean, attraction_sd";
 
+    /*
+     * Our rule, after an audit in which threshold_sd=half-normal(1e-155) and
+     * group_mean=normal(1e200,1) hung the sampler (the prior's density underflows or overflows, so
+     * no proposal is ever accepted) while 1e-6..1e6 and means up to 100 fitted: the latent scale's
+     * unit is the respondent noise (sd 1), so such priors say nothing a sensible one cannot.
+     */
+    private static final double MIN_SD = 1e-6;
+    private static final double MAX_SD = 1e6;
+    private static final double MAX_MEAN = 100;
+    private static final String RANGE_REASON = " (the latent scale's unit is the respondents' noise, sd 1; beyond it"
+            + " the sampler's arithmetic fails)";
+
     private static final Pattern NORMAL = Pattern.compile("normal\\(\\s*([^,\\s]+)\\s*,\\s*([^)\\s]+)\\s*\\)");
     private static final Pattern HALF_NORMAL = Pattern.compile("half-normal\\(\\s*(?:0\\s*,\\s*)?([^)\\s]+)\\s*\\)");
 
@@ -93,7 +105,13 @@ public record Priors(
         if (!m.matches()) {
             throw new IllegalArgumentException("prior " + name + " must be written normal(MEAN,SD), got '" + text + "'");
         }
-        return new Normal(number(name, m.group(1)), number(name, m.group(2)));
+        double mean = number(name, m.group(1));
+        double sd = number(name, m.group(2));
+        if (!(Math.abs(mean) <= MAX_MEAN)) {
+            throw new IllegalArgumentException("prior " + name + ": the mean " + mean + " is outside -" + (int) MAX_MEAN
+                    + ".." + (int) MAX_MEAN + "; expected a mean in that range" + RANGE_REASON);
+        }
+        return new Normal(mean, sd(name, sd));
     }
 
     private static HalfNormal halfNormal(String name, String text) {
@@ -101,7 +119,15 @@ public record Priors(
         if (!m.matches()) {
             throw new IllegalArgumentException("prior " + name + " must be written half-normal(SD), got '" + text + "'");
         }
-        return new HalfNormal(number(name, m.group(1)));
+        return new HalfNormal(sd(name, number(name, m.group(1))));
+    }
+
+    private static double sd(String name, double sd) {
+        if (!(sd >= MIN_SD && sd <= MAX_SD)) {
+            throw new IllegalArgumentException("prior " + name + ": the sd " + sd + " is outside 1e-6..1e6; expected a"
+                    + " positive sd in that range" + RANGE_REASON);
+        }
+        return sd;
     }
 
     private static double number(String name, String text) {
