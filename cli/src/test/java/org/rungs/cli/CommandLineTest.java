@@ -200,7 +200,8 @@ final class CommandLineTest {
         assertTrue(drawLines.get(0).startsWith("chain,iteration,"), drawLines.get(0));
         assertEquals(2 * 20, drawLines.size() - 1);
         // 20 draws per chain cannot give 100 bulk ESS per chain: the verdict and the advice say so
-        assertTrue(r.out().contains("Not converged") && r.out().contains("Run longer chains"), r.out());
+        assertTrue(r.out().contains("Not converged") && r.out().contains("Keep more draws: 20 per chain")
+                && r.out().contains("--draws 100 or more"), r.out());
         // the derived quantities' verdict names them as such, not as parameters (our rule: README, reading the verdict)
         Pattern derivedVerdict = Pattern.compile("of \\d+ derived quantities (flagged|converged)");
         assertTrue(r.out().lines().anyMatch(l -> l.startsWith("Derived quantities: ") && derivedVerdict.matcher(l).find()),

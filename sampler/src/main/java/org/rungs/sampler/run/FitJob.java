@@ -247,7 +247,7 @@ public final class FitJob {
         }
         if (!converged && !interrupted) {
             out.println(LongerChains.advice(summaries, derivedSummaries, request.settings().chains(),
-                    request.settings().thin()));
+                    request.settings().thin(), request.settings().draws()));
         }
         out.println("Files written to " + folder.dir().toAbsolutePath() + ": " + String.join(", ", folder.written()));
         if (interrupted) {

@@ -18,15 +18,26 @@ final class LongerChains {
     private LongerChains() {
     }
 
-    /** The advice for a fit with these summaries of parameters and derived quantities, chains and thinning. */
-    static String advice(List<ParameterSummary> parameters, List<ParameterSummary> derived, int chains, int thin) {
+    /** The advice for a fit with these summaries of parameters and derived quantities, chains, thinning and kept draws per chain. */
+    static String advice(List<ParameterSummary> parameters, List<ParameterSummary> derived, int chains, int thin, int draws) {
         List<ParameterSummary> all = new ArrayList<>(parameters);
         all.addAll(derived);
-        return advice(all, chains, thin);
+        return advice(all, chains, thin, draws);
     }
 
-    /** The advice for a fit with these summaries, chains and thinning. */
-    static String advice(List<ParameterSummary> summaries, int chains, int thin) {
+    /**
+     * The advice for a fit with these summaries, chains, thinning and kept draws per chain. Below
+     * 100 kept draws per chain it asks for more draws, not more thinning: a chain's effective
+     * sample size rarely exceeds its draws, so no --thin reaches the 100 per chain the rule needs
+     * (our rule, after an audit where --draws 1 was told to thin by 2).
+     */
+    static String advice(List<ParameterSummary> summaries, int chains, int thin, int draws) {
+        if (draws < ParameterSummary.MIN_ESS_PER_CHAIN) {
+            return String.format(Locale.ROOT, "The chains have not converged: read no estimate yet. Keep more draws: %d per"
+                    + " chain cannot reach the effective sample size of %.0f per chain that convergence needs; run"
+                    + " --draws %.0f or more (the default is 1000), then check R-hat and ESS again.",
+                    draws, ParameterSummary.MIN_ESS_PER_CHAIN, ParameterSummary.MIN_ESS_PER_CHAIN);
+        }
         double smallest = Double.POSITIVE_INFINITY;
         String slowest = null;
         for (ParameterSummary s : summaries) {

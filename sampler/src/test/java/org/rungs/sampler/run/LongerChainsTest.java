@@ -15,12 +15,12 @@ class LongerChainsTest {
     void namesTheSlowestParameterAndScalesTheThinning() {
         List<ParameterSummary> s = List.of(summary("fast", 1.0, 3000, 2500), summary("slow", 1.05, 80, 120),
                 summary("tail-slow", 1.02, 150, 100));
-        String text = LongerChains.advice(s, 4, 1);
+        String text = LongerChains.advice(s, 4, 1, 1000);
         // 400 needed over 80 reached: 5 times, --thin 5
         assertTrue(text.contains("the smallest effective sample size is 80 (slow) where 400 are needed"), text);
         assertTrue(text.contains("--thin 5 "), text);
         // already thinned by 3: 15
-        assertTrue(LongerChains.advice(s, 4, 3).contains("--thin 15 "), LongerChains.advice(s, 4, 3));
+        assertTrue(LongerChains.advice(s, 4, 3, 1000).contains("--thin 15 "), LongerChains.advice(s, 4, 3, 1000));
     }
 
     /** The demo on seed 5: every parameter fine, a derived share at bulk ESS 357. */
@@ -29,14 +29,28 @@ class LongerChainsTest {
         List<ParameterSummary> parameters = List.of(summary("threshold.1", 1.004, 640, 700));
         List<ParameterSummary> derived = List.of(summary("coarse_share.Vellanmoor", 1.009, 357, 508),
                 summary("intended_share.Tarnwhistle.4", 1.011, 858, 953));
-        String text = LongerChains.advice(parameters, derived, 4, 2);
+        String text = LongerChains.advice(parameters, derived, 4, 2, 1000);
         // 400 / 357 = 1.12 times 2: --thin 3
         assertTrue(text.contains("is 357 (coarse_share.Vellanmoor) where 400 are needed") && text.contains("--thin 3 "), text);
     }
 
     @Test
     void rhatAloneAsksForTwiceTheIterations() {
-        String text = LongerChains.advice(List.of(summary("a", 1.03, 900, 800)), 4, 2);
+        String text = LongerChains.advice(List.of(summary("a", 1.03, 900, 800)), 4, 2, 1000);
         assertTrue(text.contains("--thin 4 ") && !text.contains("smallest effective"), text);
+    }
+
+    /**
+     * Our rule: with fewer than 100 kept draws per chain no thinning reaches an ESS of 100 per
+     * chain, so the advice asks for --draws (an audit found --draws 1 told to use --thin 2, and
+     * --draws 20 --thin 50 told to use --thin 787).
+     */
+    @Test
+    void tooFewDrawsAskForMoreDrawsNotMoreThinning() {
+        List<ParameterSummary> s = List.of(summary("slow", 1.05, 13, 20));
+        String text = LongerChains.advice(s, 2, 50, 20);
+        assertTrue(text.contains("20 per chain cannot reach") && text.contains("--draws 100 or more"), text);
+        assertTrue(!text.contains("--thin"), text);
+        assertTrue(LongerChains.advice(s, 2, 1, 100).contains("--thin 16 "), LongerChains.advice(s, 2, 1, 100));
     }
 }
