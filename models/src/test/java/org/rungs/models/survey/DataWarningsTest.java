@@ -54,4 +54,25 @@ class DataWarningsTest {
         assertEquals(List.of("every respondent of group South answered 4; its level and thresholds cannot be told"
                 + " apart, so they rest on the priors and on the other groups"), warnings);
     }
+
+    /**
+     * Our rule: more than {@link DataWarnings#MAX_NAMED} unanswered ratings or small groups are
+     * one warning each kind, not one line apiece (an audit got 150 lines for 150 groups of 15,
+     * and dozens on a scale of 0..100); five or fewer keep a line each, as above.
+     */
+    @Test
+    void manyUnansweredRatingsAndSmallGroupsAreOneWarningEach() throws Exception {
+        StringBuilder content = new StringBuilder("region,rating\n");
+        content.append("Big,1\nBig,2\nBig,12\n".repeat(20));
+        for (int g = 1; g <= 7; g++) {
+            content.append(("G" + g + ",1\nG" + g + ",12\n").repeat(g));
+        }
+        Path file = Files.writeString(dir.resolve("many.csv"), content);
+        List<String> warnings = DataWarnings.of(SurveyReader.read(file,
+                SurveySpec.builder("rating", new Scale(1, 12)).group("region").build()));
+        assertEquals(List.of("nobody answered 9 of the 12 ratings (3, 4, 5, 6, 7, 8, 9, 10, 11); the thresholds around"
+                        + " them rest on the prior and on their neighbours",
+                "7 of the 8 groups have fewer than 30 respondents (G1 2, G2 4, G3 6, G4 8, G5 10 and 2 more);"
+                        + " their estimates lean on the other groups"), warnings);
+    }
 }
