@@ -42,9 +42,10 @@ public final class CrossValidationComparison {
      * @param difference elpd_loo minus the best fit's (0 for the best)
      * @param differenceSe the standard error of that difference (0 for the best)
      * @param byGroup    the difference and its standard error over each group's respondents
+     * @param converged  the fit's summary.csv shows it converged (or converged within chance) and it was not interrupted
      */
     public record Fit(Path dir, String model, double elpd, double se, double mcse, double effective, int unreliable,
-                      double difference, double differenceSe, List<GroupDifference> byGroup) {
+                      double difference, double differenceSe, List<GroupDifference> byGroup, boolean converged) {
         public Fit {
             byGroup = List.copyOf(byGroup);
         }
@@ -97,10 +98,26 @@ public final class CrossValidationComparison {
             }
             out.add(new Fit(f.dir, f.model, f.total(), LeaveOneOut.standardError(f.elpd), f.mcse(),
                     LeaveOneOut.total(f.effective), f.unreliable(), LeaveOneOut.total(difference),
-                    f == best ? 0 : LeaveOneOut.standardError(difference), byGroup(first, difference, f == best)));
+                    f == best ? 0 : LeaveOneOut.standardError(difference), byGroup(first, difference, f == best),
+                    converged(f.dir)));
         }
         out.sort(Comparator.comparingDouble(Fit::difference).reversed());
         return out;
+    }
+
+    /**
+     * Whether the fit in {@code dir} converged, by the verdict its report gives from summary.csv
+     * (false without a summary.csv): our rule, after an audit in which compare ranked fits whose
+     * chains had not converged without a word.
+     */
+    private static boolean converged(Path dir) throws IOException {
+        Path summary = dir.resolve("summary.csv");
+        if (!Files.isRegularFile(summary)) {
+            return false;
+        }
+        FitFolder fit = new FitFolder(dir, Json.read(dir.resolve("run.json")), CsvTable.read(summary), null, null, null,
+                null, null, null);
+        return ConvergenceSection.verdict(fit).converged();
     }
 
     /** The pointwise differences summed within each group of {@code rows}, in order of the groups' first rows. */
@@ -170,6 +187,13 @@ public final class CrossValidationComparison {
                 + " respondent (paired by the file's row); a difference within about 2 se_diff, or of a few units, does not"
                 + " tell the models apart (common practice; Vehtari, Gelman & Gabry 2017 discuss the standard error).");
         b.append(System.lineSeparator());
+        List<String> unconverged = fits.stream().filter(f -> !f.converged()).map(f -> f.dir().toString()).toList();
+        if (!unconverged.isEmpty()) {
+            b.append("Not converged: " + String.join(", ", unconverged) + " (summary.csv flags parameters, the fit was"
+                    + " interrupted, or summary.csv is missing); their elpd_loo may change with longer chains: run them"
+                    + " longer, as each fit's console or report says, before reading this comparison.");
+            b.append(System.lineSeparator());
+        }
         if (fits.stream().anyMatch(f -> f.unreliable() > 0)) {
             b.append("Some respondents have Pareto k above 0.7, where the importance sampling is unreliable; read those fits'"
                     + " figures with care (their cross_validation.csv lists the respondents).");

@@ -135,4 +135,26 @@ class CrossValidationComparisonTest {
         IOException e = assertThrows(IOException.class, () -> CrossValidationComparison.compare(dirs));
         assertTrue(e.getMessage().contains(part), e.getMessage());
     }
+
+    /**
+     * Our rule, after an audit in which compare ranked fits whose chains had not converged without
+     * a word: the fits whose summary.csv does not show convergence (or is missing) are named.
+     */
+    @Test
+    void fitsThatHaveNotConvergedAreNamed(@TempDir Path dir) throws IOException {
+        String header = "name,mean,sd,q5,q50,q95,rhat,ess_bulk,ess_tail,mcse_mean,flag,rhat_chance\n";
+        Path good = fit(dir, "good", "abc", "2,3,-1,0.1,0.2,0.01,North", "3,4,-2,0.1,0.3,0.01,North");
+        Files.writeString(good.resolve("summary.csv"), header + "level.x,0.5,0.1,0.3,0.5,0.7,1.001,900,800,0.003,ok,0.6\n");
+        Path slow = fit(dir, "slow", "abc", "2,3,-1.5,0.2,0.2,0.02,North", "3,4,-2,0.2,0.3,0.02,North");
+        Files.writeString(slow.resolve("summary.csv"), header
+                + "level.x,0.5,0.1,0.3,0.5,0.7,1.2,30,40,0.02,rhat>1.01;low ess_bulk;low ess_tail,0.0001\n");
+        Path bare = fit(dir, "bare", "abc", "2,3,-1.2,0.2,0.2,0.02,North", "3,4,-2,0.2,0.3,0.02,North");
+        List<CrossValidationComparison.Fit> fits = CrossValidationComparison.compare(List.of(good, slow, bare));
+        assertEquals(List.of(true, false, false), fits.stream().map(CrossValidationComparison.Fit::converged).toList());
+        String table = CrossValidationComparison.format(fits);
+        // best first: good -3, bare -3.2, slow -3.5
+        assertTrue(table.contains("Not converged: " + bare + ", " + slow + " ("), table);
+        String alone = CrossValidationComparison.format(fits.subList(0, 1));
+        assertTrue(!alone.contains("Not converged"), alone);
+    }
 }
