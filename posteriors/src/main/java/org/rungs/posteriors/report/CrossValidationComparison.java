@@ -164,8 +164,9 @@ public final class CrossValidationComparison {
             b.append(String.format(Locale.ROOT, "%-" + width + "s %11d", labels.get(g), first.get(g).respondents()));
             for (Fit f : fits.subList(1, fits.size())) {
                 GroupDifference d = f.byGroup().get(g);
-                b.append(String.format(Locale.ROOT, "  %22s", String.format(Locale.ROOT, "%.1f (%.1f)", d.difference(),
-                        d.differenceSe())));
+                // a group of one respondent has no standard error (the formula divides by n - 1)
+                String se = Double.isNaN(d.differenceSe()) ? "no se" : String.format(Locale.ROOT, "%.1f", d.differenceSe());
+                b.append(String.format(Locale.ROOT, "  %22s", String.format(Locale.ROOT, "%.1f (%s)", d.difference(), se)));
             }
             b.append(System.lineSeparator());
         }

@@ -67,6 +67,9 @@ class CrossValidationComparisonTest {
         assertTrue(Double.isNaN(groups.get(2).differenceSe()));
         assertEquals(-2, groups.get(2).difference(), 1e-12);
         assertTrue(CrossValidationComparison.formatByGroup(fits).contains("-0.5 (0.5)"));
+        // our rule: a group of one respondent says it has no se rather than printing NaN
+        String byGroup = CrossValidationComparison.formatByGroup(fits);
+        assertTrue(byGroup.contains("-2.0 (no se)") && !byGroup.contains("NaN"), byGroup);
         String table = CrossValidationComparison.format(fits);
         assertTrue(table.contains("Best predicted: " + a), table);
         assertTrue(table.contains("Pareto k above 0.7"), table);
