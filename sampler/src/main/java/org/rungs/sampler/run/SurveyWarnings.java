@@ -4,6 +4,7 @@ import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
 import org.rungs.models.ModelSpec;
+import org.rungs.models.ThresholdMode;
 import org.rungs.models.survey.DataWarnings;
 import org.rungs.models.survey.Scale;
 import org.rungs.models.survey.Survey;
@@ -17,6 +18,12 @@ final class SurveyWarnings {
     static List<String> of(Survey survey, ModelSpec model) {
         List<String> warnings = new ArrayList<>(DataWarnings.of(survey));
         warnings.addAll(model(survey.scale(), model));
+        if (survey.scale().categories() == 2
+                && model.effectiveThresholdMode(survey.groupLabels().size()) == ThresholdMode.BY_GROUP) {
+            // MODEL.md 3: a group's thresholds average to the common ones, so its one threshold is theirs
+            warnings.add("on a scale of 2 points every group's one threshold is the common one, so by-group thresholds"
+                    + " are shared ones and threshold_sd follows its prior; say --thresholds shared");
+        }
         return warnings;
     }
 
