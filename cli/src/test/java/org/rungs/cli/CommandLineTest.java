@@ -363,6 +363,9 @@ final class CommandLineTest {
                 "the coarse points are every rating of the scale 0..1", "--style-classes none");
         assertInputError("three.csv", binary, List.of("--rating", "rating", "--scale", "0..2"),
                 "are every rating of the scale 0..2", "--coarse-points", "--style-classes none");
+        // our rule: one coarse point is refused naming the option and what is expected
+        assertInputError("one-point.csv", binary, List.of("--rating", "rating", "--scale", "0..1", "--coarse-points", "1"),
+                "at least two coarse points are needed", "got only 1", "--coarse-points");
         Path out = dir.resolve("binary-plain");
         Run plain = rungs(fit(Files.writeString(dir.resolve("binary-plain.csv"), binary).toString(), "--rating", "rating",
                 "--scale", "0..1", "--style-classes", "none", "--seed", "1", "--out", out.toString()));

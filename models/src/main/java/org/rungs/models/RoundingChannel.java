@@ -36,7 +36,9 @@ public final class RoundingChannel {
             isPoint[points[p]] = true;
         }
         if (points.length < 2) {
-            throw new IllegalArgumentException("at least two coarse points are needed, got " + Arrays.toString(pointRatings));
+            throw new IllegalArgumentException("at least two coarse points are needed (a coarse responder reports the"
+                    + " nearest of them), got only " + (points.length == 0 ? "none" : Integer.toString(sorted[0]))
+                    + "; name two or more with --coarse-points, or switch the class off with --style-classes none");
         }
         fullLow = new int[categories];
         fullHigh = new int[categories];
