@@ -8,11 +8,14 @@ import java.util.Map;
 /**
  * Valid but unusual data that deserve a word before fitting: a rating nobody gave (or whose
  * answers were all declared missing), a small group, a group whose respondents all gave one
- * rating. The reader accepts such data ({@link SurveyReader}); a fit prints these warnings.
+ * rating, a category of a categorical covariate that few respondents have. The reader accepts such data ({@link SurveyReader}); a fit prints these warnings.
  */
 public final class DataWarnings {
     /** Below this many respondents a group's own thresholds and level rest mostly on the priors (common practice, no source). */
     public static final int SMALL_GROUP = 30;
+
+    /** Below this many respondents a categorical covariate's level has a coefficient resting mostly on its prior (our rule). */
+    public static final int RARE_LEVEL = 10;
 
     /**
      * More unanswered ratings or small groups than this are said in one warning, not one each:
@@ -98,6 +101,47 @@ public final class DataWarnings {
                         + " they rest on the priors and on the other groups");
             }
         }
+        rareLevels(warnings, survey.level(), "level");
+        rareLevels(warnings, survey.style(), "style");
         return warnings;
+    }
+
+    /**
+     * The levels of categorical covariates (their indicators) held by fewer than {@link #RARE_LEVEL}
+     * respondents: their coefficients rest mostly on the prior. An audit fitted a level of one
+     * respondent without a word.
+     */
+    private static void rareLevels(List<String> warnings, Covariates covariates, String role) {
+        List<String> names = new ArrayList<>();
+        List<String> levels = new ArrayList<>();
+        List<Integer> counts = new ArrayList<>();
+        for (int j = 0; j < covariates.count(); j++) {
+            if (!covariates.isIndicator(j)) {
+                continue;
+            }
+            int n = 0;
+            for (double v : covariates.column(j)) {
+                n += v != 0 ? 1 : 0;
+            }
+            if (n < RARE_LEVEL) {
+                names.add(role + "." + covariates.name(j));
+                levels.add(covariates.name(j));
+                counts.add(n);
+            }
+        }
+        if (names.size() > MAX_NAMED) {
+            List<String> named = new ArrayList<>();
+            for (int r = 0; r < MAX_NAMED; r++) {
+                named.add(names.get(r) + " " + counts.get(r));
+            }
+            warnings.add(names.size() + " levels of categorical " + role + " covariates have fewer than " + RARE_LEVEL
+                    + " respondents (" + String.join(", ", named) + " and " + (names.size() - MAX_NAMED)
+                    + " more); their coefficients rest mostly on the prior");
+            return;
+        }
+        for (int r = 0; r < names.size(); r++) {
+            warnings.add("only " + counts.get(r) + (counts.get(r) == 1 ? " respondent has " : " respondents have ")
+                    + levels.get(r) + " (" + names.get(r) + "); its coefficient rests mostly on the prior");
+        }
     }
 }

@@ -75,4 +75,22 @@ class DataWarningsTest {
                 "7 of the 8 groups have fewer than 30 respondents (G1 2, G2 4, G3 6, G4 8, G5 10 and 2 more);"
                         + " their estimates lean on the other groups"), warnings);
     }
+
+    /**
+     * Our rule: a level of a categorical covariate held by fewer than {@link DataWarnings#RARE_LEVEL}
+     * respondents is named with its parameter (an audit fitted a level of one respondent without a
+     * word); a numeric covariate and a well-filled level are not.
+     */
+    @Test
+    void aCategoryOfFewRespondentsIsNamed() throws Exception {
+        StringBuilder content = new StringBuilder("rating,job,age\n");
+        for (int i = 0; i < 40; i++) {
+            content.append(1 + i % 4).append(i % 2 == 0 ? ",clerk," : ",farmer,").append(20 + i).append('\n');
+        }
+        content.append("2,pilot,33\n3,pilot,50\n");
+        Path file = Files.writeString(dir.resolve("jobs.csv"), content);
+        SurveySpec spec = SurveySpec.builder("rating", ONE_FOUR).level("job", "age").build();
+        assertEquals(List.of("only 2 respondents have job=pilot (level.job=pilot); its coefficient rests mostly on the prior"),
+                DataWarnings.of(SurveyReader.read(file, spec)));
+    }
 }
