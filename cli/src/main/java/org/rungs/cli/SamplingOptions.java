@@ -92,9 +92,25 @@ final class SamplingOptions {
         return new ModelSpec(ThresholdMode.parse(thresholds), p, classes, NumberAttraction.parse(attraction));
     }
 
+    /** The sampler's settings; an option out of its range is refused by its name (IllegalArgumentException). */
     SamplerSettings settings() {
+        atLeast("--chains", chains, 1);
+        atLeast("--warmup", warmup, 0);
+        atLeast("--draws", draws, 1);
+        if (thin != null) {
+            atLeast("--thin", thin, 1);
+        }
+        if (threads != null) {
+            atLeast("--threads", threads, 1);
+        }
         long s = seed != null ? seed : new SecureRandom().nextLong() >>> 1;
         int t = threads != null ? threads : Math.max(1, Math.min(chains, Runtime.getRuntime().availableProcessors()));
         return new SamplerSettings(chains, warmup, draws, s, t, thin != null ? thin : 1);
+    }
+
+    private static void atLeast(String option, int value, int least) {
+        if (value < least) {
+            throw new IllegalArgumentException(option + " must be at least " + least + ", got " + value);
+        }
     }
 }

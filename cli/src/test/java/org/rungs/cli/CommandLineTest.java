@@ -256,7 +256,27 @@ final class CommandLineTest {
 
     @Test
     void thinBelowOneIsRefused() throws IOException {
-        assertInputError("thin.csv", GOOD, List.of("--rating", "rating", "--thin", "0"), "thin must be at least 1");
+        assertInputError("thin.csv", GOOD, List.of("--rating", "rating", "--thin", "0"), "--thin must be at least 1, got 0");
+    }
+
+    /** Our rule: a sampler option out of its range is refused by the option's name (an audit found "at least one thread is needed"). */
+    @Test
+    void samplerOptionsOutOfRangeAreRefusedByName() throws IOException {
+        String[][] cases = {{"--threads", "0", "--threads must be at least 1, got 0"},
+                {"--chains", "0", "--chains must be at least 1, got 0"},
+                {"--warmup", "-1", "--warmup must be at least 0, got -1"},
+                {"--draws", "0", "--draws must be at least 1, got 0"}};
+        for (String[] c : cases) {
+            Path file = Files.writeString(dir.resolve("range.csv"), GOOD);
+            Path out = dir.resolve("out-range");
+            List<String> args = new ArrayList<>(List.of("fit", file.toString(), "--rating", "rating", "--seed", "1",
+                    "--out", out.toString()));
+            args.addAll(List.of(c[0], c[1]));
+            Run r = rungs(args.toArray(new String[0]));
+            assertEquals(Main.INPUT_ERROR, r.exit(), r.err());
+            assertTrue(r.err().contains(c[2]), () -> "expected '" + c[2] + "' in:\n" + r.err());
+            assertTrue(absentOrEmpty(out), "output folder was written to");
+        }
     }
 
     @Test
