@@ -90,15 +90,21 @@ public final class DataWarnings {
                     + " respondents (" + String.join(", ", small.subList(0, MAX_NAMED)) + " and " + (small.size() - MAX_NAMED)
                     + " more); their estimates lean on the other groups");
         }
+        // with one group there are no other groups to lean on (an audit found the warnings saying so)
+        boolean single = sizes.length == 1;
         for (int g = 0; g < sizes.length; g++) {
+            String respondents = sizes[g] + (sizes[g] == 1 ? " respondent" : " respondents");
             if (sizes[g] < SMALL_GROUP && small.size() <= MAX_NAMED) {
-                warnings.add("group " + survey.groupLabels().get(g) + " has only " + sizes[g]
-                        + " respondents; its estimates lean on the other groups");
+                warnings.add(single ? "the survey has only " + respondents + "; its estimates rest mostly on the priors"
+                        : "group " + survey.groupLabels().get(g) + " has only " + respondents
+                                + "; its estimates lean on the other groups");
             }
             if (sizes[g] > 1 && !varied[g]) {
-                warnings.add("every respondent of group " + survey.groupLabels().get(g) + " answered "
-                        + survey.scale().rating(first[g]) + "; its level and thresholds cannot be told apart, so"
-                        + " they rest on the priors and on the other groups");
+                warnings.add(single ? "every respondent answered " + survey.scale().rating(first[g])
+                        + "; the level and thresholds cannot be told apart, so they rest on the priors"
+                        : "every respondent of group " + survey.groupLabels().get(g) + " answered "
+                                + survey.scale().rating(first[g]) + "; its level and thresholds cannot be told apart, so"
+                                + " they rest on the priors and on the other groups");
             }
         }
         rareLevels(warnings, survey.level(), "level");

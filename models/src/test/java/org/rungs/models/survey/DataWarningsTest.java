@@ -93,4 +93,26 @@ class DataWarningsTest {
         assertEquals(List.of("only 2 respondents have job=pilot (level.job=pilot); its coefficient rests mostly on the prior"),
                 DataWarnings.of(SurveyReader.read(file, spec)));
     }
+
+    /**
+     * Our rule: with one group there are no other groups to lean on, so the warnings say what the
+     * estimates do rest on (an audit found a survey of one respondent told to lean on others).
+     */
+    @Test
+    void aSingleGroupIsNotToldToLeanOnOthers() throws Exception {
+        Path one = Files.writeString(dir.resolve("one.csv"), "rating\n4\n");
+        assertEquals(List.of("nobody answered 1; the thresholds around it rest on the prior and on their neighbours",
+                "nobody answered 2; the thresholds around it rest on the prior and on their neighbours",
+                "nobody answered 3; the thresholds around it rest on the prior and on their neighbours",
+                "the survey has only 1 respondent; its estimates rest mostly on the priors"),
+                DataWarnings.of(SurveyReader.read(one, SurveySpec.of("rating", null, ONE_FOUR))));
+        Path same = Files.writeString(dir.resolve("same.csv"), "rating\n" + "2\n".repeat(40) + "1\n3\n4\n");
+        Path fours = Files.writeString(dir.resolve("fours.csv"), "rating\n" + "4\n".repeat(40));
+        assertEquals(List.of(), DataWarnings.of(SurveyReader.read(same, SurveySpec.of("rating", null, ONE_FOUR))));
+        assertEquals(List.of("nobody answered 1; the thresholds around it rest on the prior and on their neighbours",
+                "nobody answered 2; the thresholds around it rest on the prior and on their neighbours",
+                "nobody answered 3; the thresholds around it rest on the prior and on their neighbours",
+                "every respondent answered 4; the level and thresholds cannot be told apart, so they rest on the priors"),
+                DataWarnings.of(SurveyReader.read(fours, SurveySpec.of("rating", null, ONE_FOUR))));
+    }
 }
