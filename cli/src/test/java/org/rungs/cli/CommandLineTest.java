@@ -365,11 +365,11 @@ final class CommandLineTest {
     @Test
     void ratingsOfTheModelOffTheScaleAreRefusedBeforeAnythingIsWritten() throws IOException {
         assertInputError("attracted.csv", GOOD, List.of("--rating", "rating", "--attraction", "3,11"),
-                "attraction number 11", "0..10");
+                "attraction number 11", "0..10", "--attraction expects");
         assertInputError("twice.csv", GOOD, List.of("--rating", "rating", "--attraction", "3,3"),
                 "attraction number 3 is named twice");
         assertInputError("points.csv", GOOD, List.of("--rating", "rating", "--coarse-points", "0,12"),
-                "coarse point 12", "0..10");
+                "coarse point 12", "0..10", "--coarse-points expects");
     }
 
     @Test

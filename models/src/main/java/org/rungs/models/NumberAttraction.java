@@ -71,7 +71,8 @@ public record NumberAttraction(boolean on, int[] numbers) {
             for (int i = 0; i < set.length; i++) {
                 if (set[i] < scale.lowest() || set[i] > scale.highest()) {
                     throw new IllegalArgumentException("attraction number " + set[i] + " is not on the scale "
-                            + scale.lowest() + ".." + scale.highest());
+                            + scale.lowest() + ".." + scale.highest() + "; --attraction expects none, default or"
+                            + " ratings of the scale, e.g. 3,7");
                 }
                 if (i > 0 && set[i] == set[i - 1]) {
                     throw new IllegalArgumentException("attraction number " + set[i] + " is named twice");

@@ -27,7 +27,8 @@ public final class RoundingChannel {
         isPoint = new boolean[categories];
         for (int p = 0; p < sorted.length; p++) {
             if (!scale.contains(sorted[p])) {
-                throw new IllegalArgumentException("coarse point " + sorted[p] + " is not on the scale " + scale);
+                throw new IllegalArgumentException("coarse point " + sorted[p] + " is not on the scale " + scale
+                        + "; --coarse-points expects ratings of the scale, e.g. its two ends and its middle");
             }
             if (p > 0 && sorted[p] == sorted[p - 1]) {
                 throw new IllegalArgumentException("coarse point " + sorted[p] + " is given twice");

@@ -25,8 +25,17 @@ final class SliceSampler {
         return new SliceSampler(rng, width);
     }
 
+    /**
+     * @throws IllegalStateException when the log density at {@code x0} is not finite: the slice
+     *         would hold no point, and the shrinkage would never end
+     */
     double sample(double x0, LogDensity density) {
-        double level = density.at(x0) + Math.log(rng.nextDouble());
+        double start = density.at(x0);
+        if (!Double.isFinite(start)) {
+            throw new IllegalStateException("a slice sampling step started at " + x0 + ", where the log density is "
+                    + start + ": the chain has left the posterior's support");
+        }
+        double level = start + Math.log(rng.nextDouble());
         double left = x0 - width * rng.nextDouble();
         double right = left + width;
         int j = (int) (MAX_STEPS * rng.nextDouble());
