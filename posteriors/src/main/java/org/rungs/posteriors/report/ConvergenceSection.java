@@ -20,6 +20,7 @@ import org.jfree.data.xy.XYSeries;
 import org.jfree.data.xy.XYSeriesCollection;
 import org.rungs.posteriors.ConvergenceVerdict;
 import org.rungs.posteriors.Draws;
+import org.rungs.posteriors.ParameterSummary;
 
 /**
  * Section 2: the verdict (R-hat above 1.01 or bulk/tail ESS below 100 per chain flags a
@@ -65,11 +66,20 @@ final class ConvergenceSection {
         ConvergenceVerdict family = verdict.family();
         int parameters = family.quantities();
         switch (family.kind()) {
-            case NOT_CONVERGED -> sb.append("This fit has not converged: ").append(family.flagged().size()).append(" of ")
-                    .append(parameters)
-                    .append(" parameters fail the checks (R-hat above 1.01 or an effective sample size below 100 per chain). ")
-                    .append("The chains disagree or have too few independent draws, so the estimates below are not reliable; ")
-                    .append("run longer chains (more warm-up and draws) and check again before using them. ");
+            case NOT_CONVERGED -> {
+                sb.append("This fit has not converged: ").append(family.flagged().size()).append(" of ")
+                        .append(parameters)
+                        .append(" parameters fail the checks (R-hat above 1.01 or an effective sample size below 100 per chain). ")
+                        .append("The chains disagree or have too few independent draws, so the estimates below are not reliable; ")
+                        .append("run longer chains (more warm-up and draws) and check again before using them. ");
+                double kept = fit.number("sampler.kept_draws");
+                if (kept < ParameterSummary.MIN_ESS_PER_CHAIN) {
+                    // as LongerChains.advice says on the console (our rule: no --thin reaches 100 from fewer draws)
+                    sb.append(String.format(Locale.ROOT, "With %.0f kept draws per chain no quantity can reach %.0f "
+                            + "effective draws per chain: keep at least %.0f (--draws). ", kept,
+                            ParameterSummary.MIN_ESS_PER_CHAIN, ParameterSummary.MIN_ESS_PER_CHAIN));
+                }
+            }
             case WITHIN_CHANCE -> {
                 boolean one = family.flagged().size() == 1;
                 sb.append(String.format(Locale.ROOT, "This fit has converged within chance: %d of %d parameters %s an "

@@ -187,6 +187,23 @@ class ReportTest {
         assertTrue(Files.readString(Report.write(dir)).contains("This fit has not converged: 1 of"), "an older summary.csv");
     }
 
+    /** Fewer than 100 kept draws per chain cannot give 100 effective draws: the verdict says to keep more. */
+    @Test
+    void aFitWithTooFewDrawsIsToldToKeepMore() throws Exception {
+        Path dir = copyOfOneGroup(tmp.resolve("fit"));
+        Path summary = dir.resolve("summary.csv");
+        List<String> lines = new ArrayList<>(Files.readAllLines(summary));
+        lines.set(1, lines.get(1).replace(",ok", ",ess_bulk<100"));
+        Files.write(summary, lines);
+        String html = Files.readString(Report.write(dir));
+        assertTrue(html.contains("This fit has not converged"), "the flagged row makes it unconverged");
+        assertTrue(html.contains("With 8 kept draws per chain no quantity can reach 100 effective draws per chain: keep at"
+                + " least 100 (--draws)."), "the advice for the fixture's 8 draws per chain");
+        Path run = dir.resolve("run.json");
+        Files.writeString(run, Files.readString(run).replace("\"kept_draws\": 8", "\"kept_draws\": 1000"));
+        assertFalse(Files.readString(Report.write(dir)).contains("kept draws per chain no quantity"), "enough draws");
+    }
+
     @Test
     void anInterruptedRunSaysHowManyDrawsWereKept() throws Exception {
         Path dir = copyOfOneGroup(tmp.resolve("fit"));
@@ -200,17 +217,14 @@ class ReportTest {
     @Test
     void aHundredAndFiftyGroupsGetOneChartEachAndRoomForEveryLabel() throws Exception {
         Path dir = FitFolderFixture.write(tmp.resolve("fit"), FitFolderFixture.numberedRegions(150), true, 14);
-        long start = System.nanoTime();
         String html = Files.readString(Report.write(dir));
-        double seconds = (System.nanoTime() - start) / 1e9;
         assertEquals(expectedChartIds(150, ConvergenceSection.PLOTTED_BY_RHAT + ConvergenceSection.PLOTTED_BY_ESS), chartIds(html));
         String meansTag = SVG.matcher(html).results().map(m -> m.group()).filter(s -> s.matches("(?s)<svg[^>]*id='means'.*"))
                 .findFirst().orElseThrow().substring(0, 600);
         Matcher height = SVG_HEIGHT.matcher(meansTag);
         assertTrue(height.find(), meansTag);
         assertTrue(Double.parseDouble(height.group(1)) >= 150 * DotPlot.ROW_HEIGHT, "one row of height per group label");
-        // Generous bound for a slow CI machine; the issue asks for a few seconds on the 12-group demo.
-        assertTrue(seconds < 20, "report of 150 groups took " + seconds + " s");
+        // the report's time is measured by bench/demos (BENCHMARKS.md), not here
     }
 
     @Test
