@@ -131,10 +131,7 @@ final class CommandLineTest {
      */
     @Test
     void helpDescriptionsAreWholeSentences() {
-        List<picocli.CommandLine> commands = new ArrayList<>(List.of(Main.commandLine()));
-        for (int i = 0; i < commands.size(); i++) {
-            picocli.CommandLine command = commands.get(i);
-            commands.addAll(command.getSubcommands().values());
+        for (picocli.CommandLine command : allCommands()) {
             for (String paragraph : command.getCommandSpec().usageMessage().description()) {
                 // picocli's own help command ends its text with a format newline
                 assertTrue(paragraph.replace("%n", "").strip().endsWith("."), () -> command.getCommandName() + ": \"" + paragraph + "\"");
@@ -149,13 +146,19 @@ final class CommandLineTest {
     /** A comma-split option's label names one value: picocli adds the repetition, "N[,N...]" (our rule). */
     @Test
     void commaSeparatedOptionsShowOneValueInTheirLabel() {
-        List<picocli.CommandLine> commands = new ArrayList<>(List.of(Main.commandLine()));
-        for (int i = 0; i < commands.size(); i++) {
-            picocli.CommandLine command = commands.get(i);
-            commands.addAll(command.getSubcommands().values());
+        for (picocli.CommandLine command : allCommands()) {
             String usage = command.getUsageMessage();
             assertFalse(usage.contains("...[,"), () -> command.getCommandName() + ":\n" + usage);
         }
+    }
+
+    /** Every command and subcommand of the tool, the top one first. */
+    private static List<picocli.CommandLine> allCommands() {
+        List<picocli.CommandLine> commands = new ArrayList<>(List.of(Main.commandLine()));
+        for (int i = 0; i < commands.size(); i++) {
+            commands.addAll(commands.get(i).getSubcommands().values());
+        }
+        return commands;
     }
 
     @Test
