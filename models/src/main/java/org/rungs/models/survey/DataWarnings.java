@@ -92,6 +92,12 @@ public final class DataWarnings {
         }
         // with one group there are no other groups to lean on (an audit found the warnings saying so)
         boolean single = sizes.length == 1;
+        // nor when every group gave the same one rating: one warning, not one per group
+        boolean oneRatingEverywhere = !single && category.length > 1 && Arrays.stream(counts).filter(c -> c > 0).count() == 1;
+        if (oneRatingEverywhere) {
+            warnings.add("every respondent of every group answered " + survey.scale().rating(category[0])
+                    + "; the levels and thresholds cannot be told apart, so they rest on the priors");
+        }
         for (int g = 0; g < sizes.length; g++) {
             String respondents = sizes[g] + (sizes[g] == 1 ? " respondent" : " respondents");
             if (sizes[g] < SMALL_GROUP && small.size() <= MAX_NAMED) {
@@ -99,7 +105,7 @@ public final class DataWarnings {
                         : "group " + survey.groupLabels().get(g) + " has only " + respondents
                                 + "; its estimates lean on the other groups");
             }
-            if (sizes[g] > 1 && !varied[g]) {
+            if (sizes[g] > 1 && !varied[g] && !oneRatingEverywhere) {
                 warnings.add(single ? "every respondent answered " + survey.scale().rating(first[g])
                         + "; the level and thresholds cannot be told apart, so they rest on the priors"
                         : "every respondent of group " + survey.groupLabels().get(g) + " answered "

@@ -98,6 +98,18 @@ class DataWarningsTest {
      * Our rule: with one group there are no other groups to lean on, so the warnings say what the
      * estimates do rest on (an audit found a survey of one respondent told to lean on others).
      */
+    /** Every group at one rating: one warning for the survey, not one per group that points to the others (our rule). */
+    @Test
+    void aSurveyAtOneRatingGetsOneWarning() throws Exception {
+        Path fours = Files.writeString(dir.resolve("all-fours.csv"), "rating,region\n" + "4,North\n4,South\n4,East\n".repeat(40));
+        List<String> warnings = DataWarnings.of(SurveyReader.read(fours, SurveySpec.of("rating", "region", ONE_FOUR)));
+        assertEquals(List.of("nobody answered 1; the thresholds around it rest on the prior and on their neighbours",
+                "nobody answered 2; the thresholds around it rest on the prior and on their neighbours",
+                "nobody answered 3; the thresholds around it rest on the prior and on their neighbours",
+                "every respondent of every group answered 4; the levels and thresholds cannot be told apart, so they rest"
+                        + " on the priors"), warnings);
+    }
+
     @Test
     void aSingleGroupIsNotToldToLeanOnOthers() throws Exception {
         Path one = Files.writeString(dir.resolve("one.csv"), "rating\n4\n");
