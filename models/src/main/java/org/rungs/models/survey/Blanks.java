@@ -3,7 +3,8 @@ package org.rungs.models.survey;
 /**
  * What is cut from both ends of a label or a missing code before it is compared: ASCII space and
  * tab, and the characters a reader cannot see, Unicode spaces (U+00A0 no-break space and the rest
- * of the separators Zs, Zl, Zp), U+200B zero-width space and U+FEFF, the byte-order mark (our rule:
+ * of the separators Zs, Zl, Zp), U+200B zero-width space, U+200C and U+200D zero-width
+ * non-joiner and joiner, U+2060 word joiner and U+FEFF, the byte-order mark (our rule:
  * "Dunsellow " and "Dunsellow" look the same in every table, so they are one group). Control
  * characters other than tab are never cut, so that the reader still stops at them.
  *
@@ -11,6 +12,8 @@ package org.rungs.models.survey;
  */
 final class Blanks {
     private static final int ZERO_WIDTH_SPACE = 0x200B;
+    private static final int ZERO_WIDTH_JOINER = 0x200D;
+    private static final int WORD_JOINER = 0x2060;
     private static final int BYTE_ORDER_MARK = 0xFEFF;
 
     private Blanks() {
@@ -74,7 +77,8 @@ final class Blanks {
     }
 
     static boolean isBlank(int codePoint) {
-        return codePoint == ' ' || codePoint == '\t' || codePoint == ZERO_WIDTH_SPACE || codePoint == BYTE_ORDER_MARK
+        return codePoint == ' ' || codePoint == '\t' || codePoint >= ZERO_WIDTH_SPACE && codePoint <= ZERO_WIDTH_JOINER
+                || codePoint == WORD_JOINER || codePoint == BYTE_ORDER_MARK
                 || codePoint >= 0x80 && Character.isSpaceChar(codePoint);
     }
 

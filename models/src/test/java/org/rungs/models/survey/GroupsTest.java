@@ -42,13 +42,15 @@ class GroupsTest {
     /**
      * Our rule, after an audit where "Dunsellow " (a trailing space) became a group of its own that
      * looked like "Dunsellow" in every table: spaces, tabs and invisible characters (no-break
-     * space U+00A0, zero-width space U+200B, byte-order mark U+FEFF, ideographic space U+3000) at
+     * space U+00A0, zero-width space U+200B, zero-width non-joiner and joiner U+200C and U+200D, word
+     * joiner U+2060, byte-order mark U+FEFF, ideographic space U+3000) at
      * either end of a label are cut before the label is compared.
      */
     @Test
     void lookAlikeLabelsJoinTheirGroup() throws Exception {
         String[] lookAlikes = {"Dunsellow ", " Dunsellow", "Dunsellow\u00A0", "\u00A0Dunsellow", "Dunsellow\u200B",
-            "\u200BDunsellow", "\uFEFFDunsellow", "Dunsellow\uFEFF", "\tDunsellow\t", "\u3000Dunsellow \u00A0\u200B"};
+            "\u200BDunsellow", "\uFEFFDunsellow", "Dunsellow\uFEFF", "\tDunsellow\t", "\u3000Dunsellow \u00A0\u200B",
+            "Dunsellow\u2060", "\u200CDunsellow\u200D"};
         StringBuilder content = new StringBuilder("rating,region\n1,Dunsellow\n2,Carrow\n");
         for (String label : lookAlikes) {
             content.append("3,\"").append(label).append("\"\n");
