@@ -45,6 +45,31 @@ final class Cholesky {
         }
     }
 
+    /**
+     * Solves L' y = v in place from {@code u} = L' row-major ({@link #transpose}): the arithmetic of
+     * {@link #solveUpper}, in the same order, but reading rows, which matters once L outgrows the
+     * cache (a thousand and more coordinates: many groups with by-group thresholds).
+     */
+    static void solveTransposedLower(double[] u, int n, double[] v) {
+        for (int j = n - 1; j >= 0; j--) {
+            double s = v[j];
+            int row = j * n;
+            for (int i = j + 1; i < n; i++) {
+                s -= u[row + i] * v[i];
+            }
+            v[j] = s / u[row + j];
+        }
+    }
+
+    /** Writes the transpose of the n x n row-major {@code a} to {@code t}. */
+    static void transpose(double[] a, double[] t, int n) {
+        for (int i = 0; i < n; i++) {
+            for (int j = 0; j < n; j++) {
+                t[j * n + i] = a[i * n + j];
+            }
+        }
+    }
+
     /** Solves L' y = v in place, L the lower factor at {@code l[at..]}. */
     static void solveUpper(double[] l, int at, int n, double[] v) {
         for (int j = n - 1; j >= 0; j--) {

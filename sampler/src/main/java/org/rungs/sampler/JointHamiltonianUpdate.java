@@ -102,6 +102,8 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
     private final double[] momentum;
     /** Lower Cholesky factor R of the metric's precision R R', row-major; the momentum has covariance R R'. */
     private final double[] factor;
+    /** R' row-major, so that solving with R' reads memory in order (the same arithmetic as from R); set by {@link #factorChanged}. */
+    private final double[] factorTransposed;
     private boolean built;
     /** Warm-up sweeps at which the draws since the build replace the metric. */
     private final int refitAt;
@@ -154,6 +156,7 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
         this.work = new double[dimension];
         this.momentum = new double[dimension];
         this.factor = new double[dimension * dimension];
+        this.factorTransposed = new double[dimension * dimension];
     }
 
     /** The step for a chain whose warm-up has {@code warmup} sweeps. */
@@ -372,6 +375,7 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
         double[] kept = factor.clone();
         if (!cholesky(precision)) {
             System.arraycopy(kept, 0, factor, 0, factor.length);
+            factorChanged();
             if (first) {
                 warp.clear();
             }
@@ -417,7 +421,7 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
 
     /** Solves R' y = v in place, so y ~ N(0, H^-1) when v ~ N(0, I). */
     private void solveUpper(double[] v) {
-        Cholesky.solveUpper(factor, 0, dimension, v);
+        Cholesky.solveTransposedLower(factorTransposed, dimension, v);
     }
 
     /** Solves R v = b in place. */
@@ -539,7 +543,14 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
     /** Lower Cholesky factor of the row-major symmetric matrix a into {@link #factor}. */
     private boolean cholesky(double[] a) {
         java.util.Arrays.fill(factor, 0);
-        return Cholesky.factor(a, 0, factor, 0, dimension);
+        boolean positive = Cholesky.factor(a, 0, factor, 0, dimension);
+        factorChanged();
+        return positive;
+    }
+
+    /** Every write of {@link #factor} ends here. */
+    private void factorChanged() {
+        Cholesky.transpose(factor, factorTransposed, dimension);
     }
 
     /** Warm-up position, step size, acceptance counts, the kept warm-up states, the change of variables and the metric. */
@@ -588,6 +599,7 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
         warp.restore(in);
         if (built) {
             Checkpointed.readDoubles(in, factor);
+            factorChanged();
         }
     }
 }
