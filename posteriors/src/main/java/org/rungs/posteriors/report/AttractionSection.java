@@ -33,8 +33,11 @@ final class AttractionSection {
                     : "The attraction profile was not computed for this fit (no attraction.csv in the folder).").append("</p></section>\n");
             return;
         }
-        out.append("<p class=\"note\">exp(a) multiplies the chance of answering a number: 1 (dashed line) is no pull, 1.5 means ")
-                .append("the number is chosen 50% more often than the respondent's latent position implies, 0.7 that it is avoided. ")
+        // MODEL.md 4b: exp(a) is the odds multiplier of reporting j rather than the other numbers; the
+        // probabilities are renormalised, so it is a ratio against a number without a term, not a change of one share
+        out.append("<p class=\"note\">exp(a) is the odds multiplier of answering a number rather than another: 1 (dashed line) ")
+                .append("is no pull; 1.5 means that, against a number with no pull, the number is chosen 1.5 times as often as the ")
+                .append("respondent's latent level alone implies; 0.7 that it is avoided. ")
                 .append("Points are posterior means, bars 90% intervals; \"all\" holds the terms common to every group.</p>\n");
         out.append("<div class=\"grid scroll\">\n");
         int g = 0;

@@ -109,11 +109,16 @@ final class ConvergenceSection {
         worstTable(summary, byRhat(summary), out);
         out.append("</div><div><h3>Lowest effective sample size</h3>\n");
         worstTable(summary, byEss(summary), out);
+        double chainCount = fit.number("sampler.chains");
         out.append("</div></div>\n");
         out.append("<p class=\"note\">R-hat compares the chains with each other (1 is perfect agreement); ")
                 .append("its chance is how often chains drawing from the posterior itself give an R-hat at least this high ")
                 .append("(small: the chains disagree); ")
-                .append("ESS is the number of independent draws the correlated draws are worth (bulk: centre, tail: 5% and 95% quantiles).</p>\n");
+                .append("ESS is the number of independent draws the correlated draws are worth (bulk: centre, tail: 5% and 95% quantiles), ")
+                .append("counted over all chains together, as in summary.csv; the check asks for 100 per chain")
+                .append(Double.isFinite(chainCount) && chainCount > 0 ? String.format(Locale.ROOT, ", so %,.0f for these %.0f chains",
+                        ParameterSummary.MIN_ESS_PER_CHAIN * chainCount, chainCount) : "")
+                .append(".</p>\n");
         Draws draws = fit.draws();
         if (draws == null) {
             out.append("<p>No draws.csv in the folder, so trace and rank plots are not drawn.</p>\n</section>\n");
@@ -127,7 +132,7 @@ final class ConvergenceSection {
             n++;
             int p = draws.indexOf(name);
             double[][] chains = draws.chainsOf(p);
-            out.append("<div class=\"two\"><figure>").append(trace(chains, "trace-" + n, name))
+            out.append("<div class=\"two\"><figure>").append(trace(chains, "trace-" + n, name, traceAxisLabel(fit)))
                     .append("<figcaption>Trace of <code>").append(Html.escape(name)).append("</code></figcaption></figure>")
                     .append("<figure>").append(rank(chains, "rank-" + n, name))
                     .append("<figcaption>Rank histogram of <code>").append(Html.escape(name)).append("</code></figcaption></figure></div>\n");
@@ -181,7 +186,8 @@ final class ConvergenceSection {
     }
 
     private static void worstTable(CsvTable summary, Integer[] order, StringBuilder out) {
-        Html.tableHead(out, "num", List.of("parameter", "mean", "R-hat", "its chance", "bulk ESS", "tail ESS", "flag"));
+        Html.tableHead(out, "num", List.of("parameter", "mean", "R-hat", "its chance", "bulk ESS (all chains)",
+                "tail ESS (all chains)", "flag"));
         for (int i = 0; i < Math.min(WORST_ROWS, order.length); i++) {
             int r = order[i];
             String flag = summary.has("flag") ? summary.text(r, "flag") : "";
@@ -209,7 +215,18 @@ final class ConvergenceSection {
         return String.join(", ", checks);
     }
 
-    private static String trace(double[][] chains, String id, String name) {
+    /**
+     * The trace plot's horizontal axis: draws.csv numbers the kept draws 1, 2, ..., so with
+     * {@code --thin} above 1 a point is a kept draw, not an iteration.
+     */
+    static String traceAxisLabel(FitFolder fit) {
+        double thin = fit.number("sampler.thin");
+        return Double.isFinite(thin) && thin > 1
+                ? String.format(Locale.ROOT, "Kept draw after warm-up (one every %.0f iterations)", thin)
+                : "Iteration after warm-up";
+    }
+
+    private static String trace(double[][] chains, String id, String name, String axisLabel) {
         XYSeriesCollection data = new XYSeriesCollection();
         int iterations = chains[0].length;
         int stride = Math.max(1, (iterations + TRACE_POINTS - 1) / TRACE_POINTS);
@@ -226,7 +243,7 @@ final class ConvergenceSection {
             renderer.setSeriesPaint(c, Charts.SERIES[c % Charts.SERIES.length]);
             renderer.setSeriesStroke(c, new BasicStroke(0.8f));
         }
-        NumberAxis x = new NumberAxis("Iteration after warm-up");
+        NumberAxis x = new NumberAxis(axisLabel);
         NumberAxis y = new NumberAxis("Value of the draw");
         y.setAutoRangeIncludesZero(false);
         return chart(new XYPlot(data, x, y, renderer), id, "Trace plot of " + name);

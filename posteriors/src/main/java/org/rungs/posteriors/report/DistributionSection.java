@@ -41,8 +41,17 @@ final class DistributionSection {
         out.append("<p class=\"legend\"><span class=\"sw\" style=\"background:#A6CEE3\"></span> reported share ")
                 .append("<span class=\"sw line\" style=\"border-color:#000\"></span> 90% predictive interval of the reported share ")
                 .append("<span class=\"sw dot\" style=\"background:#D55E00\"></span> intended share with 90% interval</p>\n");
+        int ratings = table.size();
+        int outside = 0;
+        for (int r = 0; r < ratings; r++) {
+            outside += outsideInterval(table, r) ? 1 : 0;
+        }
+        // a 90% interval leaves out about one observed count in ten by chance alone (at most, its ends being counts)
         out.append("<p class=\"note\">Shares in percent of the group's respondents. Bars that stand above the intended series at round ")
-                .append("numbers show heaping; a rating marked &#9888; lies outside its predictive interval, which the model does not explain.</p>\n");
+                .append("numbers show heaping; a rating marked &#9888; lies outside its 90% predictive interval. ")
+                .append(String.format(Locale.ROOT, "%,d of the %,d ratings of all groups do so; about one in ten (%,.0f here) ",
+                        outside, ratings, 0.1 * ratings))
+                .append("would by chance alone, so only more marks than that, or a rating far outside, point to what the model misses.</p>\n");
         Map<String, List<Integer>> byGroup = GroupRows.of(table);
         out.append("<div class=\"grid scroll\">\n");
         int g = 0;
@@ -78,8 +87,7 @@ final class DistributionSection {
                 intended.add(rating + 0.18, intendedMean, 100 * table.number(r, "intended_share_q5"),
                         100 * table.number(r, "intended_share_q95"));
             }
-            String flag = table.has("outside_90") ? table.text(r, "outside_90").trim().toLowerCase(Locale.ROOT) : "";
-            if (flag.equals("true") || flag.equals("1") || flag.equals("yes")) {
+            if (outsideInterval(table, r)) {
                 outside.append(outside.length() == 0 ? "" : ", ").append(Html.escape(table.text(r, "rating")));
             }
         }
@@ -113,6 +121,12 @@ final class DistributionSection {
         }
         out.append("</figcaption>").append(Charts.svg(chart, id, WIDTH, HEIGHT, "Rating distribution of " + group))
                 .append("</figure>\n");
+    }
+
+    /** distributions.csv's outside_90: the observed count lies outside its replicated 90% interval. */
+    private static boolean outsideInterval(CsvTable table, int row) {
+        String flag = table.has("outside_90") ? table.text(row, "outside_90").trim().toLowerCase(Locale.ROOT) : "";
+        return flag.equals("true") || flag.equals("1") || flag.equals("yes");
     }
 
     private static XYErrorRenderer errors(Color colour, boolean line) {

@@ -107,8 +107,10 @@ final class GroupSection {
         for (int r = 0; r < reported.length; r++) {
             reported[r] = groups.number(r, "reported_mean");
         }
-        out.append("<h3>Ranks (1 = highest mean)</h3>\n<p class=\"note\">Rank change: rank by reported mean minus rank by ")
-                .append("intended mean; a positive change means the group moves up once scale use is accounted for.</p>\n");
+        // groups.csv's rank_change is the posterior mean intended rank minus the rank by reported mean (DerivedTables)
+        out.append("<h3>Ranks (1 = highest mean)</h3>\n<p class=\"note\">Rank change: intended rank (posterior mean) minus ")
+                .append("rank by reported mean; a negative change means the group moves up once scale use is accounted for, ")
+                .append("a positive one that it moves down.</p>\n");
         out.append("<div class=\"scroll short\">");
         Html.tableHead(out, "num", List.of("group", "reported mean", "reported rank", "intended mean [90%]",
                 "intended rank [90%]", "harmonised rank [90%]", "rank change", "P(top 3), intended"));
@@ -144,6 +146,10 @@ final class GroupSection {
             return "&ndash;";
         }
         String text = Html.number(value, value == Math.rint(value) ? 0 : 1);
+        // a change that rounds to zero shows no sign: neither "+0.0" nor "-0.0"
+        if (Double.parseDouble(text) == 0) {
+            return text.startsWith("-") ? text.substring(1) : text;
+        }
         return value > 0 ? "+" + text : text;
     }
 

@@ -26,7 +26,7 @@ public final class Report {
             h3{font-size:16px;margin:18px 0 6px}
             table{border-collapse:collapse;margin:6px 0 12px;font-size:13.5px}
             th,td{border-bottom:1px solid #ccc;padding:3px 8px;text-align:left;vertical-align:top}
-            th{background:#f2f2f2}table.facts td:first-child{white-space:nowrap}table.facts thead{display:none}table.num td+td{text-align:right;font-variant-numeric:tabular-nums}
+            th{background:#f2f2f2}table.facts td:first-child{white-space:nowrap}table.facts:not(.headed) thead th{position:absolute;width:1px;height:1px;overflow:hidden;clip:rect(0 0 0 0);padding:0;border:0}table.num td+td{text-align:right;font-variant-numeric:tabular-nums}
             .int{color:#555}.note{color:#333;font-size:13.5px;max-width:900px}
             .alarm{background:#fde0cf;border-left:6px solid #D55E00;padding:10px 14px;font-weight:bold}
             .ok{background:#e0f1ea;border-left:6px solid #009E73;padding:10px 14px}
@@ -97,7 +97,7 @@ public final class Report {
 
     private static void writeFitted(FitFolder fit, StringBuilder out) {
         out.append("<section id=\"fitted\"><h2>1. What was fitted</h2>\n<div class=\"two\"><div><h3>Data</h3>\n");
-        Html.tableHead(out, "facts", List.of("", ""));
+        Html.tableHead(out, "facts", List.of("fact", "value"));
         // a run.json without some of these (hand-made, or cut short) says so rather than show a guess
         Html.row(out, "file", "<code>" + Html.escape(fit.text("input.file", NOT_RECORDED)) + "</code>");
         Html.row(out, "SHA-256", "<code>" + Html.escape(fit.text("input.sha256", NOT_RECORDED)) + "</code>");
@@ -116,7 +116,7 @@ public final class Report {
         }
         Html.tableEnd(out);
         out.append("</div><div><h3>Sampling</h3>\n");
-        Html.tableHead(out, "facts", List.of("", ""));
+        Html.tableHead(out, "facts", List.of("fact", "value"));
         Html.row(out, "chains", Html.escape(fit.text("sampler.chains", "")));
         Html.row(out, "warm-up per chain", Html.escape(fit.text("sampler.warmup", "")));
         Html.row(out, "draws per chain", Html.escape(fit.text("sampler.kept_draws", fit.text("sampler.draws", ""))));
@@ -135,7 +135,7 @@ public final class Report {
         if (!fit.map("cross_validation").isEmpty()) {
             // rungs fit --cross-validate (CrossValidation in sampler); compare fits with rungs compare
             out.append("<h3>Leave-one-out predictive accuracy</h3>\n");
-            Html.tableHead(out, "facts", List.of("", ""));
+            Html.tableHead(out, "facts", List.of("fact", "value"));
             Html.row(out, "elpd_loo (se)", Html.escape(String.format(Locale.ROOT, "%,.1f (%.1f)",
                     fit.number("cross_validation.elpd_loo"), fit.number("cross_validation.elpd_loo_se"))));
             Html.row(out, "p_loo", Html.escape(String.format(Locale.ROOT, "%.1f", fit.number("cross_validation.p_loo"))));
@@ -149,7 +149,7 @@ public final class Report {
             out.append("<li>").append(Html.escape(sentence)).append("</li>\n");
         }
         out.append("</ul>\n<h3>Priors</h3>\n");
-        Html.tableHead(out, "facts", List.of("parameter", "prior"));
+        Html.tableHead(out, "facts headed", List.of("parameter", "prior"));
         for (Map.Entry<String, Object> prior : fit.map("model.priors").entrySet()) {
             Html.row(out, "<code>" + Html.escape(prior.getKey()) + "</code>", Html.escape(String.valueOf(prior.getValue())));
         }

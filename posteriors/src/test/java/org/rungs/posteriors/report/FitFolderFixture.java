@@ -168,7 +168,7 @@ final class FitFolderFixture {
                     .append(Math.min(g, rankHarmonised[i] + 2));
             double top3 = rankIntended[i] <= 3 ? 0.7 : 0.05;
             sb.append(',').append(num(top3)).append(',').append(num(top3)).append(',')
-                    .append(rankReported[i] - rankIntended[i]).append('\n');
+                    .append(rankIntended[i] - rankReported[i]).append('\n');
         }
         Files.writeString(dir.resolve("groups.csv"), sb, StandardCharsets.UTF_8);
     }

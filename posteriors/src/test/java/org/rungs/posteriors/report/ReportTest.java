@@ -286,4 +286,100 @@ class ReportTest {
         assertFalse(chartIds(html).contains("dist-1"));
         assertTrue(chartIds(html).contains("trace-1"));
     }
+    /**
+     * groups.csv's rank_change is the posterior mean intended rank minus the rank by reported mean
+     * (DerivedTables, sampler): a group reported third and intended first has -2 and moves up.
+     */
+    @Test
+    void theRankChangeIsExplainedWithTheSignGroupsCsvGivesIt() throws Exception {
+        Path dir = FitFolderFixture.write(tmp.resolve("fit"), FitFolderFixture.demoRegions(), true, 12);
+        CsvTable groups = CsvTable.read(dir.resolve("groups.csv"));
+        int moved = -1;
+        for (int r = 0; r < groups.size(); r++) {
+            if (groups.number(r, "rank_change") < 0) {
+                moved = r;
+            }
+        }
+        assertTrue(moved >= 0, "the fixture has a group that moves up");
+        String html = Files.readString(Report.write(dir));
+        assertTrue(html.contains("Rank change: intended rank (posterior mean) minus rank by reported mean; a negative change "
+                + "means the group moves up"), "the sentence states groups.csv's sign");
+        String row = html.substring(html.indexOf("<tr><td>" + groups.text(moved, "group") + "</td>"));
+        row = row.substring(0, row.indexOf("</tr>"));
+        assertTrue(row.contains("<td>" + Html.number(groups.number(moved, "rank_change"), 0) + "</td>"), row);
+    }
+
+    /** Our rule: a rank change that rounds to zero shows no sign ("0.0", never "+0.0" or "-0.0"). */
+    @Test
+    void aRankChangeThatRoundsToZeroHasNoSign() throws Exception {
+        Path dir = FitFolderFixture.write(tmp.resolve("fit"), FitFolderFixture.demoRegions(), true, 12);
+        Path file = dir.resolve("groups.csv");
+        List<String> lines = new ArrayList<>(Files.readAllLines(file));
+        for (int i = 1; i < lines.size(); i++) {
+            String line = lines.get(i);
+            lines.set(i, line.substring(0, line.lastIndexOf(',') + 1) + (i % 2 == 0 ? "0.04" : "-0.04"));
+        }
+        Files.write(file, lines);
+        String html = Files.readString(Report.write(dir));
+        assertFalse(html.contains("<td>+0.0</td>"), "no plus sign on zero");
+        assertFalse(html.contains("<td>-0.0</td>"), "no minus sign on zero");
+        assertTrue(html.contains("<td>0.0</td>"));
+    }
+
+    /** draws.csv numbers the kept draws: with --thin 2 (the fixture's run.json) the trace's axis counts kept draws. */
+    @Test
+    void theTracePlotsAxisCountsKeptDrawsWhenTheChainsWereThinned() throws Exception {
+        Path dir = FitFolderFixture.write(tmp.resolve("fit"), FitFolderFixture.demoRegions(), true, 12);
+        String html = Files.readString(Report.write(dir));
+        String trace = SVG.matcher(html).results().map(m -> m.group()).filter(s -> s.contains("id='trace-1'")).findFirst()
+                .orElseThrow();
+        assertTrue(trace.contains("Kept draw after warm-up (one every 2 iterations)"), "thin 2 from run.json");
+        assertFalse(trace.contains("Iteration after warm-up"));
+        Path plain = copyOfOneGroup(tmp.resolve("plain"));
+        assertTrue(Files.readString(Report.write(plain)).contains("Iteration after warm-up"), "no thin: every iteration is kept");
+    }
+
+    /** summary.csv's ESS is over all chains; the flag asks 100 per chain (ParameterSummary), 400 for 4 chains. */
+    @Test
+    void theEssColumnsSayTheyCountAllChainsAgainstTheLimitForThisManyChains() throws Exception {
+        Path dir = FitFolderFixture.write(tmp.resolve("fit"), FitFolderFixture.demoRegions(), true, 12);
+        String html = Files.readString(Report.write(dir));
+        assertTrue(html.contains("<th>bulk ESS (all chains)</th><th>tail ESS (all chains)</th>"), "headers");
+        assertTrue(html.contains("the check asks for 100 per chain, so 400 for these 4 chains"), "the limit for 4 chains");
+    }
+
+    /** MODEL.md 4b: exp(a) is the odds multiplier of reporting j rather than the other numbers, not a share's factor. */
+    @Test
+    void theAttractionNoteReadsExpAAsAnOddsMultiplier() throws Exception {
+        Path dir = FitFolderFixture.write(tmp.resolve("fit"), FitFolderFixture.demoRegions(), true, 12);
+        String html = Files.readString(Report.write(dir));
+        assertTrue(html.contains("exp(a) is the odds multiplier of answering a number rather than another"));
+        assertFalse(html.contains("multiplies the chance of answering"), "the probabilities are renormalised (MODEL.md 4b)");
+    }
+
+    /** One count in ten lies outside a 90% interval by chance: the page says how many did, against that. */
+    @Test
+    void theRatingsOutsideTheirPredictiveIntervalAreCountedAgainstChance() throws Exception {
+        Path dir = FitFolderFixture.write(tmp.resolve("fit"), FitFolderFixture.demoRegions(), true, 12);
+        CsvTable table = CsvTable.read(dir.resolve("distributions.csv"));
+        int outside = 0;
+        for (int r = 0; r < table.size(); r++) {
+            outside += table.text(r, "outside_90").equals("true") ? 1 : 0;
+        }
+        assertTrue(outside > 0, "the fixture marks some");
+        String html = Files.readString(Report.write(dir));
+        assertTrue(html.contains(outside + " of the " + table.size() + " ratings of all groups do so; about one in ten ("
+                + Math.round(0.1 * table.size()) + " here) would by chance alone"), "count from distributions.csv");
+        assertFalse(html.contains("which the model does not explain"));
+    }
+
+    /** Every table has named header cells, not hidden from assistive technology by display:none. */
+    @Test
+    void everyHeaderCellHasANameAndNoneIsHiddenFromScreenReaders() throws Exception {
+        Path dir = FitFolderFixture.write(tmp.resolve("fit"), FitFolderFixture.demoRegions(), true, 12);
+        String html = Files.readString(Report.write(dir));
+        assertFalse(html.contains("<th></th>"), "an empty header cell");
+        assertFalse(Pattern.compile("thead\\s*\\{[^}]*display:\\s*none").matcher(html).find(), "display:none hides headers from screen readers");
+        assertTrue(html.contains("<th>parameter</th><th>prior</th>"));
+    }
 }
