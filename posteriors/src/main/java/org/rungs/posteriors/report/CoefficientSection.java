@@ -36,13 +36,16 @@ final class CoefficientSection {
         Html.tableHead(out, "num", List.of("covariate", "kind", "naive least squares", "corrected effect [90%]",
                 "plain ordered probit [90%]", "bias of naive"));
         for (int r = 0; r < table.size(); r++) {
+            int decimals = decimals(table.number(r, "naive_ols_per_unit"), table.number(r, "ame_per_unit_mean"),
+                    table.number(r, "ame_per_unit_q5"), table.number(r, "ame_per_unit_q95"),
+                    table.number(r, "plain_probit_per_unit_mean"));
             Html.row(out, Html.escape(table.text(r, "covariate")), Html.escape(table.has("kind") ? table.text(r, "kind") : ""),
-                    Html.number(table.number(r, "naive_ols_per_unit"), 4),
+                    Html.number(table.number(r, "naive_ols_per_unit"), decimals),
                     Html.interval(table.number(r, "ame_per_unit_mean"), table.number(r, "ame_per_unit_q5"),
-                            table.number(r, "ame_per_unit_q95"), 4),
+                            table.number(r, "ame_per_unit_q95"), decimals),
                     Html.interval(table.number(r, "plain_probit_per_unit_mean"), table.number(r, "plain_probit_per_unit_q5"),
-                            table.number(r, "plain_probit_per_unit_q95"), 4),
-                    Html.number(table.number(r, "naive_bias"), 4));
+                            table.number(r, "plain_probit_per_unit_q95"), decimals),
+                    Html.number(table.number(r, "naive_bias"), decimals));
         }
         Html.tableEnd(out);
         // One chart per covariate: units differ, so a shared axis would flatten the small effects.
@@ -67,5 +70,23 @@ final class CoefficientSection {
                     .append("</figure>\n");
         }
         out.append("</div>\n</section>\n");
+    }
+
+    /**
+     * Decimals for one covariate's row: three significant digits of its largest effect, at least
+     * two decimals (our rule). Effects per unit range from points per year of age (0.004) to
+     * points per indicator (0.3), so a fixed number of decimals leaves the small ones one digit.
+     */
+    static int decimals(double... effects) {
+        double largest = 0;
+        for (double effect : effects) {
+            if (Double.isFinite(effect)) {
+                largest = Math.max(largest, Math.abs(effect));
+            }
+        }
+        if (largest == 0) {
+            return 2;
+        }
+        return (int) Math.max(2, Math.min(12, 2 - Math.floor(Math.log10(largest))));
     }
 }

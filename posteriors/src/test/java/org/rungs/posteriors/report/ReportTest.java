@@ -382,4 +382,23 @@ class ReportTest {
         assertFalse(Pattern.compile("thead\\s*\\{[^}]*display:\\s*none").matcher(html).find(), "display:none hides headers from screen readers");
         assertTrue(html.contains("<th>parameter</th><th>prior</th>"));
     }
+    /**
+     * Our rule: each covariate's row keeps three significant digits of its largest effect. The
+     * rows are the attraction demo's coefficients.csv (seed 1): per year of age the effects are
+     * near 0.004, which four fixed decimals cut to two digits and the bias to one.
+     */
+    @Test
+    void smallEffectsPerUnitKeepThreeSignificantDigits() throws Exception {
+        Path dir = FitFolderFixture.write(tmp.resolve("fit"), FitFolderFixture.demoRegions(), true, 12);
+        Files.writeString(dir.resolve("coefficients.csv"), """
+                covariate,kind,ame_mean,ame_q5,ame_q95,ame_per_unit_mean,ame_per_unit_q5,ame_per_unit_q95,naive_ols_per_unit,plain_probit_per_unit_mean,plain_probit_per_unit_q5,plain_probit_per_unit_q95,naive_bias
+                income,numeric,0.345210,0.305448,0.386087,0.205138,0.181510,0.229429,0.192956,0.200274,0.186022,0.213444,-0.0121826
+                age,numeric,-0.0644459,-0.0890901,-0.0401277,-0.00429603,-0.00593884,-0.00267495,-0.00415431,-0.00409610,-0.00561542,-0.00261776,0.000141726
+                """);
+        String html = Files.readString(Report.write(dir));
+        assertTrue(html.contains("<tr><td>income</td><td>numeric</td><td>0.193</td><td>0.205 <span class=\"int\">[0.182, 0.229]</span>"
+                + "</td><td>0.200 <span class=\"int\">[0.186, 0.213]</span></td><td>-0.012</td></tr>"), "income");
+        assertTrue(html.contains("<tr><td>age</td><td>numeric</td><td>-0.00415</td><td>-0.00430 <span class=\"int\">[-0.00594, "
+                + "-0.00267]</span></td><td>-0.00410 <span class=\"int\">[-0.00562, -0.00262]</span></td><td>0.00014</td></tr>"), "age");
+    }
 }
