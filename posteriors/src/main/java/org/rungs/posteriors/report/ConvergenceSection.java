@@ -119,6 +119,7 @@ final class ConvergenceSection {
                 .append(Double.isFinite(chainCount) && chainCount > 0 ? String.format(Locale.ROOT, ", so %,.0f for these %.0f chains",
                         ParameterSummary.MIN_ESS_PER_CHAIN * chainCount, chainCount) : "")
                 .append(".</p>\n");
+        names(summary, out);
         Draws draws = fit.draws();
         if (draws == null) {
             out.append("<p>No draws.csv in the folder, so trace and rank plots are not drawn.</p>\n</section>\n");
@@ -138,6 +139,28 @@ final class ConvergenceSection {
                     .append("<figcaption>Rank histogram of <code>").append(Html.escape(name)).append("</code></figcaption></figure></div>\n");
         }
         out.append("</section>\n");
+    }
+
+    /** What the names in the two tables mean, one line per family of names, in the order they first appear. */
+    private static void names(CsvTable summary, StringBuilder out) {
+        Set<ParameterNames.Family> families = new LinkedHashSet<>();
+        for (Integer[] order : List.of(byRhat(summary), byEss(summary))) {
+            for (int i = 0; i < Math.min(WORST_ROWS, order.length); i++) {
+                ParameterNames.Family family = ParameterNames.of(summary.text(order[i], "name"));
+                if (family != null) {
+                    families.add(family);
+                }
+            }
+        }
+        if (families.isEmpty()) {
+            return;
+        }
+        out.append("<p class=\"note\">Names, as in summary.csv:</p>\n<ul class=\"note\">\n");
+        for (ParameterNames.Family family : families) {
+            out.append("<li><code>").append(Html.escape(family.pattern())).append("</code>: ").append(Html.escape(family.meaning()))
+                    .append("</li>\n");
+        }
+        out.append("</ul>\n");
     }
 
     /** Parameters that get trace and rank plots, in the order drawn (ids trace-1, rank-1, ...). */
