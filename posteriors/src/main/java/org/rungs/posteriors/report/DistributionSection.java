@@ -46,12 +46,14 @@ final class DistributionSection {
         for (int r = 0; r < ratings; r++) {
             outside += outsideInterval(table, r) ? 1 : 0;
         }
-        // a 90% interval leaves out about one observed count in ten by chance alone (at most, its ends being counts)
+        // a 90% interval leaves out at most about one count in ten by chance: fewer, as its ends are counts and
+        // the fit has seen the counts it predicts (a posterior predictive check is conservative)
         out.append("<p class=\"note\">Shares in percent of the group's respondents. Bars that stand above the intended series at round ")
                 .append("numbers show heaping; a rating marked &#9888; lies outside its 90% predictive interval. ")
-                .append(String.format(Locale.ROOT, "%,d of the %,d ratings of all groups do so; about one in ten (%,.0f here) ",
+                .append(String.format(Locale.ROOT, "%,d of the %,d ratings of all groups do so. By chance alone at most about one "
+                        + "in ten (%,.0f here) would, and fewer, as the fit has seen these counts; so only more marks than that, ",
                         outside, ratings, 0.1 * ratings))
-                .append("would by chance alone, so only more marks than that, or a rating far outside, point to what the model misses.</p>\n");
+                .append("or a rating far outside, point to what the model misses.</p>\n");
         Map<String, List<Integer>> byGroup = GroupRows.of(table);
         out.append("<div class=\"grid scroll\">\n");
         int g = 0;
