@@ -60,6 +60,25 @@ final class ConvergenceSection {
         return new Verdict(family.readable() && !interrupted, family, interrupted);
     }
 
+    /** The prefix of run.json's warning that carries the derived quantities' verdict (FitJob writes it when one is flagged). */
+    static final String DERIVED_WARNING = "derived quantities: ";
+
+    /** The derived quantities' verdict line from run.json's warnings, or null when none was flagged. */
+    static String derivedVerdict(FitFolder fit) {
+        for (Object warning : fit.list("warnings")) {
+            if (warning instanceof String w && w.startsWith(DERIVED_WARNING)) {
+                return w.substring(DERIVED_WARNING.length());
+            }
+        }
+        return null;
+    }
+
+    /** The verdict's colour on the page: an alarm when the parameters or the derived quantities have not converged. */
+    static String verdictClass(FitFolder fit, Verdict verdict) {
+        String derived = derivedVerdict(fit);
+        return verdict.converged() && (derived == null || !derived.startsWith("Not converged")) ? "ok" : "alarm";
+    }
+
     /** The plain-words verdict shown at the top of the page and in this section. */
     static String verdictText(FitFolder fit, Verdict verdict) {
         StringBuilder sb = new StringBuilder();
@@ -92,6 +111,12 @@ final class ConvergenceSection {
             case CONVERGED -> sb.append("All ").append(parameters)
                     .append(" parameters pass the checks (R-hat at most 1.01, bulk and tail effective sample size at least 100 per chain). ");
         }
+        String derived = derivedVerdict(fit);
+        if (derived != null) {
+            // the corrected means, shares and ranks are derived quantities: the page shows them, so their verdict too
+            sb.append("The corrected quantities computed from the draws (derived_summary.csv) have their own check: ")
+                    .append(derived).append(' ');
+        }
         if (verdict.interrupted()) {
             sb.append("The run was interrupted: only ").append(fit.text("sampler.kept_draws", "some"))
                     .append(" of ").append(fit.text("sampler.draws", "the planned")).append(" draws per chain were kept.");
@@ -102,7 +127,7 @@ final class ConvergenceSection {
     static void write(FitFolder fit, StringBuilder out) {
         Verdict verdict = verdict(fit);
         out.append("<section id=\"convergence\"><h2>2. Convergence</h2>\n");
-        out.append("<p class=\"").append(verdict.converged() ? "ok" : "alarm").append("\">")
+        out.append("<p class=\"").append(verdictClass(fit, verdict)).append("\">")
                 .append(Html.escape(verdictText(fit, verdict))).append("</p>\n");
         CsvTable summary = fit.summary();
         out.append("<div class=\"two\"><div><h3>Highest R-hat</h3>\n");

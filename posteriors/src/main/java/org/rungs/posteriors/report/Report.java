@@ -71,7 +71,7 @@ public final class Report {
                 .append(Html.escape(fit.text("versions.rungs", "")))
                 .append(".</p>\n");
         ConvergenceSection.Verdict verdict = ConvergenceSection.verdict(fit);
-        out.append("<p id=\"verdict\" class=\"").append(verdict.converged() ? "ok" : "alarm").append("\">")
+        out.append("<p id=\"verdict\" class=\"").append(ConvergenceSection.verdictClass(fit, verdict)).append("\">")
                 .append(Html.escape(ConvergenceSection.verdictText(fit, verdict))).append("</p>\n");
         out.append("""
                 <nav><ol><li><a href="#fitted">What was fitted</a></li><li><a href="#convergence">Convergence</a></li>

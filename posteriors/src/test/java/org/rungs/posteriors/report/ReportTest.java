@@ -204,6 +204,33 @@ class ReportTest {
         assertFalse(Files.readString(Report.write(dir)).contains("kept draws per chain no quantity"), "enough draws");
     }
 
+    /**
+     * The corrected means, shares and ranks on the page are derived quantities: their own verdict
+     * (run.json's warning, as FitJob writes it) joins the top verdict, which turns to an alarm
+     * when they have not converged and stays calm when their flags are within chance (our rule;
+     * an audit found a green verdict above figures whose chains had not converged).
+     */
+    @Test
+    void theDerivedQuantitiesVerdictJoinsTheTopVerdict() throws Exception {
+        Path dir = copyOfOneGroup(tmp.resolve("fit"));
+        Path run = dir.resolve("run.json");
+        String original = Files.readString(run);
+        String html = Files.readString(Report.write(dir));
+        assertTrue(html.contains("<p id=\"verdict\" class=\"ok\">"), "the fixture converged");
+        assertFalse(html.contains("have their own check"), "no derived warning, no sentence");
+        Files.writeString(run, original.replace("\"warnings\": [", "\"warnings\": [\"derived quantities: Not converged: 2 of 9"
+                + " derived quantities flagged: intended_share.0, intended_mean.\", "));
+        html = Files.readString(Report.write(dir));
+        assertTrue(html.contains("<p id=\"verdict\" class=\"alarm\">"), "not converged: an alarm");
+        assertTrue(html.contains("have their own check: Not converged: 2 of 9 derived quantities flagged: intended_share.0,"
+                + " intended_mean."), "the derived verdict in the top verdict");
+        Files.writeString(run, original.replace("\"warnings\": [", "\"warnings\": [\"derived quantities: Converged within"
+                + " chance: 1 of 9 derived quantities has an R-hat a little above 1.01.\", "));
+        html = Files.readString(Report.write(dir));
+        assertTrue(html.contains("<p id=\"verdict\" class=\"ok\">"), "within chance: readable");
+        assertTrue(html.contains("have their own check: Converged within chance"), html);
+    }
+
     @Test
     void anInterruptedRunSaysHowManyDrawsWereKept() throws Exception {
         Path dir = copyOfOneGroup(tmp.resolve("fit"));
