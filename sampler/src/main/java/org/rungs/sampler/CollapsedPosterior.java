@@ -394,42 +394,13 @@ final class CollapsedPosterior {
      */
     double[] negativeHessian(double[] x) {
         int d = dimension;
-        double[] base = new double[d];
-        if (gradient(x, base) == Double.NEGATIVE_INFINITY) {
-            return null;
-        }
         double[] h = new double[d * d];
         boolean[] known = new boolean[d * d];
-        double[] step = new double[d];
-        for (int j = 0; j < d; j++) {
-            step[j] = 1e-6 * Math.max(1, Math.abs(x[j]));
-        }
-        double[] moved = new double[d];
-        for (int j = 0; j < d; j++) {
-            if (owner[j] < 0 && !column(x, new int[] {j}, step, base, moved, h, known)) {
-                return null;
-            }
-        }
-        for (int s = 0; s < slots; s++) {
-            int[] set = new int[groups];
-            for (int g = 0; g < groups; g++) {
-                set[g] = member[g * slots + s];
-            }
-            if (!perturbed(x, set, step, moved)) {
-                for (int c : set) {
-                    if (!column(x, new int[] {c}, step, base, moved, h, known)) {
-                        return null;
-                    }
-                }
-                continue;
-            }
-            for (int i = 0; i < d; i++) {
-                if (owner[i] >= 0) {
-                    int c = member[owner[i] * slots + s];
-                    h[i * d + c] = -(moved[i] - base[i]) / step[c];
-                    known[i * d + c] = true;
-                }
-            }
+        if (!measureHessian(x, (i, j, v) -> {
+            h[i * d + j] = v;
+            known[i * d + j] = true;
+        })) {
+            return null;
         }
         for (int i = 0; i < d; i++) {
             for (int j = 0; j < i; j++) {
@@ -443,18 +414,88 @@ final class CollapsedPosterior {
         return h;
     }
 
-    /** Fills column {@code set[0]} of h from one perturbed gradient; false if it cannot be evaluated. */
-    private boolean column(double[] x, int[] set, double[] step, double[] base, double[] moved, double[] h, boolean[] known) {
+    /**
+     * The same entries as {@link #negativeHessian(double[])}, those that can be non-zero, into the
+     * metric's blocks ({@link ArrowMetric#measured}); false if the gradient cannot be evaluated near x.
+     */
+    boolean negativeHessian(double[] x, ArrowMetric into) {
+        into.clearMeasured();
+        return measureHessian(x, into::measured);
+    }
+
+    /** Receives entry (i, j) of minus the Hessian, measured from the gradient's change when coordinate j moved. */
+    interface HessianEntries {
+        void measured(int i, int j, double value);
+    }
+
+    /** Measures the columns of minus the Hessian at x as {@link #negativeHessian(double[])} describes. */
+    private boolean measureHessian(double[] x, HessianEntries out) {
+        int d = dimension;
+        double[] base = new double[d];
+        if (gradient(x, base) == Double.NEGATIVE_INFINITY) {
+            return false;
+        }
+        double[] step = new double[d];
+        for (int j = 0; j < d; j++) {
+            step[j] = 1e-6 * Math.max(1, Math.abs(x[j]));
+        }
+        double[] moved = new double[d];
+        for (int j = 0; j < d; j++) {
+            if (owner[j] < 0 && !column(x, new int[] {j}, step, base, moved, out)) {
+                return false;
+            }
+        }
+        for (int s = 0; s < slots; s++) {
+            int[] set = new int[groups];
+            for (int g = 0; g < groups; g++) {
+                set[g] = member[g * slots + s];
+            }
+            if (!perturbed(x, set, step, moved)) {
+                for (int c : set) {
+                    if (!column(x, new int[] {c}, step, base, moved, out)) {
+                        return false;
+                    }
+                }
+                continue;
+            }
+            for (int i = 0; i < d; i++) {
+                if (owner[i] >= 0) {
+                    int c = member[owner[i] * slots + s];
+                    out.measured(i, c, -(moved[i] - base[i]) / step[c]);
+                }
+            }
+        }
+        return true;
+    }
+
+    /** Measures column {@code set[0]} from one perturbed gradient; false if it cannot be evaluated. */
+    private boolean column(double[] x, int[] set, double[] step, double[] base, double[] moved, HessianEntries out) {
         if (!perturbed(x, set, step, moved)) {
             return false;
         }
-        int d = dimension;
         int c = set[0];
-        for (int i = 0; i < d; i++) {
-            h[i * d + c] = -(moved[i] - base[i]) / step[c];
-            known[i * d + c] = true;
+        for (int i = 0; i < dimension; i++) {
+            out.measured(i, c, -(moved[i] - base[i]) / step[c]);
         }
         return true;
+    }
+
+    /** For {@link ArrowMetric}: per coordinate, its group (-1 if survey-wide), and its position among the group's own. */
+    int[] owners() {
+        return owner.clone();
+    }
+
+    int[] slotsOf() {
+        return slot.clone();
+    }
+
+    /** Own coordinates per group (every group has as many). */
+    int ownPerGroup() {
+        return slots;
+    }
+
+    int groupCount() {
+        return groups;
     }
 
     /** The gradient with every coordinate of {@code set} moved by its step, or by minus it where that leaves the support. */
