@@ -94,9 +94,9 @@ public record ConvergenceVerdict(Kind kind, int quantities, List<String> flagged
                     + " converged (R-hat <= 1.01, bulk and tail ESS >= 100 per chain).";
             case WITHIN_CHANCE -> String.format(Locale.ROOT, "Converged within chance: %d of %d %s %s R-hat above 1.01"
                     + " (largest %s: %.4f) and every ESS is sufficient; among %d %s, chains drawing from the posterior"
-                    + " itself give R-hat this far from 1 with probability %.2f (README, reading the verdict).",
+                    + " itself give R-hat this far from 1 with probability %s (README, reading the verdict).",
                     flagged.size(), quantities, noun, flagged.size() == 1 ? "has" : "have", largest, largestRhat,
-                    quantities, noun, familyChance);
+                    quantities, noun, ProbabilityText.of(familyChance, 2));
             case NOT_CONVERGED -> {
                 StringBuilder line = new StringBuilder("Not converged: ").append(flagged.size()).append(" of ")
                         .append(quantities).append(' ').append(noun).append(" flagged: ")

@@ -43,6 +43,15 @@ class ConvergenceVerdictTest {
                 + " from 1 with probability 0.98 (README, reading the verdict).", v.line("parameters"));
     }
 
+    /** 1 - (1 - 0.1)^201 rounds to 1 at two decimals: the console does not call it certain (ProbabilityText). */
+    @Test
+    void aFamilyChanceThatRoundsToOneIsNotPrintedAsCertain() {
+        ConvergenceVerdict v = ConvergenceVerdict.of(family(summary("t.7", 1.0103, 800, 0.1)));
+        assertEquals(ConvergenceVerdict.Kind.WITHIN_CHANCE, v.kind());
+        assertTrue(v.line("parameters").endsWith(" from 1 with probability > 0.99 (README, reading the verdict)."),
+                v.line("parameters"));
+    }
+
     /** 1 - (1 - 1e-5)^201 = 0.002 < 0.05: the chains disagree. */
     @Test
     void anUnlikelyRhatIsNotConverged() {

@@ -21,6 +21,7 @@ import org.jfree.data.xy.XYSeriesCollection;
 import org.rungs.posteriors.ConvergenceVerdict;
 import org.rungs.posteriors.Draws;
 import org.rungs.posteriors.ParameterSummary;
+import org.rungs.posteriors.ProbabilityText;
 
 /**
  * Section 2: the verdict (R-hat above 1.01 or bulk/tail ESS below 100 per chain flags a
@@ -104,9 +105,9 @@ final class ConvergenceSection {
                 sb.append(String.format(Locale.ROOT, "This fit has converged within chance: %d of %d parameters %s an "
                         + "R-hat a little above 1.01 (at most %.4f) and every effective sample size is sufficient; chains "
                         + "drawing from the posterior itself give an R-hat this far from 1 among %d parameters with "
-                        + "probability %.2f, so the estimates below can be read. Longer chains would clear the %s. ",
+                        + "probability %s, so the estimates below can be read. Longer chains would clear the %s. ",
                         family.flagged().size(), parameters, one ? "has" : "have", family.largestRhat(), parameters,
-                        family.familyChance(), one ? "flag" : "flags"));
+                        ProbabilityText.of(family.familyChance(), 2), one ? "flag" : "flags"));
             }
             case CONVERGED -> sb.append("All ").append(parameters)
                     .append(" parameters pass the checks (R-hat at most 1.01, bulk and tail effective sample size at least 100 per chain). ");
@@ -240,7 +241,7 @@ final class ConvergenceSection {
             int r = order[i];
             String flag = summary.has("flag") ? summary.text(r, "flag") : "";
             Html.row(out, "<code>" + Html.escape(summary.text(r, "name")) + "</code>", Html.number(summary.number(r, "mean"), 3),
-                    Html.number(summary.number(r, "rhat"), 3), Html.number(summary.number(r, "rhat_chance"), 3),
+                    Html.number(summary.number(r, "rhat"), 3), Html.probability(summary.number(r, "rhat_chance"), 3),
                     Html.number(summary.number(r, "ess_bulk"), 0),
                     Html.number(summary.number(r, "ess_tail"), 0),
                     flag.equals("ok") ? "ok" : "<strong>" + Html.escape(failedChecks(flag)) + "</strong>");

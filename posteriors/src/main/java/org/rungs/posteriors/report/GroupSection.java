@@ -4,7 +4,9 @@ import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.Comparator;
 import java.util.List;
+import java.util.Locale;
 import java.util.Map;
+import org.rungs.posteriors.ProbabilityText;
 
 /**
  * Sections 4 and 5: reported against intended and harmonised means per group with 90%
@@ -44,7 +46,7 @@ final class GroupSection {
         }
         out.append("<div class=\"scroll\"><figure>").append(plot.svg("means", WIDTH, "Reported, intended and harmonised means per group"))
                 .append("</figure></div>\n");
-        rankTable(groups, order, out);
+        rankTable(fit, groups, order, out);
         out.append("</section>\n");
     }
 
@@ -102,7 +104,7 @@ final class GroupSection {
         out.append("</section>\n");
     }
 
-    private static void rankTable(CsvTable groups, Integer[] ascending, StringBuilder out) {
+    private static void rankTable(FitFolder fit, CsvTable groups, Integer[] ascending, StringBuilder out) {
         double[] reported = new double[groups.size()];
         for (int r = 0; r < reported.length; r++) {
             reported[r] = groups.number(r, "reported_mean");
@@ -111,6 +113,14 @@ final class GroupSection {
         out.append("<h3>Ranks (1 = highest mean)</h3>\n<p class=\"note\">Rank change: intended rank (posterior mean) minus ")
                 .append("rank by reported mean; a negative change means the group moves up once scale use is accounted for, ")
                 .append("a positive one that it moves down.</p>\n");
+        // groups.csv's p_top3_intended is a share of the derived draws (DerivedTables): exactly 1 is no draw outside the top 3
+        double draws = fit.number("derived_draws");
+        out.append("<p class=\"note\">P(top 3): the share of the posterior draws")
+                .append(Double.isFinite(draws) && draws > 0 ? String.format(Locale.ROOT, " (the %,.0f of derived_draws.csv)", draws) : "")
+                .append(" in which the group's intended mean is among the three highest. &gt; 0.99 and &lt; 0.01 are shares ")
+                .append("that would round to 1 and 0; &ldquo;").append(ProbabilityText.ALL_DRAWS).append("&rdquo; and &ldquo;")
+                .append(ProbabilityText.NO_DRAW).append("&rdquo; a share of exactly 1 or 0: the group is in the top 3 in every ")
+                .append("draw, or in none, which makes it very likely or very unlikely, not certain.</p>\n");
         out.append("<div class=\"scroll short\">");
         Html.tableHead(out, "num", List.of("group", "reported mean", "reported rank", "intended mean [90%]",
                 "intended rank [90%]", "harmonised rank [90%]", "rank change", "P(top 3), intended"));
@@ -124,7 +134,7 @@ final class GroupSection {
                             groups.number(r, "rank_intended_q95"), 1),
                     Html.interval(groups.number(r, "rank_harmonised_mean"), groups.number(r, "rank_harmonised_q5"),
                             groups.number(r, "rank_harmonised_q95"), 1),
-                    signed(groups.number(r, "rank_change")), Html.number(groups.number(r, "p_top3_intended"), 2));
+                    signed(groups.number(r, "rank_change")), Html.drawShare(groups.number(r, "p_top3_intended"), 2));
         }
         Html.tableEnd(out);
         out.append("</div>\n");

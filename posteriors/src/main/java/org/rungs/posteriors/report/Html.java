@@ -2,6 +2,7 @@ package org.rungs.posteriors.report;
 
 import java.util.List;
 import java.util.Locale;
+import org.rungs.posteriors.ProbabilityText;
 
 /** Escaping and number formatting for the report page; every text from the data passes through {@link #escape}. */
 final class Html {
@@ -31,6 +32,16 @@ final class Html {
             return "&ndash;";
         }
         return String.format(Locale.ROOT, "%." + decimals + "f", value);
+    }
+
+    /** A computed probability as {@link ProbabilityText#of} ("&gt; 0.99", never 1.00), or an en dash when it is not a number. */
+    static String probability(double p, int decimals) {
+        return Double.isFinite(p) ? escape(ProbabilityText.of(p, decimals)) : "&ndash;";
+    }
+
+    /** A share of posterior draws as {@link ProbabilityText#ofDraws} ("all draws", never 1.00), or an en dash. */
+    static String drawShare(double share, int decimals) {
+        return Double.isFinite(share) ? escape(ProbabilityText.ofDraws(share, decimals)) : "&ndash;";
     }
 
     /** {@code mean [q5, q95]}. */

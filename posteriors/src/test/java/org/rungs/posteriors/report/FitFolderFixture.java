@@ -87,6 +87,7 @@ final class FitFolderFixture {
                     "seconds": 61.5, "interrupted": false, "joint_step_acceptance_per_chain": "0.646, 0.719, 0.729, 0.584",
                     "joint_step_leapfrog_steps_per_chain": "6.053, 8.058, 11.699, 6.003",
                     "joint_step_walls_per_chain": "0.272, 0.240, 0.239, 0.317"},
+                  "derived_draws": 1000,
                   "cross_validation": {"draws": 1000, "respondents": 18000, "elpd_loo": -33438.5, "elpd_loo_se": 97.6,
                     "p_loo": 102.3, "pareto_k_good": 17990, "pareto_k_ok": 7, "pareto_k_bad": 2, "pareto_k_very_bad": 1},
                   "comparison_fit": {"chains": 4, "warmup": 1000, "draws": 1000,

@@ -176,6 +176,9 @@ class ReportTest {
         String html = Files.readString(Report.write(dir));
         assertTrue(html.contains("This fit has converged within chance: 1 of " + (lines.size() - 1) + " parameters has an R-hat"), "verdict");
         assertTrue(html.contains("<td>1.012</td><td>0.300</td>"), "R-hat and its chance in the table of the worst");
+        // 1 - 0.7^n is above 0.995 for the fixture's n, which %.2f showed as a certain 1.00
+        assertTrue(html.contains("among " + (lines.size() - 1) + " parameters with probability &gt; 0.99, so"), "family chance");
+        assertFalse(html.contains("probability 1.00"));
         assertFalse(html.contains("has not converged"));
         assertFalse(html.contains("should be relied on yet"), "no caution about convergence");
 
@@ -334,6 +337,53 @@ class ReportTest {
         String row = html.substring(html.indexOf("<tr><td>" + groups.text(moved, "group") + "</td>"));
         row = row.substring(0, row.indexOf("</tr>"));
         assertTrue(row.contains("<td>" + Html.number(groups.number(moved, "rank_change"), 0) + "</td>"), row);
+    }
+
+    /**
+     * groups.csv's P(top 3) is a share of draws (DerivedTables): 0.997 is not certain and must not
+     * read 1.00, and exactly 1 means no draw outside the top 3, not certainty (our rule).
+     */
+    @Test
+    void aProbabilityThatRoundsToOneOrZeroIsNotShownAsCertain() throws Exception {
+        Path dir = FitFolderFixture.write(tmp.resolve("fit"), FitFolderFixture.demoRegions(), true, 12);
+        Path file = dir.resolve("groups.csv");
+        List<String> lines = new ArrayList<>(Files.readAllLines(file));
+        int column = List.of(lines.get(0).split(",")).indexOf("p_top3_intended");
+        String[] shares = {"0.997", "1.0", "0.002", "0.0", "0.6412"};
+        List<String> groups = new ArrayList<>();
+        for (int i = 0; i < shares.length; i++) {
+            String[] fields = lines.get(i + 1).split(",");
+            fields[column] = shares[i];
+            lines.set(i + 1, String.join(",", fields));
+            groups.add(fields[0]);
+        }
+        Files.write(file, lines);
+        String html = Files.readString(Report.write(dir));
+        String[] shown = {"&gt; 0.99", "all draws", "&lt; 0.01", "no draw", "0.64"};
+        for (int i = 0; i < shares.length; i++) {
+            String row = html.substring(html.indexOf("<tr><td>" + groups.get(i) + "</td>"));
+            row = row.substring(0, row.indexOf("</tr>"));
+            assertTrue(row.endsWith("<td>" + shown[i] + "</td>"), shares[i] + ": " + row);
+        }
+        assertTrue(html.contains("P(top 3): the share of the posterior draws (the 1,000 of derived_draws.csv) in which"),
+                "the note reads the shares, with run.json's derived_draws");
+        assertTrue(html.contains("&ldquo;all draws&rdquo; and &ldquo;no draw&rdquo; a share of exactly 1 or 0"));
+    }
+
+    /** R-hat's chance is computed, never certain: one that rounds to 0 at three decimals reads "< 0.001" (our rule). */
+    @Test
+    void anRhatChanceThatRoundsToZeroReadsBelowTheLastDecimal() throws Exception {
+        Path dir = FitFolderFixture.write(tmp.resolve("fit"), FitFolderFixture.demoRegions(), false, 13);
+        Path summary = dir.resolve("summary.csv");
+        List<String> lines = Files.readAllLines(summary);
+        List<String> withChance = new ArrayList<>(List.of(lines.get(0) + ",rhat_chance"));
+        for (int i = 1; i < lines.size(); i++) {
+            withChance.add(lines.get(i) + (lines.get(i).contains("rhat>1.01") ? ",2.4e-9" : ",0.6"));
+        }
+        Files.write(summary, withChance);
+        String html = Files.readString(Report.write(dir));
+        assertTrue(html.contains("<td>&lt; 0.001</td>"), "the chance of a stuck chain's R-hat");
+        assertFalse(html.contains("<td>0.000</td>"));
     }
 
     /** Our rule: a rank change that rounds to zero shows no sign ("0.0", never "+0.0" or "-0.0"). */
