@@ -6,6 +6,7 @@ import java.util.ArrayList;
 import java.util.List;
 import org.rungs.models.ParameterLayout;
 import org.rungs.posteriors.AtomicFiles;
+import org.rungs.posteriors.AttractionWords;
 import org.rungs.posteriors.CsvField;
 import org.rungs.posteriors.Draws;
 import org.rungs.posteriors.ParameterSummary;
@@ -34,6 +35,10 @@ public final class AttractionProfile {
      */
     public record Row(String group, boolean common, int rating, double aMean, double aQ5, double aQ95, double expMean,
             double expQ5, double expQ95, double pPositive, double sdRatio) {
+        /** What the words on attraction read of this row. */
+        public AttractionWords.Term term() {
+            return new AttractionWords.Term(group, common, rating, expMean, expQ5, expQ95, pPositive, sdRatio);
+        }
     }
 
     private AttractionProfile() {

@@ -23,6 +23,7 @@ import org.rungs.models.survey.Exclusions;
 import org.rungs.models.survey.Survey;
 import org.rungs.models.survey.SurveyInputException;
 import org.rungs.models.survey.SurveyReader;
+import org.rungs.posteriors.AttractionWords;
 import org.rungs.posteriors.ConvergenceVerdict;
 import org.rungs.posteriors.Draws;
 import org.rungs.posteriors.DrawsCsv;
@@ -239,7 +240,8 @@ public final class FitJob {
         }
         if (attraction) {
             out.println();
-            out.print(AttractionWords.format(profile, survey.groupLabels()));
+            out.print(AttractionWords.format(profile.stream().map(AttractionProfile.Row::term).toList(), survey.groupLabels(),
+                    Printable::of));
         }
         if (crossValidation != null) {
             out.println();
