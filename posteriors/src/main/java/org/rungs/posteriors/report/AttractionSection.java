@@ -2,8 +2,11 @@ package org.rungs.posteriors.report;
 
 import java.awt.BasicStroke;
 import java.awt.geom.Ellipse2D;
+import java.util.ArrayList;
+import java.util.LinkedHashSet;
 import java.util.List;
 import java.util.Map;
+import java.util.Set;
 import org.jfree.chart.JFreeChart;
 import org.jfree.chart.axis.NumberAxis;
 import org.jfree.chart.plot.ValueMarker;
@@ -11,12 +14,16 @@ import org.jfree.chart.plot.XYPlot;
 import org.jfree.chart.renderer.xy.XYErrorRenderer;
 import org.jfree.data.xy.YIntervalSeries;
 import org.jfree.data.xy.YIntervalSeriesCollection;
+import org.rungs.posteriors.AttractionWords;
 
 /**
  * Section 6: the attraction profile per group, exp(a[g,j]) per attracting number j with its 90%
- * interval (MODEL.md section 6); 1 means no pull, above 1 a liked number, below 1 an avoided one.
+ * interval (MODEL.md section 6); 1 means no pull, above 1 a liked number, below 1 an avoided one;
+ * and, in the console's words ({@link AttractionWords}), the numbers credibly liked or avoided.
  */
 final class AttractionSection {
+    /** attraction.csv's label of the common terms (AttractionProfile.COMMON in the sampler). */
+    static final String COMMON = "all";
     private static final int WIDTH = 340;
     private static final int HEIGHT = 220;
 
@@ -39,6 +46,7 @@ final class AttractionSection {
                 .append("is no pull; 1.5 means that, against a number with no pull, the number is chosen 1.5 times as often as the ")
                 .append("respondent's latent level alone implies; 0.7 that it is avoided. ")
                 .append("Points are posterior means, bars 90% intervals; \"all\" holds the terms common to every group.</p>\n");
+        words(terms(table), out);
         out.append("<div class=\"grid scroll\">\n");
         int g = 0;
         for (Map.Entry<String, List<Integer>> entry : GroupRows.of(table).entrySet()) {
@@ -71,5 +79,54 @@ final class AttractionSection {
                     .append("</figure>\n");
         }
         out.append("</div></section>\n");
+    }
+
+    /**
+     * Per group, the numbers credibly liked or avoided, as the console says them; the groups with
+     * none share one line. With several groups the common terms are not spoken of, as on the console.
+     */
+    private static void words(List<AttractionWords.Term> terms, StringBuilder out) {
+        boolean single = terms.stream().allMatch(AttractionWords.Term::common);
+        Set<String> labels = new LinkedHashSet<>();
+        for (AttractionWords.Term t : terms) {
+            if (single || !t.common()) {
+                labels.add(t.group());
+            }
+        }
+        out.append("<p>").append(Html.escape(AttractionWords.rule())).append("</p>\n<ul>\n");
+        List<String> silent = new ArrayList<>();
+        for (String label : labels) {
+            List<String> said = AttractionWords.credible(terms, label, single);
+            if (said.isEmpty()) {
+                silent.add(Html.escape(label));
+            } else {
+                out.append("<li><b>").append(Html.escape(label)).append("</b>: ")
+                        .append(Html.escape(String.join("; ", said))).append("</li>\n");
+            }
+        }
+        if (!silent.isEmpty()) {
+            out.append("<li>").append(String.join(", ", silent)).append(": ").append(AttractionWords.NONE).append("</li>\n");
+        }
+        out.append("</ul>\n");
+    }
+
+    /**
+     * attraction.csv's rows as the words read them. The common terms come first, one per number
+     * of the attraction set in increasing order (AttractionProfile): the leading rows labelled
+     * {@value #COMMON} whose numbers increase, so a group of that label after them stays a group.
+     */
+    static List<AttractionWords.Term> terms(CsvTable table) {
+        List<AttractionWords.Term> terms = new ArrayList<>(table.size());
+        boolean common = true;
+        double previous = Double.NEGATIVE_INFINITY;
+        for (int r = 0; r < table.size(); r++) {
+            double rating = table.number(r, "rating");
+            common &= table.text(r, "group").equals(COMMON) && rating > previous;
+            previous = rating;
+            terms.add(new AttractionWords.Term(table.text(r, "group"), common, (int) rating, table.number(r, "exp_a_mean"),
+                    table.number(r, "exp_a_q5"), table.number(r, "exp_a_q95"), table.number(r, "p_positive"),
+                    table.number(r, "sd_ratio")));
+        }
+        return terms;
     }
 }

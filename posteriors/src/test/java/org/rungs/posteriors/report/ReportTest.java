@@ -434,6 +434,83 @@ class ReportTest {
         assertFalse(html.contains("multiplies the chance of answering"), "the probabilities are renormalised (MODEL.md 4b)");
     }
 
+    /** Sets one row of attraction.csv (the fixture's columns) to exp(a)'s mean and interval and P(a > 0). */
+    private static void setAttraction(Path dir, String group, int rating, double exp, double low, double high, double positive)
+            throws IOException {
+        Path file = dir.resolve("attraction.csv");
+        List<String> lines = new ArrayList<>(Files.readAllLines(file));
+        List<String> header = List.of(lines.get(0).split(","));
+        boolean found = false;
+        for (int i = 1; i < lines.size(); i++) {
+            String[] f = lines.get(i).split(",");
+            if (f[0].equals(group) && f[1].equals(Integer.toString(rating))) {
+                f[header.indexOf("exp_a_mean")] = Double.toString(exp);
+                f[header.indexOf("exp_a_q5")] = Double.toString(low);
+                f[header.indexOf("exp_a_q95")] = Double.toString(high);
+                f[header.indexOf("p_positive")] = Double.toString(positive);
+                lines.set(i, String.join(",", f));
+                found = true;
+            }
+        }
+        assertTrue(found, group + " " + rating);
+        Files.write(file, lines);
+    }
+
+    /**
+     * The console's words on attraction (AttractionWords, shared) on the page, from attraction.csv:
+     * P(a > 0) above 0.95 liked, below 0.05 avoided, exactly 0.95 neither; with several groups the
+     * common terms are not spoken of, as on the console.
+     */
+    @Test
+    void theNumbersCrediblyLikedOrAvoidedAreSaidAsOnTheConsole() throws Exception {
+        Path dir = FitFolderFixture.write(tmp.resolve("fit"), FitFolderFixture.demoRegions(), true, 12);
+        String before = Files.readString(Report.write(dir));
+        assertTrue(before.contains("<li>Eastmarch, Brackenreach, Corrowmere, Dunsellow, Glimmerford, Quillhaven, Tarnwhistle, "
+                + "Vellanmoor, Orrinsdale, Saltergrim, Lowenfurrow, Mistlecombe: no number credibly liked or avoided</li>"),
+                "the fixture's P(a > 0) are 0.9 and 0.3");
+        setAttraction(dir, "Eastmarch", 5, 1.6, 1.2, 2.1, 0.97);
+        setAttraction(dir, "Eastmarch", 10, 0.6, 0.4, 0.8, 0.01);
+        setAttraction(dir, "Brackenreach", 0, 1.3, 0.9, 1.9, 0.95);
+        setAttraction(dir, "all", 5, 2.0, 1.5, 2.5, 0.99);
+        String html = Files.readString(Report.write(dir));
+        String section = html.substring(html.indexOf("<section id=\"attraction\">"), html.indexOf("<section id=\"coefficients\">"));
+        assertTrue(section.contains("<p>Numbers liked or avoided (P(a &gt; 0) "
+                + "above 0.95 or below 0.05; 1x = as often as the latent level implies):</p>"), "the rule");
+        assertTrue(section.contains("<li><b>Eastmarch</b>: 5 is chosen 1.6x as often as expected (90% interval 1.2x to 2.1x); "
+                + "10 is avoided: chosen 0.6x as often (0.4x to 0.8x)</li>"), section);
+        assertTrue(section.contains("<li>Brackenreach, Corrowmere, "), "P(a > 0) of exactly 0.95 is not above 0.95");
+        assertFalse(section.contains("<li><b>all</b>"), "the common terms are not a group's words");
+    }
+
+    /** With one group attraction.csv holds only the common terms, and the words are theirs (as on the console). */
+    @Test
+    void oneGroupsWordsAreThoseOfTheCommonTerms() throws Exception {
+        Path dir = FitFolderFixture.write(tmp.resolve("fit"), List.of("Eastmarch"), true, 12);
+        Path file = dir.resolve("attraction.csv");
+        List<String> lines = Files.readAllLines(file);
+        Files.write(file, lines.subList(0, 1 + FitFolderFixture.ATTRACTING.length));
+        setAttraction(dir, "all", 10, 0.043, 0.02, 0.09, 0.001);
+        String html = Files.readString(Report.write(dir));
+        assertTrue(html.contains("<li><b>all</b>: 10 is avoided: chosen 0.043x as often (0.020x to 0.090x)</li>"), html);
+    }
+
+    /** A group labelled "all" follows the common terms, whose numbers increase: its rows stay a group's. */
+    @Test
+    void aGroupLabelledAllIsNotTakenForTheCommonTerms() throws Exception {
+        Path file = tmp.resolve("attraction.csv");
+        Files.writeString(file, """
+                group,rating,exp_a_mean,exp_a_q5,exp_a_q95,p_positive,sd_ratio
+                all,3,1,1,1,0.5,0.5
+                all,7,1,1,1,0.5,0.5
+                all,3,1,1,1,0.5,0.5
+                all,7,1,1,1,0.5,0.5
+                Vale,3,1,1,1,0.5,0.5
+                Vale,7,1,1,1,0.5,0.5
+                """);
+        assertEquals(List.of(true, true, false, false, false, false),
+                AttractionSection.terms(CsvTable.read(file)).stream().map(t -> t.common()).toList());
+    }
+
     /** At most about one count in ten lies outside a 90% interval by chance: the page says how many did, against that. */
     @Test
     void theRatingsOutsideTheirPredictiveIntervalAreCountedAgainstChance() throws Exception {
