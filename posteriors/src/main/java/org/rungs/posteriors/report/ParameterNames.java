@@ -17,7 +17,7 @@ final class ParameterNames {
             "group_sd", new Family("group_sd", "spread of the group levels"),
             "threshold_sd", new Family("threshold_sd", "spread of the groups' thresholds around the common ones"),
             "style_mean", new Family("style_mean", "mean of the groups' intercepts of the probit of being a coarse responder"),
-            "style_sd", new Family("style_sd", "spread of those intercepts"),
+            "style_sd", new Family("style_sd", "spread of the groups' intercepts of the probit of being a coarse responder"),
             "attraction_sd", new Family("attraction_sd", "spread of the groups' attractions around the common ones"));
 
     private ParameterNames() {
@@ -55,6 +55,23 @@ final class ParameterNames {
                     : new Family("attraction.<group>.<j>", "a group's attraction a of number j (log of the odds multiplier exp(a))");
         }
         return null;
+    }
+
+    /**
+     * What a prior in run.json's {@code model.priors} is the prior of, by its key (the names of
+     * {@code --prior}, Priors in the priors module), or null for another key. Most keys name a
+     * parameter; the rest name the parameters of a family, each of which has that prior.
+     */
+    static String ofPrior(String key) {
+        return switch (key) {
+            case "level" -> "each " + of("level.x").meaning();
+            case "style" -> "each " + of("style.x").meaning();
+            case "attraction_mean" -> "each " + of("attraction.1").meaning();
+            // MODEL.md 3: c = b - mean(b), so the prior is on b and the thresholds are b less its mean
+            case "threshold" -> "each common threshold before the thresholds are shifted to average 0 "
+                    + "(the mean threshold is the latent scale's origin)";
+            default -> SINGLE.containsKey(key) ? SINGLE.get(key).meaning() : null;
+        };
     }
 
     private static boolean isInteger(String text) {

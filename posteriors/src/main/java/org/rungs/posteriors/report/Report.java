@@ -6,6 +6,7 @@ import java.util.List;
 import java.util.Locale;
 import java.util.Map;
 import org.rungs.posteriors.AtomicFiles;
+import org.rungs.posteriors.LeaveOneOut;
 
 /**
  * The fit report: one self-contained HTML file (inline CSS and SVG charts, no script, no link to
@@ -139,19 +140,29 @@ public final class Report {
             Html.row(out, "elpd_loo (se)", Html.escape(String.format(Locale.ROOT, "%,.1f (%.1f)",
                     fit.number("cross_validation.elpd_loo"), fit.number("cross_validation.elpd_loo_se"))));
             Html.row(out, "p_loo", Html.escape(String.format(Locale.ROOT, "%.1f", fit.number("cross_validation.p_loo"))));
-            Html.row(out, "respondents with Pareto k above 0.7", Html.escape(String.format(Locale.ROOT, "%,.0f of %,.0f",
+            Html.row(out, String.format(Locale.ROOT, "respondents with Pareto k above %.1f", LeaveOneOut.RELIABLE_K),
+                    Html.escape(String.format(Locale.ROOT, "%,.0f of %,.0f",
                     fit.number("cross_validation.pareto_k_bad") + fit.number("cross_validation.pareto_k_very_bad"),
                     fit.number("cross_validation.respondents"))));
             Html.tableEnd(out);
+            crossValidationNote(fit, out);
         }
         out.append("</div></div>\n<h3>The model in plain words</h3>\n<ul>\n");
         for (String sentence : ModelWords.describe(fit)) {
             out.append("<li>").append(Html.escape(sentence)).append("</li>\n");
         }
         out.append("</ul>\n<h3>Priors</h3>\n");
-        Html.tableHead(out, "facts headed", List.of("parameter", "prior"));
+        out.append("<p class=\"note\">What each parameter's values are believed to be before the data are seen, on the ")
+                .append("model's inner scale: the latent level's unit is the standard deviation of the respondents' levels around ")
+                .append("what their group and covariates predict, and a numeric covariate counts in its standard deviations. ")
+                .append("normal(m, s) is a normal distribution with mean m and standard deviation s; half-normal(s) its half ")
+                .append("above 0, for a spread. ")
+                .append("Wide priors leave the estimates to the data; <code>--prior NAME=DIST</code> replaces one.</p>\n");
+        Html.tableHead(out, "facts headed", List.of("parameter", "prior", "the prior of"));
         for (Map.Entry<String, Object> prior : fit.map("model.priors").entrySet()) {
-            Html.row(out, "<code>" + Html.escape(prior.getKey()) + "</code>", Html.escape(String.valueOf(prior.getValue())));
+            String meaning = ParameterNames.ofPrior(prior.getKey());
+            Html.row(out, "<code>" + Html.escape(prior.getKey()) + "</code>", Html.escape(String.valueOf(prior.getValue())),
+                    meaning == null ? "&ndash;" : Html.escape(meaning));
         }
         Html.tableEnd(out);
         List<Object> warnings = fit.list("warnings");
@@ -163,6 +174,28 @@ public final class Report {
             out.append("</ul>\n");
         }
         out.append("</section>\n");
+    }
+
+    /**
+     * elpd_loo, p_loo and Pareto k in plain words (Vehtari, Gelman & Gabry 2017; the k threshold,
+     * and p_loo above the number of parameters as a sign of a misfit, from loo 2.5.1's glossary).
+     */
+    private static void crossValidationNote(FitFolder fit, StringBuilder out) {
+        double parameters = fit.number("model.parameters");
+        out.append("<p class=\"note\">elpd_loo is the expected log predictive density, estimated by leave-one-out ")
+                .append("cross-validation with Pareto-smoothed importance sampling (PSIS-LOO; Vehtari, Gelman &amp; Gabry 2017): ")
+                .append("the sum over respondents of the log of the probability the fit gives each one's rating when that ")
+                .append("respondent is left out, so how well the model predicts answers it has not seen. Higher (nearer 0) is ")
+                .append("better, but only between fits of the same ratings (the same file, rows, rating column and scale, as ")
+                .append("<code>rungs compare</code> checks); a difference within about two of its standard errors (se) does ")
+                .append("not tell two fits apart. p_loo is the effective number of parameters: how much the predictions lean ")
+                .append("on the very answers they predict; in a fit that works it stays below the number of parameters")
+                .append(Double.isFinite(parameters) ? String.format(Locale.ROOT, " (%,.0f in this model)", parameters) : "")
+                .append(". Pareto k measures how much one respondent's own answer sways the fit: above ")
+                .append(String.format(Locale.ROOT, "%.1f", LeaveOneOut.RELIABLE_K))
+                .append(" the shortcut that spares refitting without that respondent is unreliable, and so is that ")
+                .append("respondent's part of elpd_loo (cross_validation.csv gives each respondent's k). A few among thousands ")
+                .append("change little; many make elpd_loo itself doubtful.</p>\n");
     }
 
     private static void writeCautions(FitFolder fit, StringBuilder out) {

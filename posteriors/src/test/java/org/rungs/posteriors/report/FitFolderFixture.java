@@ -76,7 +76,9 @@ final class FitFolderFixture {
                   "model": {
                     "thresholds": "by-group", "style_classes": "coarse (default points)", "attraction": "0, 5, 10 by group",
                     "priors": {"level": "normal(0.0, 1.0)", "group_mean": "normal(0.0, 2.0)", "group_sd": "half-normal(1.0)",
-                      "threshold": "normal(0.0, 3.0)", "style_mean": "normal(-1.0, 1.0)", "attraction": "normal(0.0, 0.5)"},
+                      "threshold": "normal(0.0, 3.0)", "threshold_sd": "half-normal(0.5)", "style": "normal(0.0, 1.0)",
+                      "style_mean": "normal(-1.0, 1.0)", "style_sd": "half-normal(1.0)", "attraction_mean": "normal(0.0, 0.5)",
+                      "attraction_sd": "half-normal(0.3)"},
                     "level_covariates": {
                       "income": {"source_column": "income", "kind": "numeric", "centre": 3.19, "scale": 1.68},
                       "age": {"source_column": "age", "kind": "numeric", "centre": 48.9, "scale": 15.0},

@@ -434,6 +434,56 @@ class ReportTest {
         assertFalse(html.contains("multiplies the chance of answering"), "the probabilities are renormalised (MODEL.md 4b)");
     }
 
+    /**
+     * elpd_loo, p_loo and the Pareto k count are read in plain words beside run.json's figures
+     * (Vehtari, Gelman & Gabry 2017), with the number of parameters when run.json gives it.
+     */
+    @Test
+    void theLeaveOneOutFiguresAreExplainedBesideThem() throws Exception {
+        Path dir = FitFolderFixture.write(tmp.resolve("fit"), FitFolderFixture.demoRegions(), true, 12);
+        String html = Files.readString(Report.write(dir));
+        assertTrue(html.contains("<td>elpd_loo (se)</td><td>-33,438.5 (97.6)</td>"), "the figures");
+        assertTrue(html.contains("elpd_loo is the expected log predictive density, estimated by leave-one-out cross-validation "
+                + "with Pareto-smoothed importance sampling (PSIS-LOO; Vehtari, Gelman &amp; Gabry 2017)"), "what it is");
+        assertTrue(html.contains("Higher (nearer 0) is better, but only between fits of the same ratings"), "how to read it");
+        assertTrue(html.contains("p_loo is the effective number of parameters"));
+        assertTrue(html.contains("in a fit that works it stays below the number of parameters. Pareto k"), "no count in the fixture");
+        assertTrue(html.contains("above 0.7 the shortcut that spares refitting without that respondent is unreliable"));
+        Path run = dir.resolve("run.json");
+        Files.writeString(run, Files.readString(run).replace("\"model\": {", "\"model\": {\"parameters\": 270, "));
+        assertTrue(Files.readString(Report.write(dir)).contains("below the number of parameters (270 in this model)."));
+
+        Path plain = copyOfOneGroup(tmp.resolve("plain"));
+        String without = Files.readString(Report.write(plain));
+        assertFalse(without.contains("elpd_loo"), "no cross-validation, no words on it");
+    }
+
+    /** Every prior run.json lists (the ten names of --prior) says on the page what it is the prior of. */
+    @Test
+    void everyPriorSaysWhatItIsThePriorOf() throws Exception {
+        Path dir = FitFolderFixture.write(tmp.resolve("fit"), FitFolderFixture.demoRegions(), true, 12);
+        String html = Files.readString(Report.write(dir));
+        String priors = html.substring(html.indexOf("<h3>Priors</h3>"), html.indexOf("</table>", html.indexOf("<h3>Priors</h3>")));
+        assertTrue(priors.contains("normal(m, s) is a normal distribution with mean m and standard deviation s; half-normal(s) its "
+                + "half above 0, for a spread."), "how a prior is written");
+        assertTrue(priors.contains("<th>parameter</th><th>prior</th><th>the prior of</th>"));
+        // Priors.NAMES in the priors module, which the report does not depend on
+        for (String key : List.of("level", "group_mean", "group_sd", "threshold", "threshold_sd", "style", "style_mean",
+                "style_sd", "attraction_mean", "attraction_sd")) {
+            Matcher row = Pattern.compile("<tr><td><code>" + key + "</code></td><td>[^<]+</td><td>([^<]*)</td></tr>").matcher(priors);
+            assertTrue(row.find(), key);
+            assertTrue(row.group(1).length() > 10 && !row.group(1).equals("&ndash;"), key + ": " + row.group(1));
+        }
+        assertTrue(priors.contains("<tr><td><code>threshold_sd</code></td><td>half-normal(0.5)</td><td>spread of the groups' "
+                .replace("'", "&#39;") + "thresholds around the common ones</td></tr>"), priors);
+        assertTrue(priors.contains("<tr><td><code>level</code></td><td>normal(0.0, 1.0)</td><td>each effect of a covariate on the "
+                + "latent level, per standard deviation of a numeric column or per 0/1 indicator</td></tr>"), priors);
+        Path run = dir.resolve("run.json");
+        Files.writeString(run, Files.readString(run).replace("\"level\": \"normal(0.0, 1.0)\"", "\"lambda\": \"normal(0.0, 1.0)\""));
+        assertTrue(Files.readString(Report.write(dir)).contains("<tr><td><code>lambda</code></td><td>normal(0.0, 1.0)</td>"
+                + "<td>&ndash;</td></tr>"), "a key the report does not know gets no guess");
+    }
+
     /** Sets one row of attraction.csv (the fixture's columns) to exp(a)'s mean and interval and P(a > 0). */
     private static void setAttraction(Path dir, String group, int rating, double exp, double low, double high, double positive)
             throws IOException {
