@@ -106,6 +106,42 @@ final class CheckpointTest {
         assertAttractionFitResumes(24);
     }
 
+    /**
+     * 100 groups of 4 on 0..10 with the coarse class: 1,112 coordinates, so the joint step's
+     * metric is an {@link ArrowMetric}. Stopped in warm-up after the build (15) and before the
+     * refits (22 and 26), and resumed, the chains give the uninterrupted fit's draws.
+     */
+    @Test
+    void resumingAFitOfManyGroupsReproducesItsDraws() {
+        int groups = 100;
+        SplittableRandom random = new SplittableRandom(23L);
+        int n = groups * 4;
+        int[] group = new int[n];
+        byte[] category = new byte[n];
+        double[] x = new double[n];
+        List<String> labels = new java.util.ArrayList<>();
+        for (int g = 0; g < groups; g++) {
+            labels.add("g" + g);
+        }
+        for (int i = 0; i < n; i++) {
+            group[i] = i % groups;
+            x[i] = random.nextGaussian();
+            category[i] = (byte) Math.max(0, Math.min(10, Math.round(6 + 0.5 * x[i] + 2 * random.nextGaussian())));
+        }
+        Survey survey = Survey.of(new org.rungs.models.survey.Scale(0, 10), category, group, labels,
+                Covariates.fromNumeric(List.of("x"), List.of(x)), Covariates.none(), null);
+        ChainState state = new ChainState(SurveyOrder.of(survey), true,
+                RoundingChannel.of(survey.scale(), RoundingChannel.defaultPoints(survey.scale())), new int[0]);
+        assertTrue(JointHamiltonianUpdate.of(state, Priors.defaults(), 30, org.apache.commons.rng.simple.RandomSource.XO_RO_SHI_RO_128_PP.create(1L)).sparseMetric());
+        Draws reference = Fitter.fit(survey, spec(), SETTINGS, ProgressListener.NONE, new AtomicBoolean(), Checkpoints.none()).draws();
+        Path here = dir.resolve("many-groups");
+        AtomicBoolean stop = new AtomicBoolean();
+        assertTrue(Fitter.fit(survey, spec(), SETTINGS, stopAt(20, stop), stop, Checkpoints.start(here, RARELY)).interrupted());
+        FitResult resumed = Fitter.fit(survey, spec(), SETTINGS, ProgressListener.NONE, new AtomicBoolean(),
+                Checkpoints.resume(here, RARELY));
+        assertSameDraws(reference, resumed.draws());
+    }
+
     /** An attraction fit stopped after chain 0's iteration {@code at} and resumed gives the uninterrupted fit's draws. */
     private void assertAttractionFitResumes(int at) {
         ModelSpec attraction = spec().withAttraction(NumberAttraction.of(2, 4));
