@@ -86,9 +86,10 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
     static final int STORED = 1000;
     /**
      * Above this many coordinates the metric is an {@link ArrowMetric} instead of a dense one: on
-     * 150 groups of 15 with the coarse class (1,662 coordinates) the dense metric's three fits cost
-     * about 50 s of a chain's warm-up, against 3 s for 200 sweeps, while every survey of the demos
-     * and of the benchmark (at most 974) keeps its draws (our rule).
+     * 150 groups of 15 with the coarse class (1,662 coordinates; bench/many-groups) 4 chains of
+     * 1,000 + 1,000 sampled in 14 to 15 s against 146 to 280 s, with the dense metric's fits most
+     * of that, while every survey of the demos and of the benchmark (at most 976 coordinates)
+     * keeps its draws (our rule).
      */
     static final int DENSE_UP_TO = 1000;
 
