@@ -12,8 +12,8 @@ import org.ejml.dense.row.CommonOps_DDRM;
  * ({@link CollapsedPosterior#negativeHessian}), so given the survey-wide coordinates the groups
  * are independent and minus the Hessian has no entry between two groups. Ordered group by group
  * with the survey-wide coordinates last it is an arrow matrix, whose Cholesky factor has the same
- * pattern (no fill-in; Golub & Van Loan 2013, Matrix Computations, 4th ed., section 4.5 on
- * block elimination, from memory): a leapfrog step costs O(G b^2 + G b k + k^2) for G groups of b
+ * pattern (eliminating the groups first creates no fill-in; George & Liu 1981, Computer Solution
+ * of Large Sparse Positive Definite Systems, from memory): a leapfrog step costs O(G b^2 + G b k + k^2) for G groups of b
  * own coordinates and k survey-wide ones, against O(d^2) for the dense factor, and a refit
  * O(G (b + k)^3) against O(d^3).
  *
