@@ -25,16 +25,18 @@ import org.rungs.posteriors.Draws;
  */
 final class ChainCheckpoint implements Closeable {
     /**
-     * "RUNGSCKA": marks the file and its format (3: the joint Hamiltonian step's state in the
+     * "RUNGSCK" and a letter: marks the file and its format (3: the joint Hamiltonian step's state in the
      * sweep; 4: under attraction, the counters of {@link BoundedRedrawSteps} and the attraction
      * update's block-move scale and warm-up sums; 5: the joint step's leapfrog and wall counts;
      * 6: the attraction update's count of warm-up sweeps, for its hold at the start; 7: the
      * trade step's scale and count, {@link AttractionTradeUpdate}; 8: the joint step's kept
      * warm-up states instead of their sums, and its change of variables, {@link CoordinateWarp}; 9:
      * the ridge move's scale and counts; 10: the joint step's group thresholds as scaled logs
-     * of their gaps, so its kept warm-up states and metric are in those coordinates).
+     * of their gaps, so its kept warm-up states and metric are in those coordinates; 11: above
+     * {@link JointHamiltonianUpdate#DENSE_UP_TO} coordinates the metric as {@link ArrowMetric}'s
+     * blocks). The last byte counts the formats: "RUNGSCKB" is 11.
      */
-    private static final long MAGIC = 0x52554E4753434B41L;
+    private static final long MAGIC = 0x52554E4753434B42L;
 
     /** Iterations done (warm-up included) and kept draws at a save. */
     record Position(int iterations, int kept) {

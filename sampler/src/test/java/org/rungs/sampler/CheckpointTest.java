@@ -109,7 +109,8 @@ final class CheckpointTest {
     /**
      * 100 groups of 4 on 0..10 with the coarse class: 1,112 coordinates, so the joint step's
      * metric is an {@link ArrowMetric}. Stopped in warm-up after the build (15) and before the
-     * refits (22 and 26), and resumed, the chains give the uninterrupted fit's draws.
+     * refits (22 and 26), or between them, and resumed, the chains give the uninterrupted fit's
+     * draws.
      */
     @Test
     void resumingAFitOfManyGroupsReproducesItsDraws() {
@@ -134,12 +135,14 @@ final class CheckpointTest {
                 RoundingChannel.of(survey.scale(), RoundingChannel.defaultPoints(survey.scale())), new int[0]);
         assertTrue(JointHamiltonianUpdate.of(state, Priors.defaults(), 30, org.apache.commons.rng.simple.RandomSource.XO_RO_SHI_RO_128_PP.create(1L)).sparseMetric());
         Draws reference = Fitter.fit(survey, spec(), SETTINGS, ProgressListener.NONE, new AtomicBoolean(), Checkpoints.none()).draws();
-        Path here = dir.resolve("many-groups");
-        AtomicBoolean stop = new AtomicBoolean();
-        assertTrue(Fitter.fit(survey, spec(), SETTINGS, stopAt(20, stop), stop, Checkpoints.start(here, RARELY)).interrupted());
-        FitResult resumed = Fitter.fit(survey, spec(), SETTINGS, ProgressListener.NONE, new AtomicBoolean(),
-                Checkpoints.resume(here, RARELY));
-        assertSameDraws(reference, resumed.draws());
+        for (int at : new int[] {20, 24}) {
+            Path here = dir.resolve("many-groups-" + at);
+            AtomicBoolean stop = new AtomicBoolean();
+            assertTrue(Fitter.fit(survey, spec(), SETTINGS, stopAt(at, stop), stop, Checkpoints.start(here, RARELY)).interrupted());
+            FitResult resumed = Fitter.fit(survey, spec(), SETTINGS, ProgressListener.NONE, new AtomicBoolean(),
+                    Checkpoints.resume(here, RARELY));
+            assertSameDraws(reference, resumed.draws());
+        }
     }
 
     /** An attraction fit stopped after chain 0's iteration {@code at} and resumed gives the uninterrupted fit's draws. */
