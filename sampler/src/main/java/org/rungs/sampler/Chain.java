@@ -75,7 +75,12 @@ final class Chain implements Checkpointed {
         InitialValues.apply(state, priors.styleMean().mean(), rng);
         List<Update> sweep = new ArrayList<>();
         if (channel != null || state.attractionOn()) {
-            sweep.add(JointHamiltonianUpdate.of(state, priors, warmup, rng));
+            JointHamiltonianUpdate joint = JointHamiltonianUpdate.of(state, priors, warmup, rng);
+            sweep.add(joint);
+            CollapsedSpreadUpdate spreads = joint.sparseMetric() ? CollapsedSpreadUpdate.of(state, priors, rng) : null;
+            if (spreads != null) {
+                sweep.add(spreads);
+            }
             sweep.add(ThresholdUpdate.ends(state, order.start(), priors, rng));
         }
         if (state.byGroup) {
