@@ -114,34 +114,17 @@ class CollapsedSpreadUpdateTest {
                 batchSquare[b] += x * x / PER_BATCH;
             }
         }
-        double chainMean = average(batchMean);
-        double chainSquare = average(batchSquare);
+        double chainMean = BatchMeans.mean(batchMean);
+        double chainSquare = BatchMeans.mean(batchSquare);
         double chainSd = Math.sqrt(chainSquare - chainMean * chainMean);
-        double meanError = standardError(batchMean);
+        double meanError = BatchMeans.standardError(batchMean);
         // the sd's error by the delta method from the batch means of x and x^2
         double[] sdParts = new double[BATCHES];
         for (int b = 0; b < BATCHES; b++) {
             sdParts[b] = (batchSquare[b] - 2 * chainMean * batchMean[b]) / (2 * chainSd);
         }
-        double sdError = standardError(sdParts);
+        double sdError = BatchMeans.standardError(sdParts);
         assertEquals(mean, chainMean, 5 * meanError, "mean of log factor (se " + meanError + ")");
         assertEquals(sd, chainSd, 5 * sdError, "sd of log factor (se " + sdError + ")");
-    }
-
-    private static double average(double[] x) {
-        double sum = 0;
-        for (double v : x) {
-            sum += v;
-        }
-        return sum / x.length;
-    }
-
-    private static double standardError(double[] batches) {
-        double m = average(batches);
-        double v = 0;
-        for (double b : batches) {
-            v += (b - m) * (b - m) / (batches.length - 1);
-        }
-        return Math.sqrt(v / batches.length);
     }
 }

@@ -125,17 +125,13 @@ class JointHamiltonianUpdateTest {
             }
             means[arrow] = new double[d];
             errors[arrow] = new double[d];
+            double[] column = new double[batches];
             for (int j = 0; j < d; j++) {
-                double m = 0;
-                for (double[] bm : batchMeans) {
-                    m += bm[j] / batches;
+                for (int b = 0; b < batches; b++) {
+                    column[b] = batchMeans[b][j];
                 }
-                double v = 0;
-                for (double[] bm : batchMeans) {
-                    v += (bm[j] - m) * (bm[j] - m) / (batches - 1);
-                }
-                means[arrow][j] = m;
-                errors[arrow][j] = Math.sqrt(v / batches);
+                means[arrow][j] = BatchMeans.mean(column);
+                errors[arrow][j] = BatchMeans.standardError(column);
             }
             assertTrue(step.acceptanceRate() > 0.3, "metric " + arrow + " accepts " + step.acceptanceRate());
         }
