@@ -181,7 +181,7 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
         return new JointHamiltonianUpdate(state, priors, warmup, rng, denseUpTo);
     }
 
-    /** For tests: whether the metric is an {@link ArrowMetric}. */
+    /** Whether the metric is an {@link ArrowMetric} (many groups; {@link Chain} then adds {@link CollapsedSpreadUpdate}). */
     boolean sparseMetric() {
         return arrow != null;
     }
