@@ -1,11 +1,12 @@
 package org.rungs.sampler;
 
+import java.util.function.DoubleSupplier;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
-import java.util.function.DoubleSupplier;
 import org.apache.commons.rng.simple.RandomSource;
 import org.junit.jupiter.api.Test;
+import org.rungs.posteriors.MonteCarloMean;
 import org.rungs.priors.HalfNormal;
 import org.rungs.priors.Priors;
 
@@ -114,16 +115,16 @@ class CollapsedSpreadUpdateTest {
                 batchSquare[b] += x * x / PER_BATCH;
             }
         }
-        double chainMean = BatchMeans.mean(batchMean);
-        double chainSquare = BatchMeans.mean(batchSquare);
+        double chainMean = MonteCarloMean.mean(batchMean);
+        double chainSquare = MonteCarloMean.mean(batchSquare);
         double chainSd = Math.sqrt(chainSquare - chainMean * chainMean);
-        double meanError = BatchMeans.standardError(batchMean);
+        double meanError = MonteCarloMean.standardError(batchMean);
         // the sd's error by the delta method from the batch means of x and x^2
         double[] sdParts = new double[BATCHES];
         for (int b = 0; b < BATCHES; b++) {
             sdParts[b] = (batchSquare[b] - 2 * chainMean * batchMean[b]) / (2 * chainSd);
         }
-        double sdError = BatchMeans.standardError(sdParts);
+        double sdError = MonteCarloMean.standardError(sdParts);
         assertEquals(mean, chainMean, 5 * meanError, "mean of log factor (se " + meanError + ")");
         assertEquals(sd, chainSd, 5 * sdError, "sd of log factor (se " + sdError + ")");
     }

@@ -1,11 +1,12 @@
 package org.rungs.sampler;
 
+import org.apache.commons.rng.simple.RandomSource;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
-import org.apache.commons.rng.simple.RandomSource;
 import org.junit.jupiter.api.Test;
+import org.rungs.posteriors.MonteCarloMean;
 import org.rungs.priors.Priors;
 import org.rungs.priors.StandardNormal;
 
@@ -130,8 +131,8 @@ class JointHamiltonianUpdateTest {
                 for (int b = 0; b < batches; b++) {
                     column[b] = batchMeans[b][j];
                 }
-                means[arrow][j] = BatchMeans.mean(column);
-                errors[arrow][j] = BatchMeans.standardError(column);
+                means[arrow][j] = MonteCarloMean.mean(column);
+                errors[arrow][j] = MonteCarloMean.standardError(column);
             }
             assertTrue(step.acceptanceRate() > 0.3, "metric " + arrow + " accepts " + step.acceptanceRate());
         }

@@ -2,6 +2,7 @@ package org.rungs.validation.recovery;
 
 import java.util.List;
 import org.apache.commons.math3.distribution.BinomialDistribution;
+import org.rungs.posteriors.MonteCarloMean;
 
 /**
  * How well one quantity was recovered over R replications, with the Monte Carlo standard errors
@@ -63,13 +64,13 @@ public record QuantityRecovery(String quantity, int replications, double truthMe
             covered90 += e.covered90() ? 1 : 0;
             flagged += e.flagged() ? 1 : 0;
         }
-        double bias = mean(error);
-        double mse = mean(squared);
+        double bias = MonteCarloMean.mean(error);
+        double mse = MonteCarloMean.mean(squared);
         double rmse = Math.sqrt(mse);
         double p50 = (double) covered50 / r;
         double p90 = (double) covered90 / r;
-        return new QuantityRecovery(estimates.get(0).quantity(), r, truth / r, bias, standardError(error),
-                rmse, standardError(squared) / (2 * rmse), p50, binomialError(p50, r), p90, binomialError(p90, r),
+        return new QuantityRecovery(estimates.get(0).quantity(), r, truth / r, bias, MonteCarloMean.standardError(error),
+                rmse, MonteCarloMean.standardError(squared) / (2 * rmse), p50, binomialError(p50, r), p90, binomialError(p90, r),
                 flagged, outside(covered50, r, 0.5), outside(covered90, r, 0.9));
     }
 
@@ -87,25 +88,6 @@ public record QuantityRecovery(String quantity, int replications, double truthMe
         BinomialDistribution x = new BinomialDistribution(null, r, nominal);
         double tail = (1 - BAND_LEVEL) / 2;
         return new int[] {x.inverseCumulativeProbability(tail), x.inverseCumulativeProbability(1 - tail)};
-    }
-
-    static double mean(double[] values) {
-        double sum = 0;
-        for (double v : values) {
-            sum += v;
-        }
-        return sum / values.length;
-    }
-
-    /** sd(values) / sqrt(R), sd with denominator R - 1. */
-    static double standardError(double[] values) {
-        int r = values.length;
-        double mean = mean(values);
-        double sum = 0;
-        for (double v : values) {
-            sum += (v - mean) * (v - mean);
-        }
-        return Math.sqrt(sum / (r - 1) / r);
     }
 
     private static double binomialError(double p, int r) {

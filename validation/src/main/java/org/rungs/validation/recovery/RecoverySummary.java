@@ -6,6 +6,7 @@ import java.util.LinkedHashSet;
 import java.util.List;
 import java.util.Map;
 import java.util.Set;
+import org.rungs.posteriors.MonteCarloMean;
 
 /**
  * A recovery study summarised: the figures of every quantity, and the coverage over all
@@ -63,9 +64,9 @@ public record RecoverySummary(List<ReplicationEstimates> replications, List<Quan
         for (List<QuantityEstimate> estimates : byQuantity.values()) {
             quantities.add(QuantityRecovery.of(estimates));
         }
-        return new RecoverySummary(replications, quantities, QuantityRecovery.mean(share50),
-                QuantityRecovery.standardError(share50), QuantityRecovery.mean(share90),
-                QuantityRecovery.standardError(share90), nonConverged, new ArrayList<>(unmatched));
+        return new RecoverySummary(replications, quantities, MonteCarloMean.mean(share50),
+                MonteCarloMean.standardError(share50), MonteCarloMean.mean(share90),
+                MonteCarloMean.standardError(share90), nonConverged, new ArrayList<>(unmatched));
     }
 
     /** The quantities whose 50% coverage lies outside the band of {@link QuantityRecovery#BAND_LEVEL}. */
