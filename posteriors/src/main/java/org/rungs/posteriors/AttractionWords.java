@@ -17,6 +17,8 @@ public final class AttractionWords {
     public static final double CREDIBLE = 0.95;
     /** Posterior sd above this share of the prior sd: the data hardly narrowed the prior (common practice, no source). */
     public static final double WEAK = 0.8;
+    /** attraction.csv's group label of the common terms abar[j]. */
+    public static final String COMMON = "all";
     /** What a group with no credibly liked or avoided number is told. */
     public static final String NONE = "no number credibly liked or avoided";
     /** Groups named in the line on weak terms before the rest are counted. */
@@ -86,8 +88,13 @@ public final class AttractionWords {
         return said;
     }
 
-    /** One line naming the terms whose sd ratio exceeds {@value #WEAK}, by group (common terms first). */
-    private static String weak(List<Term> terms, boolean single, UnaryOperator<String> shown) {
+    /**
+     * One line naming the terms whose sd ratio exceeds {@value #WEAK}, by group (common terms first).
+     *
+     * @param single one group: its numbers are named without a group
+     * @param shown  how a label is shown
+     */
+    public static String weak(List<Term> terms, boolean single, UnaryOperator<String> shown) {
         Map<String, List<String>> byGroup = new LinkedHashMap<>();
         int count = 0;
         for (Term t : terms) {

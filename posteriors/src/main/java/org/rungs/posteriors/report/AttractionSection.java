@@ -22,8 +22,6 @@ import org.rungs.posteriors.AttractionWords;
  * and, in the console's words ({@link AttractionWords}), the numbers credibly liked or avoided.
  */
 final class AttractionSection {
-    /** attraction.csv's label of the common terms (AttractionProfile.COMMON in the sampler). */
-    static final String COMMON = "all";
     private static final int WIDTH = 340;
     private static final int HEIGHT = 220;
 
@@ -45,8 +43,9 @@ final class AttractionSection {
         out.append("<p class=\"note\">exp(a) is the odds multiplier of answering a number rather than another: 1 (dashed line) ")
                 .append("is no pull; 1.5 means that, against a number with no pull, the number is chosen 1.5 times as often as the ")
                 .append("respondent's latent level alone implies; 0.7 that it is avoided. ")
-                .append("Points are posterior means, bars 90% intervals; \"all\" holds the terms common to every group.</p>\n");
-        words(terms(table), out);
+                .append("Points are posterior means, bars 90% intervals; \"").append(AttractionWords.COMMON)
+                .append("\" holds the terms common to every group.</p>\n");
+        words(terms(table), table.has("sd_ratio"), out);
         out.append("<div class=\"grid scroll\">\n");
         int g = 0;
         for (Map.Entry<String, List<Integer>> entry : GroupRows.of(table).entrySet()) {
@@ -83,9 +82,11 @@ final class AttractionSection {
 
     /**
      * Per group, the numbers credibly liked or avoided, as the console says them; the groups with
-     * none share one line. With several groups the common terms are not spoken of, as on the console.
+     * none share one line; then, as on the console, the terms the data hardly narrowed (when the
+     * file has their sd ratios). With several groups the common terms are not spoken of in the
+     * per-group lines, as on the console.
      */
-    private static void words(List<AttractionWords.Term> terms, StringBuilder out) {
+    private static void words(List<AttractionWords.Term> terms, boolean sdRatios, StringBuilder out) {
         boolean single = terms.stream().allMatch(AttractionWords.Term::common);
         Set<String> labels = new LinkedHashSet<>();
         for (AttractionWords.Term t : terms) {
@@ -108,12 +109,15 @@ final class AttractionSection {
             out.append("<li>").append(String.join(", ", silent)).append(": ").append(AttractionWords.NONE).append("</li>\n");
         }
         out.append("</ul>\n");
+        if (sdRatios) {
+            out.append("<p>").append(Html.escape(AttractionWords.weak(terms, single, label -> label))).append("</p>\n");
+        }
     }
 
     /**
      * attraction.csv's rows as the words read them. The common terms come first, one per number
      * of the attraction set in increasing order (AttractionProfile): the leading rows labelled
-     * {@value #COMMON} whose numbers increase, so a group of that label after them stays a group.
+     * {@value AttractionWords#COMMON} whose numbers increase, so a group of that label after them stays a group.
      */
     static List<AttractionWords.Term> terms(CsvTable table) {
         List<AttractionWords.Term> terms = new ArrayList<>(table.size());
@@ -121,7 +125,7 @@ final class AttractionSection {
         double previous = Double.NEGATIVE_INFINITY;
         for (int r = 0; r < table.size(); r++) {
             double rating = table.number(r, "rating");
-            common &= table.text(r, "group").equals(COMMON) && rating > previous;
+            common &= table.text(r, "group").equals(AttractionWords.COMMON) && rating > previous;
             previous = rating;
             terms.add(new AttractionWords.Term(table.text(r, "group"), common, (int) rating, table.number(r, "exp_a_mean"),
                     table.number(r, "exp_a_q5"), table.number(r, "exp_a_q95"), table.number(r, "p_positive"),

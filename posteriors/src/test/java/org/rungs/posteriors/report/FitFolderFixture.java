@@ -237,7 +237,7 @@ final class FitFolderFixture {
     }
 
     private static void writeAttraction(Path dir, List<String> groups, Random random) throws IOException {
-        StringBuilder sb = new StringBuilder("group,rating,a_mean,a_q5,a_q95,exp_a_mean,exp_a_q5,exp_a_q95,p_positive\n");
+        StringBuilder sb = new StringBuilder("group,rating,a_mean,a_q5,a_q95,exp_a_mean,exp_a_q5,exp_a_q95,p_positive,sd_ratio\n");
         List<String> rows = new ArrayList<>(List.of("all"));
         rows.addAll(groups);
         for (String group : rows) {
@@ -246,7 +246,7 @@ final class FitFolderFixture {
                 sb.append(quote(group)).append(',').append(j).append(',').append(num(a)).append(',').append(num(a - 0.15))
                         .append(',').append(num(a + 0.15)).append(',').append(num(Math.exp(a))).append(',')
                         .append(num(Math.exp(a - 0.15))).append(',').append(num(Math.exp(a + 0.15))).append(',')
-                        .append(num(a > 0 ? 0.9 : 0.3)).append('\n');
+                        .append(num(a > 0 ? 0.9 : 0.3)).append(',').append(num(0.4)).append('\n');
             }
         }
         Files.writeString(dir.resolve("attraction.csv"), sb, StandardCharsets.UTF_8);

@@ -532,6 +532,38 @@ class ReportTest {
         assertFalse(section.contains("<li><b>all</b>"), "the common terms are not a group's words");
     }
 
+    /**
+     * The console's line on weakly identified attraction terms (posterior sd above 0.8 x prior
+     * sd, AttractionWords.WEAK) on the page too, from attraction.csv's sd_ratio; a folder whose
+     * file has no sd_ratio gets no such line rather than a false "every term is informed".
+     */
+    @Test
+    void theHardlyIdentifiedTermsAreNamedAsOnTheConsole() throws Exception {
+        Path dir = FitFolderFixture.write(tmp.resolve("fit"), FitFolderFixture.demoRegions(), true, 12);
+        assertTrue(Files.readString(Report.write(dir)).contains("<p>Every attraction term is informed by the data "
+                + "(posterior sd above 0.8 x prior sd for none).</p>"), "the fixture's sd ratios are 0.4");
+        Path file = dir.resolve("attraction.csv");
+        List<String> lines = new ArrayList<>(Files.readAllLines(file));
+        for (int i = 1; i < lines.size(); i++) {
+            String[] f = lines.get(i).split(",");
+            if ((f[0].equals("all") && f[1].equals("0")) || (f[0].equals("Corrowmere") && !f[1].equals("5"))) {
+                f[f.length - 1] = "0.81";
+                lines.set(i, String.join(",", f));
+            }
+        }
+        Files.write(file, lines);
+        String html = Files.readString(Report.write(dir));
+        assertTrue(html.contains("<p>Hardly identified by the data (posterior sd above 0.8 x prior sd; sd_ratio in "
+                + "attraction.csv): 3 of 39 attraction terms: common terms 0; Corrowmere 0, 10.</p>"), html);
+        List<String> without = new ArrayList<>();
+        for (String line : lines) {
+            without.add(line.substring(0, line.lastIndexOf(',')));
+        }
+        Files.write(file, without);
+        String old = Files.readString(Report.write(dir));
+        assertFalse(old.contains("Hardly identified") || old.contains("Every attraction term"), "no sd_ratio column, no line");
+    }
+
     /** With one group attraction.csv holds only the common terms, and the words are theirs (as on the console). */
     @Test
     void oneGroupsWordsAreThoseOfTheCommonTerms() throws Exception {

@@ -22,7 +22,7 @@ import org.rungs.priors.Priors;
  */
 public final class AttractionProfile {
     /** The group label of the common terms in {@code attraction.csv}. */
-    public static final String COMMON = "all";
+    public static final String COMMON = AttractionWords.COMMON;
 
     /**
      * One number's attraction in one group.
