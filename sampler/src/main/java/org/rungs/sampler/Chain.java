@@ -77,7 +77,8 @@ final class Chain implements Checkpointed {
         if (channel != null || state.attractionOn()) {
             JointHamiltonianUpdate joint = JointHamiltonianUpdate.of(state, priors, warmup, rng);
             sweep.add(joint);
-            CollapsedSpreadUpdate spreads = joint.sparseMetric() ? CollapsedSpreadUpdate.of(state, priors, rng) : null;
+            CollapsedSpreadUpdate spreads = joint.sparseMetric() ? CollapsedSpreadUpdate.of(state, priors, rng)
+                    : CollapsedSpreadUpdate.ifSlow(state, priors, rng, warmup);
             if (spreads != null) {
                 sweep.add(spreads);
             }
@@ -182,6 +183,16 @@ final class Chain implements Checkpointed {
             }
         }
         return 0;
+    }
+
+    /** Which spreads {@link CollapsedSpreadUpdate} moves ("threshold_sd", "style_sd", both, or "none"); null without that step. */
+    String spreadMoves() {
+        for (Update u : sweep) {
+            if (u instanceof CollapsedSpreadUpdate) {
+                return ((CollapsedSpreadUpdate) u).movedSpreads();
+            }
+        }
+        return null;
     }
 
     /** Acceptance of the rescaling steps, made in every mode. */

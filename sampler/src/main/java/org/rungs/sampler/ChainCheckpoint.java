@@ -34,10 +34,11 @@ final class ChainCheckpoint implements Closeable {
      * the ridge move's scale and counts; 10: the joint step's group thresholds as scaled logs
      * of their gaps, so its kept warm-up states and metric are in those coordinates; 11: above
      * {@link JointHamiltonianUpdate#DENSE_UP_TO} coordinates the metric as {@link ArrowMetric}'s
-     * blocks; 12: there, the scales of {@link CollapsedSpreadUpdate}). The last byte counts the
-     * formats: "RUNGSCKC" is 12.
+     * blocks; 12: there, the scales of {@link CollapsedSpreadUpdate}; 13: its window and which of
+     * its moves run, in every fit with the joint step and several groups). The last byte counts
+     * the formats: "RUNGSCKD" is 13.
      */
-    private static final long MAGIC = 0x52554E4753434B43L;
+    private static final long MAGIC = 0x52554E4753434B44L;
 
     /** Iterations done (warm-up included) and kept draws at a save. */
     record Position(int iterations, int kept) {

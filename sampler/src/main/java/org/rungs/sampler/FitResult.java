@@ -20,9 +20,12 @@ import org.rungs.posteriors.Draws;
  * @param latentStepsSkipped   per chain, the share of sampling sweeps in which the attractions spread
  *                             too wide for the latent-level steps ({@link BoundedRedrawSteps}); 0
  *                             without attraction
+ * @param spreadMoves          per chain, which spreads {@link CollapsedSpreadUpdate} moved while
+ *                             sampling ("threshold_sd", "style_sd", both comma-separated, or
+ *                             "none"); null for a chain without that step (one group, plain model)
  * @param interrupted          true when the run was stopped before all iterations were done
  */
 public record FitResult(Draws draws, ParameterLayout layout, SamplerSettings settings, double seconds,
                         double[] thresholdAcceptance, double[] jointAcceptance, double[] jointLeapfrogSteps,
-                        double[] jointWallShare, double[] latentStepsSkipped, boolean interrupted) {
+                        double[] jointWallShare, double[] latentStepsSkipped, String[] spreadMoves, boolean interrupted) {
 }

@@ -91,6 +91,7 @@ public final class Fitter {
         double[] leapfrogSteps = new double[settings.chains()];
         double[] walls = new double[settings.chains()];
         double[] skipped = new double[settings.chains()];
+        String[] spreads = new String[settings.chains()];
         long start = System.nanoTime();
         int threads = Math.min(settings.threads(), settings.chains());
         ChainRun[] runs = new ChainRun[settings.chains()];
@@ -139,6 +140,7 @@ public final class Fitter {
                                 leapfrogSteps[chain] = c.jointLeapfrogSteps();
                                 walls[chain] = c.jointWallShare();
                                 skipped[chain] = c.latentStepsSkipped();
+                                spreads[chain] = c.spreadMoves();
                             }
                         } catch (IOException e) {
                             ended = true;
@@ -179,7 +181,7 @@ public final class Fitter {
         boolean interrupted = common < settings.draws();
         Draws result = interrupted ? draws.withIterations(common) : draws;
         return new FitResult(result, layout, settings, (System.nanoTime() - start) / 1e9, acceptance, joint, leapfrogSteps, walls, skipped,
-                interrupted);
+                spreads, interrupted);
     }
 
     /**

@@ -114,23 +114,7 @@ final class CheckpointTest {
      */
     @Test
     void resumingAFitOfManyGroupsReproducesItsDraws() {
-        int groups = 100;
-        SplittableRandom random = new SplittableRandom(23L);
-        int n = groups * 4;
-        int[] group = new int[n];
-        byte[] category = new byte[n];
-        double[] x = new double[n];
-        List<String> labels = new java.util.ArrayList<>();
-        for (int g = 0; g < groups; g++) {
-            labels.add("g" + g);
-        }
-        for (int i = 0; i < n; i++) {
-            group[i] = i % groups;
-            x[i] = random.nextGaussian();
-            category[i] = (byte) Math.max(0, Math.min(10, Math.round(6 + 0.5 * x[i] + 2 * random.nextGaussian())));
-        }
-        Survey survey = Survey.of(new org.rungs.models.survey.Scale(0, 10), category, group, labels,
-                Covariates.fromNumeric(List.of("x"), List.of(x)), Covariates.none(), null);
+        Survey survey = FitterTest.manyGroups(100, 4, 23L);
         ChainState state = new ChainState(SurveyOrder.of(survey), true,
                 RoundingChannel.of(survey.scale(), RoundingChannel.defaultPoints(survey.scale())), new int[0]);
         assertTrue(JointHamiltonianUpdate.of(state, Priors.defaults(), 30, org.apache.commons.rng.simple.RandomSource.XO_RO_SHI_RO_128_PP.create(1L)).sparseMetric());
@@ -142,6 +126,30 @@ final class CheckpointTest {
             FitResult resumed = Fitter.fit(survey, spec(), SETTINGS, ProgressListener.NONE, new AtomicBoolean(),
                     Checkpoints.resume(here, RARELY));
             assertSameDraws(reference, resumed.draws());
+        }
+    }
+
+    /**
+     * 40 groups of 30 drawn alike, 240 warm-up sweeps: {@link CollapsedSpreadUpdate} keeps the
+     * log spreads of sweeps 135 to 179 and, at 180, starts the moves of the slow ones. Stopped in
+     * that window (150) or after it (200) and resumed, the chains give the uninterrupted fit's
+     * draws and the same moves.
+     */
+    @Test
+    void resumingAFitWhoseSpreadMovesStartInWarmupReproducesItsDraws() {
+        Survey survey = FitterTest.manyGroups(40, 30, 3L);
+        SamplerSettings settings = new SamplerSettings(2, 240, 20, 17L, 2);
+        FitResult reference = Fitter.fit(survey, spec(), settings, ProgressListener.NONE, new AtomicBoolean(), Checkpoints.none());
+        assertTrue(java.util.Arrays.stream(reference.spreadMoves()).anyMatch(moved -> !moved.equals("none")),
+                String.join("; ", reference.spreadMoves()));
+        for (int at : new int[] {150, 200}) {
+            Path here = dir.resolve("spread-moves-" + at);
+            AtomicBoolean stop = new AtomicBoolean();
+            assertTrue(Fitter.fit(survey, spec(), settings, stopAt(at, stop), stop, Checkpoints.start(here, RARELY)).interrupted());
+            FitResult resumed = Fitter.fit(survey, spec(), settings, ProgressListener.NONE, new AtomicBoolean(),
+                    Checkpoints.resume(here, RARELY));
+            assertSameDraws(reference.draws(), resumed.draws());
+            assertArrayEquals(reference.spreadMoves(), resumed.spreadMoves());
         }
     }
 

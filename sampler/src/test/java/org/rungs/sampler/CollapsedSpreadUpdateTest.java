@@ -1,11 +1,16 @@
 package org.rungs.sampler;
 
+import java.util.SplittableRandom;
 import java.util.function.DoubleSupplier;
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertNotEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import org.apache.commons.rng.simple.RandomSource;
 import org.junit.jupiter.api.Test;
+import org.rungs.models.ModelSpec;
+import org.rungs.models.StyleClasses;
+import org.rungs.models.ThresholdMode;
 import org.rungs.posteriors.MonteCarloMean;
 import org.rungs.priors.HalfNormal;
 import org.rungs.priors.Priors;
@@ -58,6 +63,69 @@ class CollapsedSpreadUpdateTest {
                     }
                     s.style.sd = start * factor;
                 });
+    }
+
+    /**
+     * The lag-1 autocorrelation that decides is the usual estimate r_1 = c_1 / c_0 (Box, Jenkins &
+     * Reinsel, Time Series Analysis, eq. 2.1.12; by hand for 1, 2, 3, 4: 1.25 / 5 = 0.25). On
+     * AR(1) series of the window's length (188 sweeps of the default warm-up) it tells the demo's
+     * autocorrelations from the slow chains': of 200 series with rho 0.5 none exceeds
+     * {@value CollapsedSpreadUpdate#SLOW} (the estimate's sd is about 0.06, so 0.8 is 5 sd away),
+     * and of 200 with rho 0.95 at most 4 stay below it (bias about -(1 + 4 rho) / n = -0.025,
+     * Marriott & Pope 1954, from memory; the sd about 0.025 asymptotically, more in such short
+     * series). Fixed seed.
+     */
+    @Test
+    void theDecidingAutocorrelationTellsASlowChainFromAFastOne() {
+        assertEquals(0.25, CollapsedSpreadUpdate.lagOneAutocorrelation(new double[] {1, 2, 3, 4}), 1e-15);
+        assertEquals(0, CollapsedSpreadUpdate.lagOneAutocorrelation(new double[] {2, 2, 2}));
+        SplittableRandom random = new SplittableRandom(41L);
+        int n = 188;
+        double[] x = new double[n];
+        int[] slow = new int[2];
+        double[] rhos = {0.5, 0.95};
+        for (int r = 0; r < 2; r++) {
+            double rho = rhos[r];
+            for (int series = 0; series < 200; series++) {
+                x[0] = random.nextGaussian() / Math.sqrt(1 - rho * rho);
+                for (int t = 1; t < n; t++) {
+                    x[t] = rho * x[t - 1] + random.nextGaussian();
+                }
+                slow[r] += CollapsedSpreadUpdate.lagOneAutocorrelation(x) > CollapsedSpreadUpdate.SLOW ? 1 : 0;
+            }
+        }
+        assertEquals(0, slow[0], "rho 0.5");
+        assertTrue(slow[1] >= 196, "rho 0.95: " + slow[1]);
+    }
+
+    /**
+     * Below the arrow metric's size the moves start only in a chain whose spreads crawl, with
+     * the coarse class and 1,000 warm-up sweeps. On 40 groups of 30 drawn alike (true spreads 0;
+     * 440 coordinates, so the dense metric), none run until the window (sweeps 562 to 749) ends
+     * and both spreads' run from sweep 750 (lag-1 autocorrelations 0.90 and 0.94 at this seed).
+     * On 8 groups of 400 that use the scale differently none start (0.54 and 0.18).
+     */
+    @Test
+    void theMovesStartAtThreeQuartersOfWarmupOnlyWhereTheSpreadsCrawl() {
+        ModelSpec spec = new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults(), StyleClasses.coarse(null));
+        Chain slow = Chain.of(SurveyOrder.of(FitterTest.manyGroups(40, 30, 3L)), spec, true, 1000,
+                RandomSource.XO_RO_SHI_RO_128_PP.create(5L));
+        for (int t = 0; t < 750; t++) {
+            slow.sweepOnce(true);
+        }
+        assertEquals("none", slow.spreadMoves());
+        slow.sweepOnce(true);
+        assertEquals("threshold_sd, style_sd", slow.spreadMoves());
+        for (int t = 751; t < 1000; t++) {
+            slow.sweepOnce(true);
+        }
+        assertEquals("threshold_sd, style_sd", slow.spreadMoves(), "decided once");
+        Chain fast = Chain.of(SurveyOrder.of(FitterTest.distinctGroups(8, 400, 3L)), spec, true, 1000,
+                RandomSource.XO_RO_SHI_RO_128_PP.create(5L));
+        for (int t = 0; t < 1000; t++) {
+            fast.sweepOnce(true);
+        }
+        assertEquals("none", fast.spreadMoves());
     }
 
     /** Scales theta's part of the spread's ray by the factor and sets the spread to start * factor. */

@@ -5,7 +5,9 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import java.util.ArrayList;
 import java.util.List;
+import java.util.SplittableRandom;
 import java.util.concurrent.atomic.AtomicBoolean;
 import org.apache.commons.rng.UniformRandomProvider;
 import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
@@ -45,6 +47,69 @@ class FitterTest {
             category[i] = (byte) k;
         }
         return Survey.of(new Scale(1, 5), category, group, List.of("north", "south", "east", "west"), level,
+                Covariates.none(), null);
+    }
+
+    /**
+     * {@code groups} groups of {@code perGroup} on 0..10 drawn alike (no group differences), a
+     * level covariate x: latent 6 + 0.5 x + 2 N(0, 1), rounded and cut to the scale.
+     */
+    static Survey manyGroups(int groups, int perGroup, long seed) {
+        SplittableRandom random = new SplittableRandom(seed);
+        int n = groups * perGroup;
+        int[] group = new int[n];
+        byte[] category = new byte[n];
+        double[] x = new double[n];
+        List<String> labels = new ArrayList<>();
+        for (int g = 0; g < groups; g++) {
+            labels.add("g" + g);
+        }
+        for (int i = 0; i < n; i++) {
+            group[i] = i % groups;
+            x[i] = random.nextGaussian();
+            category[i] = (byte) Math.max(0, Math.min(10, Math.round(6 + 0.5 * x[i] + 2 * random.nextGaussian())));
+        }
+        return Survey.of(new Scale(0, 10), category, group, labels, Covariates.fromNumeric(List.of("x"), List.of(x)),
+                Covariates.none(), null);
+    }
+
+    /**
+     * {@code groups} groups of {@code perGroup} on 0..10 that use the scale differently: latent
+     * levels 0.3 g / groups + 0.5 x + N(0, 1); thresholds -2.25 + 0.45 k, each group's shifted by
+     * N(0, 0.3^2) draws; coarse responders (who report the coarse point 0, 5 or 10 nearest their
+     * answer) a share of 0.1 + 0.4 g / groups.
+     */
+    static Survey distinctGroups(int groups, int perGroup, long seed) {
+        SplittableRandom random = new SplittableRandom(seed);
+        double[][] cuts = new double[groups][10];
+        for (int g = 0; g < groups; g++) {
+            double[] own = cuts[g];
+            for (int k = 0; k < 10; k++) {
+                own[k] = -2.25 + 0.45 * k + 0.3 * random.nextGaussian();
+            }
+            java.util.Arrays.sort(own);
+        }
+        int n = groups * perGroup;
+        int[] group = new int[n];
+        byte[] category = new byte[n];
+        double[] x = new double[n];
+        List<String> labels = new ArrayList<>();
+        for (int g = 0; g < groups; g++) {
+            labels.add("g" + g);
+        }
+        for (int i = 0; i < n; i++) {
+            int g = i % groups;
+            group[i] = g;
+            x[i] = random.nextGaussian();
+            double latent = 0.3 * g / groups + 0.5 * x[i] + random.nextGaussian();
+            int k = 0;
+            while (k < 10 && latent > cuts[g][k]) {
+                k++;
+            }
+            boolean coarse = random.nextDouble() < 0.1 + 0.4 * g / groups;
+            category[i] = (byte) (coarse ? 5 * Math.round(k / 5.0) : k);
+        }
+        return Survey.of(new Scale(0, 10), category, group, labels, Covariates.fromNumeric(List.of("x"), List.of(x)),
                 Covariates.none(), null);
     }
 

@@ -132,6 +132,10 @@ public final class Report {
             Html.row(out, "joint step: leapfrog steps per chain", Html.escape(fit.text("sampler.joint_step_leapfrog_steps_per_chain", "")));
             Html.row(out, "joint step: stopped on a wall per chain", Html.escape(fit.text("sampler.joint_step_walls_per_chain", "")));
         }
+        String spreads = fit.text("sampler.spread_moves_per_chain", null);
+        if (spreads != null) {
+            Html.row(out, "spreads moved with their deviations per chain", Html.escape(spreads));
+        }
         Html.tableEnd(out);
         if (!fit.map("cross_validation").isEmpty()) {
             // rungs fit --cross-validate (CrossValidation in sampler); compare fits with rungs compare

@@ -9,6 +9,7 @@ import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
 import java.util.Map;
+import java.util.Objects;
 import java.util.concurrent.atomic.AtomicBoolean;
 import org.rungs.models.ModelSpec;
 import org.rungs.models.NaiveRegression;
@@ -408,10 +409,14 @@ public final class FitJob {
         m.put("seconds", result.seconds());
         m.put("interrupted", interrupted);
         m.put("threshold_acceptance_per_chain", perChain(result.thresholdAcceptance()));
-        if (java.util.Arrays.stream(result.jointAcceptance()).anyMatch(Double::isFinite)) {
+        if (Arrays.stream(result.jointAcceptance()).anyMatch(Double::isFinite)) {
             m.put("joint_step_acceptance_per_chain", perChain(result.jointAcceptance()));
             m.put("joint_step_leapfrog_steps_per_chain", perChain(result.jointLeapfrogSteps()));
             m.put("joint_step_walls_per_chain", perChain(result.jointWallShare()));
+        }
+        if (Arrays.stream(result.spreadMoves()).anyMatch(Objects::nonNull)) {
+            m.put("spread_moves_per_chain", String.join("; ", Arrays.stream(result.spreadMoves())
+                    .map(moved -> moved == null ? "none" : moved).toList()));
         }
         if (result.layout().attractionSet().length > 0) {
             m.put("latent_steps_skipped_per_chain", perChain(result.latentStepsSkipped()));

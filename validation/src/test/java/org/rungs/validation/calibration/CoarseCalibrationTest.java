@@ -25,14 +25,19 @@ import org.rungs.priors.Priors;
 class CoarseCalibrationTest {
 
     /**
-     * Scale 0..4, coarse points {0,2,4}, 3 groups of 60, one level and one style covariate, 40
+     * Scale 0..4, coarse points {0,2,4}, 3 groups of 60, one level and one style covariate, 100
      * replications. The style block mixes slowly (median bulk ESS near 30 of 600 draws for
      * gamma[g]), so the ranks are somewhat over-dispersed and the false-alarm rate above 0.01.
+     * With 40 replications group_mean failed once the spreads' moves could start in warm-up
+     * ({@code CollapsedSpreadUpdate.ifSlow}): this seed's first 100 data sets put about a quarter
+     * of its ranks in the middle eighth under the sampler before that change as well (23 and 26
+     * of 100), while the next 400 do not; `rungs calibrate` on this design and seed with 500
+     * replications passes every quantity with either sampler (VALIDATION.md).
      */
     @Test
     void coarseClassIsCalibrated(@TempDir Path dir) {
-        CalibrationSummary s = SbcRuns.run(CalibrationConfig.coarse(20240611L, 40), dir);
-        assertEquals(40, s.results().size());
+        CalibrationSummary s = SbcRuns.run(CalibrationConfig.coarse(20240611L, 100), dir);
+        assertEquals(100, s.results().size());
         assertTrue(s.parameters().containsAll(List.of("style.w1", "style_mean", "style_sd", "style_group.g1",
                 "style_group.g2", "style_group.g3", "coarse_share.g1", "coarse_share.g2", "coarse_share.g3")),
                 s.parameters().toString());
