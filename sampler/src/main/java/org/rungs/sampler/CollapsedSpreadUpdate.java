@@ -26,8 +26,9 @@ import org.rungs.priors.Priors;
  * time. Where the joint step's metric is an {@link ArrowMetric} the moves run from the start
  * ({@link #of}). Elsewhere a spread's moves start at three quarters of warm-up only if its chain
  * has been slow ({@link #ifSlow}): on the demo (12 groups of 1,500) they cost a fifth more time and
- * gave no more ESS (seed 3: smallest bulk ESS 685 against 753), while on 60 groups of 30 or 30 of
- * 1,000 whose true spreads are small the smallest bulk ESS rose from 6 to 28 to 21 to 335. Under
+ * gave no more ESS (seed 3: smallest bulk ESS 685 against 753), while on 30 groups of 1,000 or 12
+ * of 300 whose true spreads are 0 the smallest bulk ESS per fit rose from between 7 and 126 to
+ * between 143 and 425 (bench/many-groups, seeds 7 and 8; BENCHMARKS.md). Under
  * attraction the thresholds' coordinates are logs of gaps scaled by tau_d
  * ({@link CollapsedPosterior}), so only tau_gamma moves here.
  *

@@ -60,17 +60,12 @@ class FitterTest {
         int[] group = new int[n];
         byte[] category = new byte[n];
         double[] x = new double[n];
-        List<String> labels = new ArrayList<>();
-        for (int g = 0; g < groups; g++) {
-            labels.add("g" + g);
-        }
         for (int i = 0; i < n; i++) {
             group[i] = i % groups;
             x[i] = random.nextGaussian();
             category[i] = (byte) Math.max(0, Math.min(10, Math.round(6 + 0.5 * x[i] + 2 * random.nextGaussian())));
         }
-        return Survey.of(new Scale(0, 10), category, group, labels, Covariates.fromNumeric(List.of("x"), List.of(x)),
-                Covariates.none(), null);
+        return onZeroToTen(category, group, groups, x);
     }
 
     /**
@@ -93,10 +88,6 @@ class FitterTest {
         int[] group = new int[n];
         byte[] category = new byte[n];
         double[] x = new double[n];
-        List<String> labels = new ArrayList<>();
-        for (int g = 0; g < groups; g++) {
-            labels.add("g" + g);
-        }
         for (int i = 0; i < n; i++) {
             int g = i % groups;
             group[i] = g;
@@ -108,6 +99,15 @@ class FitterTest {
             }
             boolean coarse = random.nextDouble() < 0.1 + 0.4 * g / groups;
             category[i] = (byte) (coarse ? 5 * Math.round(k / 5.0) : k);
+        }
+        return onZeroToTen(category, group, groups, x);
+    }
+
+    /** A survey on 0..10 of groups labelled g0, g1, ... with one level covariate x. */
+    private static Survey onZeroToTen(byte[] category, int[] group, int groups, double[] x) {
+        List<String> labels = new ArrayList<>();
+        for (int g = 0; g < groups; g++) {
+            labels.add("g" + g);
         }
         return Survey.of(new Scale(0, 10), category, group, labels, Covariates.fromNumeric(List.of("x"), List.of(x)),
                 Covariates.none(), null);
