@@ -17,7 +17,9 @@ import org.rungs.priors.Priors;
 
 /**
  * One Markov chain: its state and the cycle of updates of one sweep, in the order the joint
- * Hamiltonian step and the collapsed threshold steps (coarse class or attraction on), threshold
+ * Hamiltonian step, the spreads' collapsed moves (several groups, when slow or many;
+ * {@link CollapsedSpreadUpdate}) and the collapsed threshold steps (coarse class or attraction
+ * on; in the plain model only the moves of tau_d, when slow), threshold
  * hyperparameters, style classes (when on), number attraction and its trade step with the
  * thresholds (when on; {@link AttractionTradeUpdate}), latent levels, threshold
  * rescaling steps, level coefficients and group levels (under attraction only while the redraw
@@ -83,6 +85,9 @@ final class Chain implements Checkpointed {
                 sweep.add(spreads);
             }
             sweep.add(ThresholdUpdate.ends(state, order.start(), priors, rng));
+        } else if (state.byGroup && state.groups > 1) {
+            // the plain model: the latent levels are redrawn below before any step reads them
+            sweep.add(CollapsedSpreadUpdate.ifSlow(state, priors, rng, warmup));
         }
         if (state.byGroup) {
             sweep.add(CommonThresholdUpdate.of(state, priors, rng));

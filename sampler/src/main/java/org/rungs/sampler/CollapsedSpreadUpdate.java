@@ -33,7 +33,8 @@ import org.rungs.priors.Priors;
  * ({@link CollapsedPosterior}), so only tau_gamma moves here.
  *
  * <p>Placed right after the joint step: the steps after it sum the latent quantities out too or
- * redraw them before they condition on them.
+ * redraw them before they condition on them. The plain model (no joint step) moves tau_d alone,
+ * first in its sweep, before the latent levels are redrawn (van Dyk & Park 2008).
  */
 final class CollapsedSpreadUpdate implements Update, Checkpointed {
     private static final double TARGET_ACCEPTANCE = 0.44;

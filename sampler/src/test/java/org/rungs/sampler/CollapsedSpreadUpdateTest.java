@@ -128,6 +128,25 @@ class CollapsedSpreadUpdateTest {
         assertEquals("none", fast.spreadMoves());
     }
 
+    /**
+     * The plain model's sweep (no joint step) starts with the same moves of tau_d alone: on 40
+     * groups of 30 drawn alike they start at sweep 750 of 1,000 warm-up sweeps (this seed). That
+     * such fits stay calibrated is the plain calibration record's check
+     * (validation/records/2026-12-05-plain-spread-moves).
+     */
+    @Test
+    void thePlainModelsThresholdSpreadMovesStartWhenItIsSlow() {
+        ModelSpec plain = new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults(), StyleClasses.none());
+        Chain chain = Chain.of(SurveyOrder.of(FitterTest.manyGroups(40, 30, 3L)), plain, true, 1000,
+                RandomSource.XO_RO_SHI_RO_128_PP.create(5L));
+        for (int t = 0; t < 750; t++) {
+            chain.sweepOnce(true);
+        }
+        assertEquals("none", chain.spreadMoves());
+        chain.sweepOnce(true);
+        assertEquals("threshold_sd", chain.spreadMoves());
+    }
+
     /** Scales theta's part of the spread's ray by the factor and sets the spread to start * factor. */
     private interface Ray {
         void scale(double[] theta, double factor);
