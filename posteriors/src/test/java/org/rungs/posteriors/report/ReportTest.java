@@ -136,6 +136,8 @@ class ReportTest {
         assertTrue(html.contains("iterations per kept draw</td><td>2"), "the thinning from run.json");
         assertTrue(html.contains("joint step: leapfrog steps per chain</td><td>6.053, 8.058, 11.699, 6.003"), "joint step from run.json");
         assertTrue(html.contains("joint step: stopped on a wall per chain</td><td>0.272, 0.240, 0.239, 0.317"), "walls from run.json");
+        assertTrue(html.contains("spreads moved with their deviations per chain</td><td>none; style_sd; threshold_sd, style_sd; none"),
+                "spread moves from run.json");
         assertTrue(html.contains("The plain ordered probit's chains (4 of 1000 warm-up and 1000 kept iterations): All 153 "
                 + "quantities converged"), "the comparison fit's own verdict from run.json");
         assertFalse(html.contains("has not converged"));

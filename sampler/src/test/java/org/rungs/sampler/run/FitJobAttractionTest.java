@@ -75,6 +75,8 @@ class FitJobAttractionTest {
         assertTrue(run.replaceAll("\\s", "").contains("\"attraction_set\":[2,4]"), run);
         assertTrue(run.contains("\"attraction_mean\": \"" + Priors.defaults().attractionMean() + "\""), run);
         assertTrue(run.contains("\"latent_steps_skipped_per_chain\": \"0.000, 0.000\""), run);
+        // no spread to move: under attraction tau_d sits in the thresholds' coordinates, and no coarse class
+        assertFalse(run.contains("spread_moves_per_chain"), run);
         assertFalse(printed.contains("were skipped there"), printed);
         assertTrue(printed.contains("Numbers liked or avoided"), printed);
         for (String region : List.of("Fernholt", "Moorgate", "Lindcross")) {
@@ -133,6 +135,8 @@ class FitJobAttractionTest {
         assertTrue(run.contains("\"attraction\": \"none\""), run);
         assertFalse(run.contains("attraction_set") || run.contains("attraction_mean") || run.contains("latent_steps_skipped")
                 || run.contains("comparison_fit"), run);
+        // the plain model's tau_d moves, which 10 warm-up sweeps are too few to start
+        assertTrue(run.contains("\"spread_moves_per_chain\": \"none; none\""), run);
         assertFalse(printed.contains("liked or avoided") || printed.contains("attraction.csv")
                 || printed.contains("plain ordered probit"), printed);
     }
