@@ -35,7 +35,7 @@ final class ChainCheckpoint implements Closeable {
      * of their gaps, so its kept warm-up states and metric are in those coordinates; 11: above
      * {@link JointHamiltonianUpdate#DENSE_UP_TO} coordinates the metric as {@link ArrowMetric}'s
      * blocks; 12: there, the scales of {@link CollapsedSpreadUpdate}; 13: its window and which of
-     * its moves run, in every fit with the joint step and several groups). The last byte counts
+     * its moves run, in every fit of several groups with by-group thresholds or the coarse class). The last byte counts
      * the formats: "RUNGSCKD" is 13.
      */
     private static final long MAGIC = 0x52554E4753434B44L;
