@@ -166,6 +166,11 @@ final class CalibrateCommand implements Callable<Integer> {
         print.printf(Locale.ROOT, "%d replications; %d non-converged fits; %d fits with bulk ESS below the rank draws; "
                 + "false-alarm rate over all %d quantities at most %s.%n", summary.results().size(), summary.nonConverged(),
                 summary.thinnedTooLittle(), summary.verdicts().size(), summary.alpha());
+        long recorded = summary.chainsRecordingSpreadMoves();
+        if (recorded > 0) {
+            print.printf(Locale.ROOT, "The spreads' non-centred moves ran in %d of %d chains for threshold_sd and %d for style_sd "
+                    + "(fits.csv has them per fit).%n", summary.chainsMoving("threshold_sd"), recorded, summary.chainsMoving("style_sd"));
+        }
         List<String> failed = summary.failed();
         print.println(failed.isEmpty() ? "Calibrated: no quantity fails. Files in " + out
                 : "NOT calibrated: " + String.join(", ", failed) + " fail. Plots in " + out.resolve("plots"));

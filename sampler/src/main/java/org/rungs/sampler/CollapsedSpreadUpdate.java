@@ -28,9 +28,12 @@ import org.rungs.priors.Priors;
  * has been slow ({@link #ifSlow}): on the demo (12 groups of 1,500) they cost a fifth more time and
  * gave no more ESS (seed 3: smallest bulk ESS 685 against 753), while on 30 groups of 1,000 or 12
  * of 300 whose true spreads are 0 the smallest bulk ESS per fit rose from between 7 and 126 to
- * between 143 and 425 (bench/many-groups, seeds 7 and 8; BENCHMARKS.md). Under
- * attraction the thresholds' coordinates are logs of gaps scaled by tau_d
- * ({@link CollapsedPosterior}), so only tau_gamma moves here.
+ * between 143 and 425 (bench/many-groups, seeds 7 and 8; BENCHMARKS.md). Under attraction only
+ * tau_gamma moves here. The thresholds' coordinates there are scaled logs of gaps already in
+ * units of tau_d ({@link CollapsedPosterior}), so a move of tau_d alone would be exact, and it
+ * passed calibration, but on 150 groups of 15 it lowered threshold_sd's bulk ESS (seeds 7 to 11:
+ * from 25 to 68 to 20 to 30) and on 60 groups of 30 it raised it by half for about a fifth more
+ * time (SAMPLER-RESEARCH.md, fortieth session).
  *
  * <p>Placed right after the joint step: the steps after it sum the latent quantities out too or
  * redraw them before they condition on them. The plain model (no joint step) moves tau_d alone,

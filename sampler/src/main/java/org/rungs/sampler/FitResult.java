@@ -22,7 +22,8 @@ import org.rungs.posteriors.Draws;
  *                             without attraction
  * @param spreadMoves          per chain, which spreads {@link CollapsedSpreadUpdate} moved while
  *                             sampling ("threshold_sd", "style_sd", both comma-separated, or
- *                             "none"); null for a chain without that step (one group, plain model)
+ *                             "none"); null for a chain without that step (one group, or shared thresholds
+ *                             without the coarse class)
  * @param interrupted          true when the run was stopped before all iterations were done
  */
 public record FitResult(Draws draws, ParameterLayout layout, SamplerSettings settings, double seconds,

@@ -21,6 +21,8 @@ import org.rungs.posteriors.AtomicFiles;
 public final class ReplicationRecords {
     /** The subfolder of the records. */
     public static final String FOLDER = "replications";
+    /** Starts a line of a record that is not a row: a note about the whole fit. */
+    public static final String NOTE = "# ";
     /** A record's file name: {@code r} and the replication's index in seven digits. */
     public static final String RECORD = "r\\d{7}\\.csv";
 
@@ -59,17 +61,27 @@ public final class ReplicationRecords {
         return results;
     }
 
+    /** As {@link #rows(Path, String, int, Consumer, Consumer)}, ignoring notes. */
+    public static void rows(Path file, String header, int fields, Consumer<String[]> row) throws IOException {
+        rows(file, header, fields, row, note -> { });
+    }
+
     /**
      * Passes each row of a record after its header to {@code row}, split at commas. The record's
      * header must be {@code header} and each row have {@code fields} fields; a number that does
-     * not parse in {@code row} is reported with the file and line.
+     * not parse in {@code row} is reported with the file and line. Lines starting with
+     * {@value #NOTE} are notes about the whole fit and go to {@code note} without it.
      */
-    public static void rows(Path file, String header, int fields, Consumer<String[]> row) throws IOException {
+    public static void rows(Path file, String header, int fields, Consumer<String[]> row, Consumer<String> note) throws IOException {
         List<String> lines = Files.readAllLines(file, StandardCharsets.UTF_8);
         if (lines.isEmpty() || !lines.get(0).equals(header)) {
             throw new IOException(file + " is not a replication record (header " + header + ")");
         }
         for (int i = 1; i < lines.size(); i++) {
+            if (lines.get(i).startsWith(NOTE)) {
+                note.accept(lines.get(i).substring(NOTE.length()));
+                continue;
+            }
             String[] f = lines.get(i).split(",", -1);
             if (f.length != fields) {
                 throw new IOException(file + ": line " + (i + 1) + " has " + f.length + " fields, not " + fields);

@@ -36,6 +36,16 @@ class ReplicationRecordsTest {
     }
 
     @Test
+    void aNoteLineIsNotARow(@TempDir Path dir) throws IOException {
+        ReplicationRecords.write(dir, "r.csv", HEADER + "\na,1\n" + ReplicationRecords.NOTE + "about the fit, in words\nb,2\n");
+        List<String> notes = new ArrayList<>();
+        List<String> names = new ArrayList<>();
+        ReplicationRecords.rows(dir.resolve("r.csv"), HEADER, 2, f -> names.add(f[0]), notes::add);
+        assertEquals(List.of("a", "b"), names);
+        assertEquals(List.of("about the fit, in words"), notes);
+    }
+
+    @Test
     void aMissingFolderHasNoRecords(@TempDir Path dir) {
         assertTrue(ReplicationRecords.finished(dir.resolve("none"), ReplicationRecordsTest::values).isEmpty());
     }

@@ -19,6 +19,8 @@ import org.rungs.validation.ReplicationRecords;
 public final class CalibrationFolder {
     static final String REPLICATIONS = ReplicationRecords.FOLDER;
     private static final String HEADER = "parameter,truth,rank,draws,rhat,ess_bulk,ess_tail,flagged";
+    /** The record's note of the spreads moved per chain, after {@link ReplicationRecords#NOTE}. */
+    private static final String SPREAD_MOVES = "spread_moves_per_chain: ";
 
     private final Path dir;
     private final String description;
@@ -98,6 +100,9 @@ public final class CalibrationFolder {
                     .append(p.draws()).append(',').append(p.rhat()).append(',').append(p.essBulk()).append(',')
                     .append(p.essTail()).append(',').append(p.flagged()).append('\n');
         }
+        if (result.spreadMoves() != null) {
+            sb.append(ReplicationRecords.NOTE).append(SPREAD_MOVES).append(String.join("; ", result.spreadMoves())).append('\n');
+        }
         write(REPLICATIONS + "/" + fileName(result.replication()), sb.toString());
     }
 
@@ -108,10 +113,15 @@ public final class CalibrationFolder {
 
     private static ReplicationResult read(Path file, int index) throws IOException {
         List<ParameterRank> ranks = new ArrayList<>();
+        List<List<String>> moves = new ArrayList<>();
         ReplicationRecords.rows(file, HEADER, 8, f -> ranks.add(new ParameterRank(f[0], Double.parseDouble(f[1]),
                 Integer.parseInt(f[2]), Integer.parseInt(f[3]), Double.parseDouble(f[4]), Double.parseDouble(f[5]),
-                Double.parseDouble(f[6]), Boolean.parseBoolean(f[7]))));
-        return new ReplicationResult(index, ranks);
+                Double.parseDouble(f[6]), Boolean.parseBoolean(f[7]))), note -> {
+                    if (note.startsWith(SPREAD_MOVES)) {
+                        moves.add(List.of(note.substring(SPREAD_MOVES.length()).split("; ")));
+                    }
+                });
+        return new ReplicationResult(index, ranks, moves.isEmpty() ? null : moves.get(0));
     }
 
     /** Copies a replication record of another folder into this one, unchanged. */

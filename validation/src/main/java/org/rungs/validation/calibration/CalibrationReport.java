@@ -8,12 +8,15 @@ import java.util.Locale;
  * the replication records, so shards merged give the same bytes as one run.
  */
 final class CalibrationReport {
+    static final String THRESHOLD_SD = "threshold_sd";
+    static final String STYLE_SD = "style_sd";
     private CalibrationReport() {
     }
 
     static void write(CalibrationFolder folder, CalibrationSummary summary) {
         StringBuilder ranks = new StringBuilder("replication,parameter,rank,draws,truth\n");
-        StringBuilder fits = new StringBuilder("replication,non_converged,flagged_quantities,max_rhat,min_ess_bulk,min_ess_tail\n");
+        StringBuilder fits = new StringBuilder("replication,non_converged,flagged_quantities,max_rhat,min_ess_bulk,min_ess_tail,"
+                + "chains_moving_threshold_sd,chains_moving_style_sd\n");
         for (ReplicationResult r : summary.results()) {
             int flagged = 0;
             double maxRhat = Double.NEGATIVE_INFINITY;
@@ -29,7 +32,8 @@ final class CalibrationReport {
             }
             fits.append(r.replication()).append(',').append(r.nonConverged()).append(',').append(flagged).append(',')
                     .append(format("%.4f", maxRhat)).append(',').append(format("%.1f", minBulk)).append(',')
-                    .append(format("%.1f", minTail)).append('\n');
+                    .append(format("%.1f", minTail)).append(',').append(count(r.chainsMoving(THRESHOLD_SD))).append(',')
+                    .append(count(r.chainsMoving(STYLE_SD))).append('\n');
         }
         StringBuilder verdicts = new StringBuilder(
                 "parameter,replications,chi_square,df,p,ecdf_max_deviation,band_exceeded,level,verdict\n");
@@ -47,6 +51,11 @@ final class CalibrationReport {
             folder.write("plots/" + fileName(v.parameter()) + ".svg",
                     RankPlots.svg(v, summary.histograms().get(v.parameter()), summary.band()));
         }
+    }
+
+    /** A count, or empty when not recorded (-1). */
+    private static String count(int chains) {
+        return chains < 0 ? "" : Integer.toString(chains);
     }
 
     /** A file name for a quantity: characters other than letters, digits, '.', '_' and '-' become '_'. */

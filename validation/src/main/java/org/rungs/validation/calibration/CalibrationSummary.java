@@ -77,4 +77,14 @@ public record CalibrationSummary(List<ReplicationResult> results, int rankDraws,
     public long thinnedTooLittle() {
         return results.stream().filter(ReplicationResult::thinnedTooLittle).count();
     }
+
+    /** The chains of the fits that recorded their spread moves. */
+    public long chainsRecordingSpreadMoves() {
+        return results.stream().filter(r -> r.spreadMoves() != null).mapToLong(r -> r.spreadMoves().size()).sum();
+    }
+
+    /** Among those, the chains whose moves of {@code spread} (e.g. {@code threshold_sd}) ran. */
+    public long chainsMoving(String spread) {
+        return results.stream().mapToLong(r -> Math.max(r.chainsMoving(spread), 0)).sum();
+    }
 }

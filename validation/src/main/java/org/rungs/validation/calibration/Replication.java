@@ -66,7 +66,8 @@ public final class Replication {
         if (data.style() != null && config.fit().styleClasses().coarse()) {
             addCoarseShares(config, data, draws, ranks, rng);
         }
-        return new ReplicationResult(index, ranks);
+        String[] moves = fit.spreadMoves();
+        return new ReplicationResult(index, ranks, moves.length > 0 && moves[0] != null ? List.of(moves) : null);
     }
 
     private static ParameterRank rank(String name, double truth, double[][] chains, ParameterSummary summary,

@@ -14,6 +14,7 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.nio.file.attribute.FileTime;
 import java.util.List;
+import java.util.Map;
 import java.util.concurrent.atomic.AtomicBoolean;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
@@ -58,6 +59,32 @@ class ShardMergeResumeTest {
         assertTrue(lines.contains("8/8 replications"), lines);
         Calibration.run(tiny(), dir.resolve("single"), Shard.ALL, 2, null, new AtomicBoolean());
         assertSameFiles(dir.resolve("single"), resumed);
+    }
+
+    /**
+     * Which spreads each chain moved survives a fit's record and reaches fits.csv as counts and the
+     * summary as totals; a record without the note (written before it was kept) reads as not
+     * recorded, an empty cell rather than 0.
+     */
+    @Test
+    void theSpreadMovesOfAFitAreKeptInItsRecordAndCounted(@TempDir Path dir) throws IOException {
+        CalibrationFolder folder = CalibrationFolder.open(dir, tiny().withReplications(2));
+        List<ParameterRank> ranks = List.of(new ParameterRank("level.x1", 0.5, 3, 19, 1.001, 500, 400, false));
+        folder.write(new ReplicationResult(0, ranks, List.of("threshold_sd, style_sd", "none", "style_sd")));
+        folder.write(new ReplicationResult(1, ranks));
+        assertTrue(Files.readString(dir.resolve(CalibrationFolder.REPLICATIONS).resolve(CalibrationFolder.fileName(0)))
+                .endsWith("\n# spread_moves_per_chain: threshold_sd, style_sd; none; style_sd\n"));
+        Map<Integer, ReplicationResult> read = folder.finished();
+        assertEquals(List.of("threshold_sd, style_sd", "none", "style_sd"), read.get(0).spreadMoves());
+        assertNull(read.get(1).spreadMoves());
+        CalibrationSummary summary = Calibration.summarise(folder);
+        assertEquals(3, summary.chainsRecordingSpreadMoves());
+        assertEquals(1, summary.chainsMoving("threshold_sd"));
+        assertEquals(2, summary.chainsMoving("style_sd"));
+        List<String> fits = Files.readAllLines(dir.resolve("fits.csv"));
+        assertTrue(fits.get(0).endsWith(",min_ess_tail,chains_moving_threshold_sd,chains_moving_style_sd"), fits.get(0));
+        assertTrue(fits.get(1).startsWith("0,false,0,1.0010,500.0,400.0,1,2"), fits.get(1));
+        assertTrue(fits.get(2).endsWith(",400.0,,"), fits.get(2));
     }
 
     @Test
