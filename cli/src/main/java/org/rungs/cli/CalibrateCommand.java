@@ -17,6 +17,7 @@ import org.rungs.validation.calibration.Calibration;
 import org.rungs.validation.calibration.CalibrationConfig;
 import org.rungs.validation.calibration.CalibrationFolder;
 import org.rungs.validation.calibration.CalibrationSummary;
+import org.rungs.validation.calibration.ReplicationResult;
 import org.rungs.validation.calibration.Shard;
 import org.rungs.validation.calibration.Verdict;
 import picocli.CommandLine.Command;
@@ -169,7 +170,8 @@ final class CalibrateCommand implements Callable<Integer> {
         long recorded = summary.chainsRecordingSpreadMoves();
         if (recorded > 0) {
             print.printf(Locale.ROOT, "The spreads' non-centred moves ran in %d of %d chains for threshold_sd and %d for style_sd "
-                    + "(fits.csv has them per fit).%n", summary.chainsMoving("threshold_sd"), recorded, summary.chainsMoving("style_sd"));
+                    + "(fits.csv has them per fit).%n", summary.chainsMoving(ReplicationResult.THRESHOLD_SD), recorded,
+                    summary.chainsMoving(ReplicationResult.STYLE_SD));
         }
         List<String> failed = summary.failed();
         print.println(failed.isEmpty() ? "Calibrated: no quantity fails. Files in " + out

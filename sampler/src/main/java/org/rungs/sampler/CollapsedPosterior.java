@@ -24,8 +24,8 @@ import org.rungs.priors.StandardNormal;
  * a[j] alone. The density is the one of MODEL.md 3 to 5 in these coordinates, with the
  * Jacobians of the logs, of u (sum of log(g / G), up to a constant in tau_d, which the step
  * holds: its factor tau_d^(M-2) per group cancels the deviations' normaliser tau_d^-(M-2), which
- * is left out too, so the density is also the joint one of tau_d and u) and of z, and zero where a group's thresholds are not increasing (with the deviations
- * as coordinates). On the log scale the common row's lowest gap, whose long flat tail appears
+ * is left out too, so the density is also the joint one of tau_d and u) and of z, and zero where
+ * a group's thresholds are not increasing (with the deviations as coordinates). On the log scale the common row's lowest gap, whose long flat tail appears
  * when most answers at that end can be coarse ones, is closer to Gaussian. A group's gap is
  * G + tau_d u to first order, so where the deviations' prior and the data hold it well away from
  * 0, u is a standardised deviation and the prior on d[g,.] stays nearly Gaussian in it (a plain

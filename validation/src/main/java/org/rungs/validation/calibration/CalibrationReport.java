@@ -8,8 +8,6 @@ import java.util.Locale;
  * the replication records, so shards merged give the same bytes as one run.
  */
 final class CalibrationReport {
-    static final String THRESHOLD_SD = "threshold_sd";
-    static final String STYLE_SD = "style_sd";
     private CalibrationReport() {
     }
 
@@ -32,8 +30,8 @@ final class CalibrationReport {
             }
             fits.append(r.replication()).append(',').append(r.nonConverged()).append(',').append(flagged).append(',')
                     .append(format("%.4f", maxRhat)).append(',').append(format("%.1f", minBulk)).append(',')
-                    .append(format("%.1f", minTail)).append(',').append(count(r.chainsMoving(THRESHOLD_SD))).append(',')
-                    .append(count(r.chainsMoving(STYLE_SD))).append('\n');
+                    .append(format("%.1f", minTail)).append(',').append(count(r.chainsMoving(ReplicationResult.THRESHOLD_SD))).append(',')
+                    .append(count(r.chainsMoving(ReplicationResult.STYLE_SD))).append('\n');
         }
         StringBuilder verdicts = new StringBuilder(
                 "parameter,replications,chi_square,df,p,ecdf_max_deviation,band_exceeded,level,verdict\n");

@@ -12,6 +12,9 @@ import java.util.List;
  *                    without those moves, or a record written before they were kept
  */
 public record ReplicationResult(int replication, List<ParameterRank> ranks, List<String> spreadMoves) {
+    /** The spreads that {@link #spreadMoves} names. */
+    public static final String THRESHOLD_SD = "threshold_sd";
+    public static final String STYLE_SD = "style_sd";
 
     public ReplicationResult {
         ranks = List.copyOf(ranks);
