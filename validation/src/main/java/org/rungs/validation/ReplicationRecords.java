@@ -61,9 +61,9 @@ public final class ReplicationRecords {
         return results;
     }
 
-    /** As {@link #rows(Path, String, int, Consumer, Consumer)}, ignoring notes. */
+    /** As {@link #rows(Path, String, int, Consumer, Consumer)} for a record that has no notes: a note line is a damaged row. */
     public static void rows(Path file, String header, int fields, Consumer<String[]> row) throws IOException {
-        rows(file, header, fields, row, note -> { });
+        rows(file, header, fields, row, null);
     }
 
     /**
@@ -78,7 +78,7 @@ public final class ReplicationRecords {
             throw new IOException(file + " is not a replication record (header " + header + ")");
         }
         for (int i = 1; i < lines.size(); i++) {
-            if (lines.get(i).startsWith(NOTE)) {
+            if (note != null && lines.get(i).startsWith(NOTE)) {
                 note.accept(lines.get(i).substring(NOTE.length()));
                 continue;
             }

@@ -56,7 +56,8 @@ class ReplicationRecordsTest {
         for (String[] damage : new String[][] {
                 {"quantity,value\na,1\n", "is not a replication record (header name,value)"},
                 {HEADER + "\na,1\nb,2,3\n", ": line 3 has 3 fields, not 2"},
-                {HEADER + "\na,x\n", ": line 2: "}}) {
+                {HEADER + "\na,x\n", ": line 2: "},
+                {HEADER + "\na,1\n" + ReplicationRecords.NOTE + "a note where none is read\n", ": line 3 has 1 fields, not 2"}}) {
             ReplicationRecords.write(dir, ReplicationRecords.FOLDER + "/" + file.getFileName(), damage[0]);
             UncheckedIOException e = assertThrows(UncheckedIOException.class,
                     () -> ReplicationRecords.finished(dir, ReplicationRecordsTest::values));
