@@ -2,21 +2,32 @@ package org.rungs.cli;
 
 import java.io.UncheckedIOException;
 import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Set;
 import java.util.concurrent.Callable;
 import org.rungs.examples.Demo;
 import org.rungs.models.ModelSpec;
 import org.rungs.models.survey.SurveyInputException;
+import org.rungs.models.survey.SurveySpec;
+import org.rungs.sampler.run.CheckpointPolicy;
 import org.rungs.sampler.run.FitJob;
 import org.rungs.sampler.run.FitOutcome;
+import org.rungs.sampler.run.FitRequest;
+import picocli.CommandLine.Model.CommandSpec;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Option;
+import picocli.CommandLine.Spec;
 
 /** {@code rungs demo}: fits the built-in invented survey and compares the estimates with the truth. */
 @Command(name = "demo", mixinStandardHelpOptions = true, sortOptions = false,
         description = {"Fit the built-in demo: an invented 0..10 survey of 12 fictional regions with income and age.",
                 "Writes the demo data, its true parameters and the fit's files to the output folder."})
 final class DemoCommand implements Callable<Integer> {
+    @Spec
+    CommandSpec spec;
+
     @Option(names = "--out", defaultValue = "rungs-demo", paramLabel = "DIR", description = "Output folder. Default: ${DEFAULT-VALUE}.")
     Path out;
 
@@ -48,7 +59,8 @@ final class DemoCommand implements Callable<Integer> {
         System.err.println("rungs: demo data written to " + out.resolve(Demo.SURVEY_FILE) + " (true values in "
                 + Demo.TRUTH_FILE + ")");
         try (Interruption interruption = new Interruption()) {
-            FitOutcome outcome = FitJob.run(demo.request(), System.out, System.err, interruption.flag());
+            FitOutcome outcome = FitJob.run(demo.request(), System.out, System.err, interruption.flag(),
+                    CheckpointPolicy.start(fitArguments(demo.request()), CheckpointPolicy.DEFAULT_SECONDS));
             if (outcome.summaries().isEmpty()) {
                 System.err.println("rungs demo: stopped before any draw was kept; run the demo again");
                 return Main.INTERRUPTED;
@@ -58,13 +70,37 @@ final class DemoCommand implements Callable<Integer> {
             System.out.print(Demo.compare(outcome, demo.truth(), model.attraction().on()));
             Runs.writeReport(out);
             if (outcome.interrupted()) {
-                System.err.println("rungs demo: stopped early; the files hold the draws kept so far; run the demo again"
-                        + " for the whole fit");
+                System.err.println("rungs demo: stopped early; the files hold the draws kept so far; 'rungs fit --resume "
+                        + out + "' finishes the fit");
             }
             return outcome.interrupted() ? Main.INTERRUPTED : 0;
         } catch (SurveyInputException | IllegalArgumentException | UncheckedIOException e) {
             System.err.println("rungs demo: " + e.getMessage());
             return Main.INPUT_ERROR;
         }
+    }
+
+    /**
+     * The 'rungs fit' arguments that fit the demo's survey file as the demo does: its columns,
+     * this command's own model and sampler options (the demo's seed and thin included), and
+     * --report, as the demo writes one. Kept with the checkpoint, so that 'rungs fit --resume'
+     * continues a demo that was interrupted or has not converged.
+     */
+    private List<String> fitArguments(FitRequest request) {
+        SurveySpec survey = request.survey();
+        List<String> args = new ArrayList<>(List.of(request.file().toString(), "--rating", survey.ratingColumn(),
+                "--group", survey.groupColumn(), "--out", out.toString(), "--report"));
+        if (!survey.levelColumns().isEmpty()) {
+            args.addAll(List.of("--level", String.join(",", survey.levelColumns())));
+        }
+        if (!survey.styleColumns().isEmpty()) {
+            args.addAll(List.of("--style", String.join(",", survey.styleColumns())));
+        }
+        // the demo's own options, its output folder, seed and thin given anew below
+        args.addAll(Arguments.without(spec.commandLine().getParseResult().expandedArgs(),
+                Set.of("--out", "--seed", "--thin"), Set.of("--overwrite", "--no-overwrite")));
+        args.add("--seed=" + request.settings().seed());
+        args.add("--thin=" + request.settings().thin());
+        return args;
     }
 }

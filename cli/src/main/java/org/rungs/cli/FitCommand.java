@@ -26,17 +26,22 @@ import picocli.CommandLine.Spec;
 /** {@code rungs fit}: fits the model to a survey file and writes draws, summaries and the run record. */
 @Command(name = "fit", mixinStandardHelpOptions = true, sortOptions = false,
         customSynopsis = {"rungs fit [OPTIONS] FILE --rating=COL --out=DIR",
-                "       rungs fit --resume=DIR [--report] [--threads=N]"},
+                "       rungs fit --resume=DIR [--thin=K] [--report] [--threads=N]"},
         description = {"Fit the model to a survey file (CSV or TSV, optionally gzip-compressed, with a header row).",
                 "Writes draws.csv, summary.csv, the corrected quantities (derived_draws.csv, derived_summary.csv, "
                         + "groups.csv, distributions.csv, coarse_shares.csv, attraction.csv with --attraction, "
                         + "coefficients.csv) and run.json to the output folder, and prints the summary.",
                 "While it runs, the chains are saved every few seconds in DIR/.checkpoint; a fit that was killed or "
                         + "interrupted (Ctrl-C, exit code 130) continues with 'rungs fit --resume DIR' and then gives the "
-                        + "same draws, bit for bit, as if it had never stopped."})
+                        + "same draws, bit for bit, as if it had never stopped. A fit that ends without converging keeps "
+                        + "them too: 'rungs fit --resume DIR --thin K' continues its chains without a new warm-up."})
 final class FitCommand implements Callable<Integer> {
-    /** The options that may accompany --resume: they change neither the model nor the draws. */
-    private static final java.util.Set<String> RESUME_OPTIONS = java.util.Set.of("--resume", "--report", "--threads", "--checkpoint-seconds");
+    /**
+     * The options that may accompany --resume: they change neither the model nor the chains
+     * (--thin only which of their iterations are kept, a multiple of the saved fit's).
+     */
+    private static final java.util.Set<String> RESUME_OPTIONS = java.util.Set.of("--resume", "--thin", "--report", "--threads",
+            "--checkpoint-seconds");
 
     @Spec
     CommandSpec spec;
@@ -80,9 +85,10 @@ final class FitCommand implements Callable<Integer> {
     @Option(names = "--out", paramLabel = "DIR", description = "Output folder (required unless --resume).")
     Path out;
 
-    @Option(names = "--resume", paramLabel = "DIR", description = "Continue the unfinished fit in output folder DIR from its checkpoint, "
-            + "with the file, options and seed it was started with (give no others; --report and --threads are allowed). "
-            + "Refused if the file has changed.")
+    @Option(names = "--resume", paramLabel = "DIR", description = "Continue the fit in output folder DIR from its checkpoint (one "
+            + "that was interrupted, or ended without converging), with the file, options and seed it was started with "
+            + "(give no others; --report and --threads are allowed, and --thin K, a multiple of the fit's, to run its "
+            + "chains on and keep one iteration in K). Refused if the file has changed.")
     Path resume;
 
     @Option(names = "--checkpoint-seconds", hidden = true, defaultValue = "5", paramLabel = "S",
@@ -133,10 +139,11 @@ final class FitCommand implements Callable<Integer> {
             throw new ParameterException(spec.commandLine(), "--resume takes no FILE: the fit continues with the file it was started with");
         }
         FitRequest request;
+        List<String> arguments = List.of();
         try {
             SavedFit saved = SavedFit.read(resume);
             if (saved.arguments().isEmpty()) {
-                throw new IllegalArgumentException("the unfinished fit in " + resume + " was not started by 'rungs fit'; start it again");
+                throw new IllegalArgumentException("the fit in " + resume + " was not started by 'rungs fit'; start it again");
             }
             FitCommand started = new FitCommand();
             new CommandLine(started).parseArgs(saved.arguments().toArray(new String[0]));
@@ -146,13 +153,30 @@ final class FitCommand implements Callable<Integer> {
             if (sampling.threads != null) {
                 started.sampling.threads = sampling.threads;
             }
+            if (sampling.thin != null) {
+                int was = started.sampling.thin != null ? started.sampling.thin : 1;
+                if (sampling.thin < was || sampling.thin % was != 0) {
+                    throw new IllegalArgumentException("--thin " + sampling.thin + " is not a multiple of the fit's --thin "
+                            + was + ": continued chains keep every r-th of the iterations they kept, so give "
+                            + was + ", " + 2 * was + ", " + 3 * was + " or another multiple");
+                }
+                started.sampling.thin = sampling.thin;
+                arguments = withThin(saved.arguments(), sampling.thin);
+            }
             report = report || started.report;
             request = started.request(started.sampling.settings());
         } catch (IllegalArgumentException e) {
             System.err.println("rungs fit: " + e.getMessage());
             return Main.INPUT_ERROR;
         }
-        return Runs.fit(request, report, CheckpointPolicy.resume(checkpointSeconds));
+        return Runs.fit(request, report, CheckpointPolicy.resume(checkpointSeconds, arguments));
+    }
+
+    /** {@code arguments} with their --thin (if any) replaced by {@code thin}. */
+    private static List<String> withThin(List<String> arguments, int thin) {
+        List<String> out = Arguments.without(arguments, java.util.Set.of("--thin"), java.util.Set.of());
+        out.add("--thin=" + thin);
+        return out;
     }
 
     private FitRequest request(SamplerSettings settings) {

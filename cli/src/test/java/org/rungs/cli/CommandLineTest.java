@@ -241,6 +241,30 @@ final class CommandLineTest {
         assertTrue(a.err().contains("3 kept iterations (one in 2 of 6 iterations)"), a.err());
     }
 
+    /**
+     * The demo keeps the chains of a fit that has not converged under the 'rungs fit' arguments
+     * that fit its survey as it does: 'fit --resume DIR --thin 4' continues them and writes the
+     * files of a demo run with --thin 4, byte for byte.
+     */
+    @Test
+    void anUnconvergedDemoIsContinuedByFitResume() throws Exception {
+        String[] shortChains = {"--chains", "2", "--warmup", "20", "--draws", "100", "--seed", "3"};
+        Path demo = dir.resolve("continued-demo");
+        Run first = rungs(concat(new String[] {"demo", "--out", demo.toString()}, shortChains));
+        assertEquals(0, first.exit(), first.err());
+        assertTrue(first.out().contains("'rungs fit --resume " + demo + " --thin "), first.out());
+        Run continued = rungs("fit", "--resume", demo.toString(), "--thin", "4");
+        assertEquals(0, continued.exit(), continued.err());
+        assertTrue(Files.exists(demo.resolve("report.html")), "the demo's report is written again");
+
+        Path fresh = dir.resolve("thinned-demo");
+        Run thinned = rungs(concat(new String[] {"demo", "--out", fresh.toString(), "--thin", "4"}, shortChains));
+        assertEquals(0, thinned.exit(), thinned.err());
+        for (String name : List.of("draws.csv", "summary.csv", "derived_draws.csv", "coefficients.csv")) {
+            assertEquals(Files.readString(fresh.resolve(name)), Files.readString(demo.resolve(name)), name);
+        }
+    }
+
     @Test
     void theFitThatSimulateSuggestsNamesEveryColumnAndRuns() throws IOException {
         Path sim = dir.resolve("suggested");

@@ -34,6 +34,7 @@ final class ResumeTest {
     static Path shared;
     static Path survey;
     static byte[] referenceDraws;
+    static boolean referenceConverged;
 
     /** 6 invented regions of 80 respondents on 0..10, about a third of them heaped on 0, 5 and 10. */
     @BeforeAll
@@ -54,7 +55,9 @@ final class ResumeTest {
         CommandLineTest.Run r = CommandLineTest.rungs(fitArguments(out));
         assertEquals(0, r.exit(), r.err());
         referenceDraws = Files.readAllBytes(out.resolve("draws.csv"));
-        assertFalse(Files.exists(out.resolve(".checkpoint")), "a finished fit leaves no checkpoint");
+        referenceConverged = !r.out().contains("The chains have not converged");
+        assertEquals(!referenceConverged, Files.exists(out.resolve(".checkpoint")),
+                "a finished fit keeps its checkpoint only when it has not converged");
     }
 
     /** Box-Muller, so the survey does not depend on anything but this seed. */
@@ -141,7 +144,7 @@ final class ResumeTest {
         Process third = start(dir, "third", "fit", "--resume", out.toString());
         assertEquals(0, finish(third), read(dir.resolve("third.err")));
         assertArrayEquals(referenceDraws, Files.readAllBytes(out.resolve("draws.csv")), "draws.csv, byte for byte");
-        assertFalse(Files.exists(checkpoint), "the finished fit removed its checkpoint");
+        assertEquals(!referenceConverged, Files.exists(checkpoint), "the finished fit keeps its checkpoint only unconverged");
     }
 
     @Test
@@ -163,11 +166,44 @@ final class ResumeTest {
 
         CommandLineTest.Run refused = CommandLineTest.rungs(fitArguments(out));
         assertEquals(Main.INPUT_ERROR, refused.exit());
-        assertTrue(refused.err().contains("unfinished fit"), refused.err());
+        assertTrue(refused.err().contains("holds the checkpoint of a fit that was interrupted"), refused.err());
 
         CommandLineTest.Run resumed = CommandLineTest.rungs("fit", "--resume", out.toString());
         assertEquals(0, resumed.exit(), resumed.err());
         assertArrayEquals(referenceDraws, Files.readAllBytes(out.resolve("draws.csv")), "draws.csv, byte for byte");
+    }
+
+    /**
+     * A fit that ends without converging (short chains kept every second iteration) says how to
+     * continue its chains; 'fit --resume DIR --thin K' refuses a K that is not a multiple of 2 and
+     * with 4 writes the draws.csv of a fit started with --thin 4, byte for byte.
+     */
+    @Test
+    void anUnconvergedFitContinuesWithMoreThinning(@TempDir Path dir) throws Exception {
+        List<String> shortChains = List.of("--chains", "2", "--warmup", "60", "--draws", "100", "--seed", "31");
+        Path everyFourth = dir.resolve("every-fourth");
+        List<String> fresh = new ArrayList<>(List.of("fit", survey.toString(), "--rating", "rating", "--group", "region",
+                "--out", everyFourth.toString(), "--thin", "4"));
+        fresh.addAll(shortChains);
+        assertEquals(0, CommandLineTest.rungs(fresh.toArray(new String[0])).exit());
+
+        Path out = dir.resolve("fit");
+        List<String> first = new ArrayList<>(List.of("fit", survey.toString(), "--rating", "rating", "--group", "region",
+                "--out", out.toString(), "--thin=2"));
+        first.addAll(shortChains);
+        CommandLineTest.Run unconverged = CommandLineTest.rungs(first.toArray(new String[0]));
+        assertEquals(0, unconverged.exit(), unconverged.err());
+        assertTrue(unconverged.out().contains("'rungs fit --resume " + out + " --thin "), unconverged.out());
+
+        CommandLineTest.Run three = CommandLineTest.rungs("fit", "--resume", out.toString(), "--thin", "3");
+        assertEquals(Main.INPUT_ERROR, three.exit());
+        assertTrue(three.err().contains("--thin 3 is not a multiple of the fit's --thin 2"), three.err());
+
+        CommandLineTest.Run four = CommandLineTest.rungs("fit", "--resume", out.toString(), "--thin", "4");
+        assertEquals(0, four.exit(), four.err());
+        assertTrue(four.err().contains("continuing the fit in " + out + " with one iteration in 4 kept"), four.err());
+        assertArrayEquals(Files.readAllBytes(everyFourth.resolve("draws.csv")), Files.readAllBytes(out.resolve("draws.csv")),
+                "draws.csv, byte for byte");
     }
 
     @Test

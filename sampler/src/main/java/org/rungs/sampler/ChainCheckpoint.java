@@ -22,6 +22,11 @@ import org.rungs.posteriors.Draws;
  * replaced atomically (written to a temporary file, then renamed), and {@code draws-K.bin}, its
  * kept draws as raw doubles, appended as they are made and flushed with every save. The draws
  * file may run ahead of the state after a kill; a resume cuts it back to the saved count.
+ *
+ * <p>A resume may keep fewer iterations than the saved fit: with a thin that is a multiple r of
+ * the saved one (the same draws per chain), every r-th saved draw is kept and the file rewritten
+ * so. The chain's sweeps and random stream do not depend on the thin, so the draws are then those
+ * of a fit started with the new thin.
  */
 final class ChainCheckpoint implements Closeable {
     /**
@@ -40,8 +45,15 @@ final class ChainCheckpoint implements Closeable {
      */
     private static final long MAGIC = 0x52554E4753434B44L;
 
-    /** Iterations done (warm-up included) and kept draws at a save. */
-    record Position(int iterations, int kept) {
+    /**
+     * Iterations done (warm-up included) and kept draws at a save, and how many of those saved
+     * draws make one of the resumed fit's (its thin over the saved thin; 1 but for a resume with more thinning).
+     */
+    record Position(int iterations, int kept, int ratio) {
+        /** The draws kept at this position by the resumed fit: every ratio-th saved one. */
+        int keptNow() {
+            return kept / ratio;
+        }
     }
 
     private final Path stateFile;
@@ -70,21 +82,26 @@ final class ChainCheckpoint implements Closeable {
      */
     Position restore(Chain target, Draws draws) throws IOException {
         Files.createDirectories(stateFile.getParent());
-        Position at = new Position(0, 0);
+        Position at = new Position(0, 0, 1);
         if (resume && Files.exists(stateFile)) {
             try (DataInputStream in = new DataInputStream(new ByteArrayInputStream(Files.readAllBytes(stateFile)))) {
                 at = readHeader(in);
                 target.restore(in);
             }
-            readDraws(draws, at.kept());
+            readDraws(draws, at);
         }
         try (FileChannel channel = FileChannel.open(drawsFile, StandardOpenOption.CREATE, StandardOpenOption.WRITE)) {
-            channel.truncate((long) at.kept() * parameters * Double.BYTES);
+            channel.truncate((long) at.keptNow() * parameters * Double.BYTES);
         }
         drawsOut = new DataOutputStream(new BufferedOutputStream(
                 Files.newOutputStream(drawsFile, StandardOpenOption.APPEND), 1 << 16));
+        Position now = new Position(at.iterations(), at.keptNow(), 1);
+        if (at.ratio() > 1) {
+            // the state's header now says the new thin, matching the rewritten draws file
+            save(target, now.iterations(), now.kept());
+        }
         lastSave = System.nanoTime();
-        return at;
+        return now;
     }
 
     /**
@@ -111,26 +128,53 @@ final class ChainCheckpoint implements Closeable {
         int thin = in.readInt();
         int savedParameters = in.readInt();
         if (savedChain != chain || seed != settings.seed() || warmup != settings.warmup() || kept != settings.draws()
-                || thin != settings.thin() || savedParameters != parameters) {
+                || thin < 1 || settings.thin() % thin != 0 || savedParameters != parameters) {
             throw new IOException(stateFile + " was saved by another fit (chain " + savedChain + ", seed " + seed + ", "
                     + warmup + " warm-up + " + kept + " kept draws, thin " + thin + ", " + savedParameters + " parameters)");
         }
-        return new Position(in.readInt(), in.readInt());
+        return new Position(in.readInt(), in.readInt(), settings.thin() / thin);
     }
 
-    private void readDraws(Draws draws, int kept) throws IOException {
-        long needed = (long) kept * parameters * Double.BYTES;
-        if (Files.size(drawsFile) < needed) {
-            throw new IOException(drawsFile + " holds fewer than the " + kept + " kept draws its checkpoint counts");
+    /**
+     * Puts the saved draws the resumed fit keeps into {@code draws}. With more thinning the draws
+     * file is replaced by those it keeps before the state is saved with the new thin; a file of
+     * exactly that many draws, fewer than the state counts, is one a kill left between the two
+     * (a draws file otherwise never falls behind its state), and is read as it is.
+     */
+    private void readDraws(Draws draws, Position at) throws IOException {
+        long rowBytes = (long) parameters * Double.BYTES;
+        long size = Files.size(drawsFile);
+        boolean rethinned = at.ratio() > 1 && size == at.keptNow() * rowBytes && at.keptNow() < at.kept();
+        if (!rethinned && size < at.kept() * rowBytes) {
+            throw new IOException(drawsFile + " holds fewer than the " + at.kept() + " kept draws its checkpoint counts");
         }
+        int step = rethinned ? 1 : at.ratio();
         double[] row = new double[parameters];
         try (InputStream file = Files.newInputStream(drawsFile);
              DataInputStream in = new DataInputStream(new BufferedInputStream(file, 1 << 16))) {
-            for (int t = 0; t < kept; t++) {
+            for (int t = 0; t < at.keptNow() * step; t++) {
                 for (int p = 0; p < parameters; p++) {
                     row[p] = Double.longBitsToDouble(in.readLong());
                 }
-                draws.putRow(chain, t, row);
+                // saved draw t is iteration warmup + (t + 1) x saved thin: kept when t + 1 is a multiple of the ratio
+                if ((t + 1) % step == 0) {
+                    draws.putRow(chain, (t + 1) / step - 1, row);
+                }
+            }
+        }
+        if (at.ratio() > 1 && !rethinned) {
+            Path tmp = drawsFile.resolveSibling(drawsFile.getFileName() + ".partial");
+            try (DataOutputStream out = new DataOutputStream(new BufferedOutputStream(Files.newOutputStream(tmp), 1 << 16))) {
+                for (int t = 0; t < at.keptNow(); t++) {
+                    for (int p = 0; p < parameters; p++) {
+                        out.writeLong(Double.doubleToRawLongBits(draws.get(p, chain, t)));
+                    }
+                }
+            }
+            try {
+                Files.move(tmp, drawsFile, StandardCopyOption.ATOMIC_MOVE, StandardCopyOption.REPLACE_EXISTING);
+            } catch (AtomicMoveNotSupportedException e) {
+                Files.move(tmp, drawsFile, StandardCopyOption.REPLACE_EXISTING);
             }
         }
     }

@@ -295,6 +295,40 @@ final class CheckpointTest {
         assertEquals("chain 1 done 70/70 | chain 2 done 70/70", first);
     }
 
+    /**
+     * A finished fit continued with a multiple of its thin (40 draws of every iteration, then of
+     * every fourth) gives the draws of a fit started with that thin, also when a kill came between
+     * the rewriting of the draws file and the save of the state with the new thin: that state's
+     * copy is put back after a continuation stopped before its first iteration. A thin that is not
+     * a multiple is refused.
+     */
+    @Test
+    void aFinishedFitContinuedWithMoreThinningGivesTheThinnedDraws() throws IOException {
+        SamplerSettings everyFourth = new SamplerSettings(2, 30, 40, 17L, 2, 4);
+        Draws reference = Fitter.fit(survey(), spec(), everyFourth, ProgressListener.NONE, new AtomicBoolean(),
+                Checkpoints.none()).draws();
+        Path here = dir.resolve("continued");
+        assertFalse(fit(ProgressListener.NONE, new AtomicBoolean(), Checkpoints.start(here, RARELY)).interrupted());
+        Path snapshot = Files.createDirectories(dir.resolve("snapshot"));
+        for (int c = 0; c < SETTINGS.chains(); c++) {
+            Files.copy(here.resolve("chain-" + c + ".bin"), snapshot.resolve("chain-" + c + ".bin"));
+        }
+        assertTrue(Fitter.fit(survey(), spec(), everyFourth, ProgressListener.NONE, new AtomicBoolean(true),
+                Checkpoints.resume(here, RARELY)).interrupted());
+        long rows = Files.size(here.resolve("draws-0.bin")) / ((long) reference.parameterCount() * Double.BYTES);
+        assertEquals(10, rows, "the draws file holds every fourth of the 40 draws");
+        UncheckedIOException refused = assertThrows(UncheckedIOException.class, () -> Fitter.fit(survey(), spec(),
+                new SamplerSettings(2, 30, 40, 17L, 2, 6), ProgressListener.NONE, new AtomicBoolean(true),
+                Checkpoints.resume(here, RARELY)));
+        assertTrue(refused.getMessage().contains("another fit"), refused.getMessage());
+        for (int c = 0; c < SETTINGS.chains(); c++) {
+            Files.copy(snapshot.resolve("chain-" + c + ".bin"), here.resolve("chain-" + c + ".bin"),
+                    StandardCopyOption.REPLACE_EXISTING);
+        }
+        assertSameDraws(reference, Fitter.fit(survey(), spec(), everyFourth, ProgressListener.NONE, new AtomicBoolean(),
+                Checkpoints.resume(here, RARELY)).draws());
+    }
+
     @Test
     void aCheckpointOfAnotherFitIsRefused() {
         Path here = dir.resolve("other");

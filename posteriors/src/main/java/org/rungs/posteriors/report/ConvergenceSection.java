@@ -118,6 +118,11 @@ final class ConvergenceSection {
             sb.append("The corrected quantities computed from the draws (derived_summary.csv) have their own check: ")
                     .append(derived).append(' ');
         }
+        if (fit.flag("continuable")) {
+            sb.append("The fit kept its chains (in the folder's .checkpoint): 'rungs fit --resume DIR --thin K', with K a"
+                    + " multiple of this fit's thin (").append(fit.text("options.thin", "1")).append("), runs them on"
+                    + " without a new warm-up (README). ");
+        }
         if (verdict.interrupted()) {
             sb.append("The run was interrupted: only ").append(fit.text("sampler.kept_draws", "some"))
                     .append(" of ").append(fit.text("sampler.draws", "the planned")).append(" draws per chain were kept.");

@@ -246,6 +246,18 @@ class ReportTest {
         assertTrue(html.contains("The run was interrupted: only 5 of 8 draws per chain were kept."));
     }
 
+    /** A fit that kept its chains (run.json's "continuable", as FitJob writes it) is told how to run them on. */
+    @Test
+    void aFitThatKeptItsChainsSaysHowToContinueThem() throws Exception {
+        Path dir = copyOfOneGroup(tmp.resolve("fit"));
+        String continuation = Html.escape("'rungs fit --resume DIR --thin K', with K a multiple of this fit's thin (1), runs them on");
+        assertFalse(Files.readString(Report.write(dir)).contains(continuation), "the fixture kept no chains");
+        Path run = dir.resolve("run.json");
+        Files.writeString(run, Files.readString(run).replace("\"finished\":", "\"continuable\": true, \"finished\":"));
+        String html = Files.readString(Report.write(dir));
+        assertTrue(html.contains(continuation), html);
+    }
+
     @Test
     void aHundredAndFiftyGroupsGetOneChartEachAndRoomForEveryLabel() throws Exception {
         Path dir = FitFolderFixture.write(tmp.resolve("fit"), FitFolderFixture.numberedRegions(150), true, 14);

@@ -8,7 +8,8 @@ import java.util.List;
  * @param resume    continue the fit saved in the output folder instead of starting one
  * @param seconds   wall time between saves of each chain (when, never what, depends on the clock)
  * @param arguments the command-line arguments that started the fit, kept so that a resume needs
- *                  no options; ignored when resuming
+ *                  no options; when resuming, empty, or the saved ones with a new --thin, which
+ *                  replace them
  */
 public record CheckpointPolicy(boolean resume, double seconds, List<String> arguments) {
     /** Seconds between saves unless asked otherwise. */
@@ -28,6 +29,14 @@ public record CheckpointPolicy(boolean resume, double seconds, List<String> argu
 
     /** Continues the fit saved in the output folder, saving every {@code seconds}. */
     public static CheckpointPolicy resume(double seconds) {
-        return new CheckpointPolicy(true, seconds, List.of());
+        return resume(seconds, List.of());
+    }
+
+    /**
+     * Continues the fit saved in the output folder with the saved arguments replaced by
+     * {@code arguments} (unless empty): the same fit with more thinning.
+     */
+    public static CheckpointPolicy resume(double seconds, List<String> arguments) {
+        return new CheckpointPolicy(true, seconds, arguments);
     }
 }

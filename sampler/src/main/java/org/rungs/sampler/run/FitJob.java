@@ -43,8 +43,9 @@ import org.rungs.sampler.SamplerSettings;
  * {@code run.json}. Input errors surface before anything is written.
  * While it runs, the chains are saved in {@code .checkpoint} (see {@link SavedFit}), which is
  * removed once every output of a finished fit is written, and kept when the fit was interrupted
- * (also after the chains ended); a fit started without the command's arguments (the demo) has no
- * command to resume with and keeps none. The earlier run's results in the folder are removed
+ * (also after the chains ended) or has not converged (so that more thinning continues the chains);
+ * a fit started without the arguments of a 'rungs fit' command (the demo passes its equivalent
+ * ones) has no command to resume with and keeps none. The earlier run's results in the folder are removed
  * before the first file is written ({@link OutputFolder#clearResults}).
  */
 public final class FitJob {
@@ -94,7 +95,7 @@ public final class FitJob {
         err.println(exclusions.describe());
         String sha256 = RunRecord.sha256(request.file());
         Path checkpointDir = folder.resolve(SavedFit.FOLDER);
-        // a fit not started by 'rungs fit' (the demo) has no command to resume with, so it keeps no checkpoint
+        // a fit given no 'rungs fit' arguments has no command to resume with, so it keeps no checkpoint
         boolean resumable = policy.resume() || !policy.arguments().isEmpty();
         Checkpoints checkpoints;
         if (policy.resume()) {
@@ -107,7 +108,14 @@ public final class FitJob {
                 throw new IllegalArgumentException("the fit in " + folder.dir() + " was started with seed " + saved.seed()
                         + ", not " + request.settings().seed());
             }
-            err.println("rungs: resuming the fit in " + folder.dir());
+            if (!policy.arguments().isEmpty()) {
+                // saved before any chain keeps fewer draws, so that a resume after a kill thins as this one
+                new SavedFit(saved.file(), saved.sha256(), saved.seed(), policy.arguments()).write(folder.dir());
+                err.println("rungs: continuing the fit in " + folder.dir() + " with one iteration in "
+                        + request.settings().thin() + " kept");
+            } else {
+                err.println("rungs: resuming the fit in " + folder.dir());
+            }
             checkpoints = Checkpoints.resume(checkpointDir, policy.seconds());
         } else {
             SavedFit.delete(folder.dir());
@@ -222,18 +230,20 @@ public final class FitJob {
         if (derivedSummaries.stream().anyMatch(ParameterSummary::flagged)) {
             record.warn("derived quantities: " + ConvergenceVerdict.of(derivedSummaries).line(DERIVED_NOUN));
         }
+        // flags within chance (ConvergenceVerdict) leave the estimates readable: no advice to run longer
+        boolean converged = FitOutcome.converged(summaries, derivedSummaries);
+        // a fit that has not converged keeps its chains, so that more thinning continues them
+        boolean continuable = resumable && !interrupted && !converged;
         record.put("finished", Instant.now().toString());
         record.put("resumed", policy.resume());
+        record.put("continuable", continuable);
         folder.writeText(OutputFolder.RUN_RECORD, record.toJson());
-        if (!interrupted || !resumable) {
+        if (!resumable || !interrupted && converged) {
             SavedFit.delete(folder.dir());
         }
 
         out.print(SummaryTable.format(summaries));
         out.println(verdict);
-        // flags within chance (ConvergenceVerdict) leave the estimates readable: no advice to run longer
-        boolean converged = ConvergenceVerdict.of(summaries).readable()
-                && (derived == null || ConvergenceVerdict.of(derivedSummaries).readable());
         if (derived != null) {
             out.println("Derived quantities: " + ConvergenceVerdict.of(derivedSummaries).line(DERIVED_NOUN));
             out.println();
@@ -250,7 +260,7 @@ public final class FitJob {
         }
         if (!converged && !interrupted) {
             out.println(LongerChains.advice(summaries, derivedSummaries, request.settings().chains(),
-                    request.settings().thin(), request.settings().draws()));
+                    request.settings().thin(), request.settings().draws(), continuable ? folder.dir() : null));
         }
         out.println("Files written to " + folder.dir().toAbsolutePath() + ": " + String.join(", ", folder.written()));
         if (interrupted) {

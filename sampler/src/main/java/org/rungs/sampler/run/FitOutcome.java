@@ -2,6 +2,7 @@ package org.rungs.sampler.run;
 
 import java.util.List;
 import org.rungs.models.survey.Survey;
+import org.rungs.posteriors.ConvergenceVerdict;
 import org.rungs.posteriors.ParameterSummary;
 import org.rungs.sampler.FitResult;
 
@@ -19,4 +20,12 @@ import org.rungs.sampler.FitResult;
  */
 public record FitOutcome(Survey survey, FitResult result, List<ParameterSummary> summaries, String verdict,
                          List<String> warnings, List<ParameterSummary> derived, boolean interrupted) {
+    /** Whether the estimates are readable: both verdicts converged, or flagged within chance ({@link ConvergenceVerdict}). */
+    public boolean converged() {
+        return converged(summaries, derived);
+    }
+
+    static boolean converged(List<ParameterSummary> parameters, List<ParameterSummary> derived) {
+        return ConvergenceVerdict.of(parameters).readable() && (derived.isEmpty() || ConvergenceVerdict.of(derived).readable());
+    }
 }

@@ -1,5 +1,6 @@
 package org.rungs.sampler.run;
 
+import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
@@ -18,20 +19,31 @@ final class LongerChains {
     private LongerChains() {
     }
 
-    /** The advice for a fit with these summaries of parameters and derived quantities, chains, thinning and kept draws per chain. */
-    static String advice(List<ParameterSummary> parameters, List<ParameterSummary> derived, int chains, int thin, int draws) {
+    /**
+     * The advice for a fit with these summaries of parameters and derived quantities, chains,
+     * thinning and kept draws per chain; {@code kept} is the output folder whose checkpoint keeps
+     * the chains (null when none does), for the command that continues them.
+     */
+    static String advice(List<ParameterSummary> parameters, List<ParameterSummary> derived, int chains, int thin, int draws,
+                         Path kept) {
         List<ParameterSummary> all = new ArrayList<>(parameters);
         all.addAll(derived);
-        return advice(all, chains, thin, draws);
+        return advice(all, chains, thin, draws, kept);
+    }
+
+    /** The advice for a fit with these summaries, chains, thinning and kept draws per chain, whose chains are not kept. */
+    static String advice(List<ParameterSummary> summaries, int chains, int thin, int draws) {
+        return advice(summaries, chains, thin, draws, null);
     }
 
     /**
      * The advice for a fit with these summaries, chains, thinning and kept draws per chain. Below
      * 100 kept draws per chain it asks for more draws, not more thinning: a chain's effective
      * sample size rarely exceeds its draws, so no --thin reaches the 100 per chain the rule needs
-     * (our rule, after an audit where --draws 1 was told to thin by 2).
+     * (our rule, after an audit where --draws 1 was told to thin by 2). Kept chains continue with
+     * a multiple of their thin ({@code ChainCheckpoint}), the smallest at least the one suggested.
      */
-    static String advice(List<ParameterSummary> summaries, int chains, int thin, int draws) {
+    static String advice(List<ParameterSummary> summaries, int chains, int thin, int draws, Path kept) {
         if (draws < ParameterSummary.MIN_ESS_PER_CHAIN) {
             return String.format(Locale.ROOT, "The chains have not converged: read no estimate yet. Keep more draws: %d per"
                     + " chain cannot reach the effective sample size of %.0f per chain that convergence needs; run"
@@ -59,6 +71,12 @@ final class LongerChains {
         sb.append(String.format(Locale.ROOT, "at least %.1f times the iterations after warm-up, for example with --thin %d "
                 + "(one iteration in %d kept, so the files stay the size of --draws), then check R-hat and ESS again "
                 + "(README, known limits).", (double) suggested / thin, suggested, suggested));
+        if (kept != null) {
+            int multiple = thin * ((suggested + thin - 1) / thin);
+            sb.append(String.format(Locale.ROOT, " These chains are kept: 'rungs fit --resume %s --thin %d' continues them"
+                    + " without a new warm-up, and gives the draws a fit started with --thin %d would.", kept, multiple,
+                    multiple));
+        }
         return sb.toString();
     }
 }

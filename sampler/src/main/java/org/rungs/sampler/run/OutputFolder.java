@@ -66,8 +66,9 @@ public final class OutputFolder {
                 throw new IllegalArgumentException("output " + dir + " exists and is not a folder");
             }
             if (!overwrite && SavedFit.existsIn(dir)) {
-                throw new IllegalArgumentException("output folder " + dir + " holds an unfinished fit; continue it with"
-                        + " 'rungs fit --resume " + dir + "', choose another folder or add --overwrite to replace it");
+                throw new IllegalArgumentException("output folder " + dir + " holds the checkpoint of a fit that was"
+                        + " interrupted or has not converged; continue it with 'rungs fit --resume " + dir + "' (with --thin K"
+                        + " to run its chains on), choose another folder or add --overwrite to replace it");
             }
             if (!overwrite && !isEmpty(dir)) {
                 String what = Files.exists(dir.resolve(RUN_RECORD)) ? "holds another run" : "is not empty";

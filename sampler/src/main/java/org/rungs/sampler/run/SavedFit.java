@@ -48,8 +48,8 @@ public record SavedFit(Path file, String sha256, long seed, List<String> argumen
     public static SavedFit read(Path out) {
         Path path = out.resolve(FOLDER).resolve(NAME);
         if (!Files.exists(path)) {
-            throw new IllegalArgumentException(out + " holds no checkpoint of an unfinished fit (no " + FOLDER + "/" + NAME
-                    + "); a finished fit leaves none");
+            throw new IllegalArgumentException(out + " holds no checkpoint of a fit to continue (no " + FOLDER + "/" + NAME
+                    + "); a fit leaves none once it has finished and converged");
         }
         Properties p = new Properties();
         try (Reader r = Files.newBufferedReader(path, StandardCharsets.UTF_8)) {

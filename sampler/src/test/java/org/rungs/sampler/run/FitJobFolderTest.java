@@ -68,10 +68,14 @@ class FitJobFolderTest {
     }
 
     private static FitRequest request(Path file, Path out, boolean overwrite, boolean crossValidate, String... level) {
+        return request(file, out, overwrite, crossValidate, 1, level);
+    }
+
+    private static FitRequest request(Path file, Path out, boolean overwrite, boolean crossValidate, int thin, String... level) {
         SurveySpec spec = SurveySpec.builder("rating", SCALE).group("region").level(level).build();
         ModelSpec model = new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults(), StyleClasses.coarse(null),
                 NumberAttraction.none());
-        return new FitRequest(file, spec, model, new SamplerSettings(2, 150, 100, 3, 2), out, overwrite, Map.of(),
+        return new FitRequest(file, spec, model, new SamplerSettings(2, 150, 100, 3, 2, thin), out, overwrite, Map.of(),
                 crossValidate);
     }
 
@@ -160,9 +164,42 @@ class FitJobFolderTest {
         FitOutcome resumed = FitJob.run(request(file, cut, false, false, "income"), quiet(), quiet(), new AtomicBoolean(),
                 CheckpointPolicy.resume(60));
         assertFalse(resumed.interrupted());
-        assertFalse(SavedFit.existsIn(cut));
+        // kept only when the short chains have not converged, for more thinning to continue them
+        assertEquals(!resumed.converged(), SavedFit.existsIn(cut));
         for (String name : List.of("draws.csv", "derived_draws.csv", "coefficients.csv")) {
             assertEquals(Files.readString(whole.resolve(name)), Files.readString(cut.resolve(name)), name);
+        }
+    }
+
+    /**
+     * A fit that ends without converging keeps its chains; resumed with a multiple of its thin, it
+     * runs them on without a new warm-up and writes the files of a fit started with that thin,
+     * byte for byte (a chain's sweeps and random stream do not depend on which iterations are kept).
+     */
+    @Test
+    void aFitThatHasNotConvergedContinuesWithMoreThinningToTheThinnedFit(@TempDir Path dir) throws Exception {
+        Path file = survey(dir.resolve("survey.csv"));
+        Path thinned = dir.resolve("thinned");
+        FitJob.run(request(file, thinned, false, false, 3, "income"), quiet(), quiet(), new AtomicBoolean());
+
+        Path continued = dir.resolve("continued");
+        ByteArrayOutputStream console = new ByteArrayOutputStream();
+        FitOutcome first = FitJob.run(request(file, continued, false, false, 1, "income"),
+                new PrintStream(console, true, StandardCharsets.UTF_8), quiet(), new AtomicBoolean(),
+                CheckpointPolicy.start(List.of("fit"), 60));
+        assertFalse(first.converged(), "100 draws of short chains are meant to leave the fit unconverged");
+        assertTrue(SavedFit.existsIn(continued), "an unconverged fit keeps its chains");
+        assertTrue(console.toString(StandardCharsets.UTF_8).contains("'rungs fit --resume " + continued + " --thin "),
+                console.toString(StandardCharsets.UTF_8));
+        assertTrue(Files.readString(continued.resolve("run.json")).contains("\"continuable\": true"));
+
+        FitJob.run(request(file, continued, false, false, 3, "income"), quiet(), quiet(), new AtomicBoolean(),
+                CheckpointPolicy.resume(60, List.of("fit", "--thin=3")));
+        for (String name : List.of("draws.csv", "summary.csv", "derived_draws.csv", "groups.csv", "coefficients.csv")) {
+            assertEquals(Files.readString(thinned.resolve(name)), Files.readString(continued.resolve(name)), name);
+        }
+        if (SavedFit.existsIn(continued)) {
+            assertEquals(List.of("fit", "--thin=3"), SavedFit.read(continued).arguments(), "a later resume keeps the new thin");
         }
     }
 

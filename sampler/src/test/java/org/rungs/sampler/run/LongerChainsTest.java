@@ -2,6 +2,7 @@ package org.rungs.sampler.run;
 
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import java.nio.file.Path;
 import java.util.List;
 import org.junit.jupiter.api.Test;
 import org.rungs.posteriors.ParameterSummary;
@@ -29,9 +30,21 @@ class LongerChainsTest {
         List<ParameterSummary> parameters = List.of(summary("threshold.1", 1.004, 640, 700));
         List<ParameterSummary> derived = List.of(summary("coarse_share.Vellanmoor", 1.009, 357, 508),
                 summary("intended_share.Tarnwhistle.4", 1.011, 858, 953));
-        String text = LongerChains.advice(parameters, derived, 4, 2, 1000);
+        String text = LongerChains.advice(parameters, derived, 4, 2, 1000, null);
         // 400 / 357 = 1.12 times 2: --thin 3
         assertTrue(text.contains("is 357 (coarse_share.Vellanmoor) where 400 are needed") && text.contains("--thin 3 "), text);
+        assertTrue(!text.contains("--resume"), "chains not kept: no command to continue them; " + text);
+    }
+
+    /** Kept chains continue with a multiple of their thin: 3 is suggested, 4 is the smallest multiple of 2 above it. */
+    @Test
+    void keptChainsAreContinuedWithAMultipleOfTheirThin() {
+        List<ParameterSummary> parameters = List.of(summary("threshold.1", 1.004, 640, 700));
+        List<ParameterSummary> derived = List.of(summary("coarse_share.Vellanmoor", 1.009, 357, 508));
+        String text = LongerChains.advice(parameters, derived, 4, 2, 1000, Path.of("results"));
+        assertTrue(text.contains("--thin 3 ") && text.contains("'rungs fit --resume results --thin 4' continues them"), text);
+        String once = LongerChains.advice(parameters, derived, 4, 1, 1000, Path.of("results"));
+        assertTrue(once.contains("'rungs fit --resume results --thin 2'"), once);
     }
 
     @Test
