@@ -68,6 +68,11 @@ final class DemoCommand implements Callable<Integer> {
             System.out.println();
             System.out.println("Estimates against the values the demo data were drawn from:");
             System.out.print(Demo.compare(outcome, demo.truth(), model.attraction().on()));
+            if (outcome.advice() != null) {
+                // said after the summary too, but a newcomer reads the end of the demo's output
+                System.out.println();
+                System.out.println(outcome.advice());
+            }
             Runs.writeReport(out);
             if (outcome.interrupted()) {
                 System.err.println("rungs demo: stopped early; the files hold the draws kept so far; 'rungs fit --resume "

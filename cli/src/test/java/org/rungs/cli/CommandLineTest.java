@@ -243,8 +243,8 @@ final class CommandLineTest {
 
     /**
      * The demo keeps the chains of a fit that has not converged under the 'rungs fit' arguments
-     * that fit its survey as it does: 'fit --resume DIR --thin 4' continues them and writes the
-     * files of a demo run with --thin 4, byte for byte.
+     * that fit its survey as it does, and its output ends with the command that continues them:
+     * 'fit --resume DIR --thin 4' writes the files of a demo run with --thin 4, byte for byte.
      */
     @Test
     void anUnconvergedDemoIsContinuedByFitResume() throws Exception {
@@ -252,7 +252,9 @@ final class CommandLineTest {
         Path demo = dir.resolve("continued-demo");
         Run first = rungs(concat(new String[] {"demo", "--out", demo.toString()}, shortChains));
         assertEquals(0, first.exit(), first.err());
-        assertTrue(first.out().contains("'rungs fit --resume " + demo + " --thin "), first.out());
+        List<String> lines = first.out().strip().lines().toList();
+        assertTrue(lines.get(lines.size() - 1).contains("'rungs fit --resume " + demo + " --thin "),
+                "the demo's output ends with the command that continues it: " + lines.get(lines.size() - 1));
         Run continued = rungs("fit", "--resume", demo.toString(), "--thin", "4");
         assertEquals(0, continued.exit(), continued.err());
         assertTrue(Files.exists(demo.resolve("report.html")), "the demo's report is written again");

@@ -145,7 +145,7 @@ public final class FitJob {
         if (result.interrupted() && result.draws().iterations() == 0) {
             err.println("rungs: interrupted before every chain kept a draw; nothing to summarise; " + whereSaved);
             return new FitOutcome(survey, result, List.of(), "interrupted before any draw was kept", record.warnings(),
-                    List.of(), true);
+                    List.of(), true, null);
         }
         List<ParameterSummary> summaries = Summaries.of(result.draws());
         String verdict = SummaryTable.verdict(summaries);
@@ -258,15 +258,17 @@ public final class FitJob {
             out.println();
             out.println(crossValidation.describe());
         }
-        if (!converged && !interrupted) {
-            out.println(LongerChains.advice(summaries, derivedSummaries, request.settings().chains(),
-                    request.settings().thin(), request.settings().draws(), continuable ? folder.dir() : null));
+        String advice = converged || interrupted ? null : LongerChains.advice(summaries, derivedSummaries,
+                request.settings().chains(), request.settings().thin(), request.settings().draws(),
+                continuable ? folder.dir() : null);
+        if (advice != null) {
+            out.println(advice);
         }
         out.println("Files written to " + folder.dir().toAbsolutePath() + ": " + String.join(", ", folder.written()));
         if (interrupted) {
             err.println("rungs: interrupted; " + whereSaved);
         }
-        return new FitOutcome(survey, result, summaries, verdict, record.warnings(), derivedSummaries, interrupted);
+        return new FitOutcome(survey, result, summaries, verdict, record.warnings(), derivedSummaries, interrupted, advice);
     }
 
     /** The plain ordered probit fitted for the comparison of effects: its settings and verdict. */

@@ -17,9 +17,11 @@ import org.rungs.sampler.FitResult;
  * @param derived   one row per derived quantity (MODEL.md 6), as in {@code derived_summary.csv}
  * @param interrupted whether a stop request cut the fit short: while the chains ran, or after,
  *                  while the corrected quantities were made
+ * @param advice    what the console said to do about a fit that ended without converging (run
+ *                  longer chains, and how to continue them where they are kept); null otherwise
  */
 public record FitOutcome(Survey survey, FitResult result, List<ParameterSummary> summaries, String verdict,
-                         List<String> warnings, List<ParameterSummary> derived, boolean interrupted) {
+                         List<String> warnings, List<ParameterSummary> derived, boolean interrupted, String advice) {
     /** Whether the estimates are readable: both verdicts converged, or flagged within chance ({@link ConvergenceVerdict}). */
     public boolean converged() {
         return converged(summaries, derived);
