@@ -23,7 +23,9 @@ import picocli.CommandLine.Spec;
 /** {@code rungs demo}: fits the built-in invented survey and compares the estimates with the truth. */
 @Command(name = "demo", mixinStandardHelpOptions = true, sortOptions = false,
         description = {"Fit the built-in demo: an invented 0..10 survey of 12 fictional regions with income and age.",
-                "Writes the demo data, its true parameters and the fit's files to the output folder."})
+                "Writes the demo data, its true parameters and the fit's files to the output folder. A demo that "
+                        + "is stopped, or ends without converging, keeps its chains: 'rungs fit --resume DIR' continues it "
+                        + "(with --thin K to run unconverged chains on)."})
 final class DemoCommand implements Callable<Integer> {
     @Spec
     CommandSpec spec;
@@ -62,7 +64,8 @@ final class DemoCommand implements Callable<Integer> {
             FitOutcome outcome = FitJob.run(demo.request(), System.out, System.err, interruption.flag(),
                     CheckpointPolicy.start(fitArguments(demo.request()), CheckpointPolicy.DEFAULT_SECONDS));
             if (outcome.summaries().isEmpty()) {
-                System.err.println("rungs demo: stopped before any draw was kept; run the demo again");
+                System.err.println("rungs demo: stopped before any draw was kept; 'rungs fit --resume " + out
+                        + "' continues it, or run the demo again");
                 return Main.INTERRUPTED;
             }
             System.out.println();
