@@ -26,7 +26,7 @@ import picocli.CommandLine.Spec;
 /** {@code rungs fit}: fits the model to a survey file and writes draws, summaries and the run record. */
 @Command(name = "fit", mixinStandardHelpOptions = true, sortOptions = false,
         customSynopsis = {"rungs fit [OPTIONS] FILE --rating=COL --out=DIR",
-                "       rungs fit --resume=DIR [--thin=K] [--report] [--threads=N]"},
+                "       rungs fit --resume=DIR [--thin=K] [--draws=N] [--report] [--threads=N]"},
         description = {"Fit the model to a survey file (CSV or TSV, optionally gzip-compressed, with a header row).",
                 "Writes draws.csv, summary.csv, the corrected quantities (derived_draws.csv, derived_summary.csv, "
                         + "groups.csv, distributions.csv, coarse_shares.csv, attraction.csv with --attraction, "
@@ -34,14 +34,16 @@ import picocli.CommandLine.Spec;
                 "While it runs, the chains are saved every few seconds in DIR/.checkpoint; a fit that was killed or "
                         + "interrupted (Ctrl-C, exit code 130) continues with 'rungs fit --resume DIR' and then gives the "
                         + "same draws, bit for bit, as if it had never stopped. A fit that ends without converging keeps "
-                        + "them too: 'rungs fit --resume DIR --thin K' continues its chains without a new warm-up."})
+                        + "them too: 'rungs fit --resume DIR --thin K' (or --draws N) continues its chains without a new "
+                        + "warm-up."})
 final class FitCommand implements Callable<Integer> {
     /**
      * The options that may accompany --resume: they change neither the model nor the chains
-     * (--thin only which of their iterations are kept, a multiple of the saved fit's).
+     * (--thin and --draws only how long they run and which of their iterations are kept: a
+     * multiple of the saved fit's thin, at least its draws).
      */
-    private static final java.util.Set<String> RESUME_OPTIONS = java.util.Set.of("--resume", "--thin", "--report", "--threads",
-            "--checkpoint-seconds");
+    private static final java.util.Set<String> RESUME_OPTIONS = java.util.Set.of("--resume", "--thin", "--draws", "--report",
+            "--threads", "--checkpoint-seconds");
 
     @Spec
     CommandSpec spec;
@@ -87,8 +89,8 @@ final class FitCommand implements Callable<Integer> {
 
     @Option(names = "--resume", paramLabel = "DIR", description = "Continue the fit in output folder DIR from its checkpoint (one "
             + "that was interrupted, or ended without converging), with the file, options and seed it was started with "
-            + "(give no others; --report and --threads are allowed, and --thin K, a multiple of the fit's, to run its "
-            + "chains on and keep one iteration in K). Refused if the file has changed.")
+            + "(give no others; --report and --threads are allowed, and, to run its chains on, --thin K, a multiple "
+            + "of the fit's, and --draws N, at least the fit's). Refused if the file has changed.")
     Path resume;
 
     @Option(names = "--checkpoint-seconds", hidden = true, defaultValue = "5", paramLabel = "S",
@@ -153,6 +155,7 @@ final class FitCommand implements Callable<Integer> {
             if (sampling.threads != null) {
                 started.sampling.threads = sampling.threads;
             }
+            List<String> changed = saved.arguments();
             if (sampling.thin != null) {
                 int was = started.sampling.thin != null ? started.sampling.thin : 1;
                 if (sampling.thin < was || sampling.thin % was != 0) {
@@ -161,7 +164,19 @@ final class FitCommand implements Callable<Integer> {
                             + was + ", " + 2 * was + ", " + 3 * was + " or another multiple");
                 }
                 started.sampling.thin = sampling.thin;
-                arguments = withThin(saved.arguments(), sampling.thin);
+                changed = with(changed, "--thin", sampling.thin);
+            }
+            if (given.hasMatchedOption("--draws")) {
+                if (sampling.draws < started.sampling.draws) {
+                    throw new IllegalArgumentException("--draws " + sampling.draws + " is fewer than the fit's --draws "
+                            + started.sampling.draws + ": continued chains keep the draws they made, so give "
+                            + started.sampling.draws + " or more");
+                }
+                started.sampling.draws = sampling.draws;
+                changed = with(changed, "--draws", sampling.draws);
+            }
+            if (changed != saved.arguments()) {
+                arguments = changed;
             }
             report = report || started.report;
             request = started.request(started.sampling.settings());
@@ -172,10 +187,10 @@ final class FitCommand implements Callable<Integer> {
         return Runs.fit(request, report, CheckpointPolicy.resume(checkpointSeconds, arguments));
     }
 
-    /** {@code arguments} with their --thin (if any) replaced by {@code thin}. */
-    private static List<String> withThin(List<String> arguments, int thin) {
-        List<String> out = Arguments.without(arguments, java.util.Set.of("--thin"), java.util.Set.of());
-        out.add("--thin=" + thin);
+    /** {@code arguments} with their {@code option} (if any) replaced by {@code option=value}. */
+    private static List<String> with(List<String> arguments, String option, int value) {
+        List<String> out = Arguments.without(arguments, java.util.Set.of(option), java.util.Set.of());
+        out.add(option + "=" + value);
         return out;
     }
 

@@ -176,7 +176,8 @@ final class ResumeTest {
     /**
      * A fit that ends without converging (short chains kept every second iteration) says how to
      * continue its chains; 'fit --resume DIR --thin K' refuses a K that is not a multiple of 2 and
-     * with 4 writes the draws.csv of a fit started with --thin 4, byte for byte.
+     * with 4 writes the draws.csv of a fit started with --thin 4, byte for byte; a copy of the fit
+     * refuses fewer --draws, and with more writes the draws.csv of a fit started with them.
      */
     @Test
     void anUnconvergedFitContinuesWithMoreThinning(@TempDir Path dir) throws Exception {
@@ -195,15 +196,39 @@ final class ResumeTest {
         assertEquals(0, unconverged.exit(), unconverged.err());
         assertTrue(unconverged.out().contains("'rungs fit --resume " + out + " --thin "), unconverged.out());
 
+        Path copy = dir.resolve("fit-copy");
+        copyFolder(out, copy);
         CommandLineTest.Run three = CommandLineTest.rungs("fit", "--resume", out.toString(), "--thin", "3");
         assertEquals(Main.INPUT_ERROR, three.exit());
         assertTrue(three.err().contains("--thin 3 is not a multiple of the fit's --thin 2"), three.err());
 
         CommandLineTest.Run four = CommandLineTest.rungs("fit", "--resume", out.toString(), "--thin", "4");
         assertEquals(0, four.exit(), four.err());
-        assertTrue(four.err().contains("continuing the fit in " + out + " with one iteration in 4 kept"), four.err());
+        assertTrue(four.err().contains("continuing the fit in " + out + " to 100 draws per chain, one iteration in 4 kept"),
+                four.err());
         assertArrayEquals(Files.readAllBytes(everyFourth.resolve("draws.csv")), Files.readAllBytes(out.resolve("draws.csv")),
                 "draws.csv, byte for byte");
+
+        // the copy, continued to more draws instead
+        CommandLineTest.Run fewer = CommandLineTest.rungs("fit", "--resume", copy.toString(), "--draws", "90");
+        assertEquals(Main.INPUT_ERROR, fewer.exit());
+        assertTrue(fewer.err().contains("--draws 90 is fewer than the fit's --draws 100"), fewer.err());
+        CommandLineTest.Run more = CommandLineTest.rungs("fit", "--resume", copy.toString(), "--draws", "160");
+        assertEquals(0, more.exit(), more.err());
+        Path longer = dir.resolve("longer");
+        assertEquals(0, CommandLineTest.rungs("fit", survey.toString(), "--rating", "rating", "--group", "region", "--out",
+                longer.toString(), "--thin", "2", "--chains", "2", "--warmup", "60", "--draws", "160", "--seed", "31").exit());
+        assertArrayEquals(Files.readAllBytes(longer.resolve("draws.csv")), Files.readAllBytes(copy.resolve("draws.csv")),
+                "draws.csv of the copy continued to 160 draws, byte for byte");
+    }
+
+    /** Copies an output folder with its checkpoint, as a user might before trying a continuation. */
+    private static void copyFolder(Path from, Path to) throws IOException {
+        try (var paths = Files.walk(from)) {
+            for (Path p : (Iterable<Path>) paths::iterator) {
+                Files.copy(p, to.resolve(from.relativize(p).toString()));
+            }
+        }
     }
 
     @Test

@@ -23,10 +23,10 @@ import org.rungs.posteriors.Draws;
  * kept draws as raw doubles, appended as they are made and flushed with every save. The draws
  * file may run ahead of the state after a kill; a resume cuts it back to the saved count.
  *
- * <p>A resume may keep fewer iterations than the saved fit: with a thin that is a multiple r of
- * the saved one (the same draws per chain), every r-th saved draw is kept and the file rewritten
- * so. The chain's sweeps and random stream do not depend on the thin, so the draws are then those
- * of a fit started with the new thin.
+ * <p>A resume may run the saved chains on: with at least as many draws per chain, and with a thin
+ * that is a multiple r of the saved one, every r-th saved draw is kept and the file rewritten so.
+ * The chain's sweeps and random stream depend on neither, so the draws are then those of a fit
+ * started with the new draws and thin.
  */
 final class ChainCheckpoint implements Closeable {
     /**
@@ -127,7 +127,7 @@ final class ChainCheckpoint implements Closeable {
         int kept = in.readInt();
         int thin = in.readInt();
         int savedParameters = in.readInt();
-        if (savedChain != chain || seed != settings.seed() || warmup != settings.warmup() || kept != settings.draws()
+        if (savedChain != chain || seed != settings.seed() || warmup != settings.warmup() || kept > settings.draws()
                 || thin < 1 || settings.thin() % thin != 0 || savedParameters != parameters) {
             throw new IOException(stateFile + " was saved by another fit (chain " + savedChain + ", seed " + seed + ", "
                     + warmup + " warm-up + " + kept + " kept draws, thin " + thin + ", " + savedParameters + " parameters)");

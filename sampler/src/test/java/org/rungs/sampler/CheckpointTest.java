@@ -329,6 +329,25 @@ final class CheckpointTest {
                 Checkpoints.resume(here, RARELY)).draws());
     }
 
+    /**
+     * A finished fit of 40 draws per chain continued to 60 gives the draws of a fit started with
+     * 60; fewer draws than the saved fit's are refused.
+     */
+    @Test
+    void aFinishedFitContinuedToMoreDrawsGivesTheLongerFitsDraws() {
+        SamplerSettings longer = new SamplerSettings(2, 30, 60, 17L, 2);
+        Draws reference = Fitter.fit(survey(), spec(), longer, ProgressListener.NONE, new AtomicBoolean(),
+                Checkpoints.none()).draws();
+        Path here = dir.resolve("longer");
+        assertFalse(fit(ProgressListener.NONE, new AtomicBoolean(), Checkpoints.start(here, RARELY)).interrupted());
+        UncheckedIOException refused = assertThrows(UncheckedIOException.class, () -> Fitter.fit(survey(), spec(),
+                new SamplerSettings(2, 30, 30, 17L, 2), ProgressListener.NONE, new AtomicBoolean(true),
+                Checkpoints.resume(here, RARELY)));
+        assertTrue(refused.getMessage().contains("another fit"), refused.getMessage());
+        assertSameDraws(reference, Fitter.fit(survey(), spec(), longer, ProgressListener.NONE, new AtomicBoolean(),
+                Checkpoints.resume(here, RARELY)).draws());
+    }
+
     @Test
     void aCheckpointOfAnotherFitIsRefused() {
         Path here = dir.resolve("other");

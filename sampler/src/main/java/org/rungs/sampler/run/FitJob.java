@@ -111,8 +111,8 @@ public final class FitJob {
             if (!policy.arguments().isEmpty()) {
                 // saved before any chain keeps fewer draws, so that a resume after a kill thins as this one
                 new SavedFit(saved.file(), saved.sha256(), saved.seed(), policy.arguments()).write(folder.dir());
-                err.println("rungs: continuing the fit in " + folder.dir() + " with one iteration in "
-                        + request.settings().thin() + " kept");
+                err.println("rungs: continuing the fit in " + folder.dir() + " to " + request.settings().draws()
+                        + " draws per chain, one iteration in " + request.settings().thin() + " kept");
             } else {
                 err.println("rungs: resuming the fit in " + folder.dir());
             }

@@ -41,14 +41,16 @@ final class LongerChains {
      * 100 kept draws per chain it asks for more draws, not more thinning: a chain's effective
      * sample size rarely exceeds its draws, so no --thin reaches the 100 per chain the rule needs
      * (our rule, after an audit where --draws 1 was told to thin by 2). Kept chains continue with
-     * a multiple of their thin ({@code ChainCheckpoint}), the smallest at least the one suggested.
+     * a multiple of their thin ({@code ChainCheckpoint}), the smallest at least the one suggested,
+     * or with more draws.
      */
     static String advice(List<ParameterSummary> summaries, int chains, int thin, int draws, Path kept) {
         if (draws < ParameterSummary.MIN_ESS_PER_CHAIN) {
+            int more = (int) ParameterSummary.MIN_ESS_PER_CHAIN;
             return String.format(Locale.ROOT, "The chains have not converged: read no estimate yet. Keep more draws: %d per"
-                    + " chain cannot reach the effective sample size of %.0f per chain that convergence needs; run"
-                    + " --draws %.0f or more (the default is 1000), then check R-hat and ESS again.",
-                    draws, ParameterSummary.MIN_ESS_PER_CHAIN, ParameterSummary.MIN_ESS_PER_CHAIN);
+                    + " chain cannot reach the effective sample size of %d per chain that convergence needs; run"
+                    + " --draws %d or more (the default is 1000), then check R-hat and ESS again.", draws, more, more)
+                    + continuation(kept, "--draws " + more);
         }
         double smallest = Double.POSITIVE_INFINITY;
         String slowest = null;
@@ -71,12 +73,13 @@ final class LongerChains {
         sb.append(String.format(Locale.ROOT, "at least %.1f times the iterations after warm-up, for example with --thin %d "
                 + "(one iteration in %d kept, so the files stay the size of --draws), then check R-hat and ESS again "
                 + "(README, known limits).", (double) suggested / thin, suggested, suggested));
-        if (kept != null) {
-            int multiple = thin * ((suggested + thin - 1) / thin);
-            sb.append(String.format(Locale.ROOT, " These chains are kept: 'rungs fit --resume %s --thin %d' continues them"
-                    + " without a new warm-up, and gives the draws a fit started with --thin %d would.", kept, multiple,
-                    multiple));
-        }
-        return sb.toString();
+        int multiple = thin * ((suggested + thin - 1) / thin);
+        return sb.append(continuation(kept, "--thin " + multiple)).toString();
+    }
+
+    /** The sentence naming the command that continues chains kept in {@code kept} with {@code option}; empty when none are kept. */
+    private static String continuation(Path kept, String option) {
+        return kept == null ? "" : " These chains are kept: 'rungs fit --resume " + kept + " " + option + "' continues"
+                + " them without a new warm-up, and gives the draws a fit started with " + option + " would.";
     }
 }

@@ -63,7 +63,9 @@ class LongerChainsTest {
         List<ParameterSummary> s = List.of(summary("slow", 1.05, 13, 20));
         String text = LongerChains.advice(s, 2, 50, 20);
         assertTrue(text.contains("20 per chain cannot reach") && text.contains("--draws 100 or more"), text);
-        assertTrue(!text.contains("--thin"), text);
+        assertTrue(!text.contains("--thin") && !text.contains("--resume"), text);
+        String kept = LongerChains.advice(s, 2, 50, 20, Path.of("results"));
+        assertTrue(kept.contains("'rungs fit --resume results --draws 100' continues them"), kept);
         assertTrue(LongerChains.advice(s, 2, 1, 100).contains("--thin 16 "), LongerChains.advice(s, 2, 1, 100));
     }
 }
