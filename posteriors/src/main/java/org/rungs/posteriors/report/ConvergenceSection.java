@@ -121,7 +121,8 @@ final class ConvergenceSection {
         if (fit.flag("continuable")) {
             sb.append("The fit kept its chains (in the folder's .checkpoint): 'rungs fit --resume DIR --thin K', with K a"
                     + " multiple of this fit's thin (").append(fit.text("options.thin", "1")).append("), runs them on"
-                    + " without a new warm-up (README). ");
+                    + " without a new warm-up (README), as does --draws N with N above its draws per chain (")
+                    .append(fit.text("options.draws", fit.text("sampler.draws", "?"))).append("). ");
         }
         if (verdict.interrupted()) {
             sb.append("The run was interrupted: only ").append(fit.text("sampler.kept_draws", "some"))

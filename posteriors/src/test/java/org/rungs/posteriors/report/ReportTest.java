@@ -256,6 +256,7 @@ class ReportTest {
         Files.writeString(run, Files.readString(run).replace("\"finished\":", "\"continuable\": true, \"finished\":"));
         String html = Files.readString(Report.write(dir));
         assertTrue(html.contains(continuation), html);
+        assertTrue(html.contains(Html.escape("as does --draws N with N above its draws per chain (8).")), html);
     }
 
     @Test
