@@ -31,11 +31,6 @@ final class LongerChains {
         return advice(all, chains, thin, draws, kept);
     }
 
-    /** The advice for a fit with these summaries, chains, thinning and kept draws per chain, whose chains are not kept. */
-    static String advice(List<ParameterSummary> summaries, int chains, int thin, int draws) {
-        return advice(summaries, chains, thin, draws, null);
-    }
-
     /**
      * The advice for a fit with these summaries, chains, thinning and kept draws per chain. Below
      * 100 kept draws per chain it asks for more draws, not more thinning: a chain's effective

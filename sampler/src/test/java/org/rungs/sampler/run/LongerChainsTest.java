@@ -16,12 +16,12 @@ class LongerChainsTest {
     void namesTheSlowestParameterAndScalesTheThinning() {
         List<ParameterSummary> s = List.of(summary("fast", 1.0, 3000, 2500), summary("slow", 1.05, 80, 120),
                 summary("tail-slow", 1.02, 150, 100));
-        String text = LongerChains.advice(s, 4, 1, 1000);
+        String text = LongerChains.advice(s, 4, 1, 1000, null);
         // 400 needed over 80 reached: 5 times, --thin 5
         assertTrue(text.contains("the smallest effective sample size is 80 (slow) where 400 are needed"), text);
         assertTrue(text.contains("--thin 5 "), text);
         // already thinned by 3: 15
-        assertTrue(LongerChains.advice(s, 4, 3, 1000).contains("--thin 15 "), LongerChains.advice(s, 4, 3, 1000));
+        assertTrue(LongerChains.advice(s, 4, 3, 1000, null).contains("--thin 15 "), LongerChains.advice(s, 4, 3, 1000, null));
     }
 
     /** The demo on seed 5: every parameter fine, a derived share at bulk ESS 357. */
@@ -49,7 +49,7 @@ class LongerChainsTest {
 
     @Test
     void rhatAloneAsksForTwiceTheIterations() {
-        String text = LongerChains.advice(List.of(summary("a", 1.03, 900, 800)), 4, 2, 1000);
+        String text = LongerChains.advice(List.of(summary("a", 1.03, 900, 800)), 4, 2, 1000, null);
         assertTrue(text.contains("--thin 4 ") && !text.contains("smallest effective"), text);
     }
 
@@ -61,11 +61,11 @@ class LongerChainsTest {
     @Test
     void tooFewDrawsAskForMoreDrawsNotMoreThinning() {
         List<ParameterSummary> s = List.of(summary("slow", 1.05, 13, 20));
-        String text = LongerChains.advice(s, 2, 50, 20);
+        String text = LongerChains.advice(s, 2, 50, 20, null);
         assertTrue(text.contains("20 per chain cannot reach") && text.contains("--draws 100 or more"), text);
         assertTrue(!text.contains("--thin") && !text.contains("--resume"), text);
         String kept = LongerChains.advice(s, 2, 50, 20, Path.of("results"));
         assertTrue(kept.contains("'rungs fit --resume results --draws 100' continues them"), kept);
-        assertTrue(LongerChains.advice(s, 2, 1, 100).contains("--thin 16 "), LongerChains.advice(s, 2, 1, 100));
+        assertTrue(LongerChains.advice(s, 2, 1, 100, null).contains("--thin 16 "), LongerChains.advice(s, 2, 1, 100, null));
     }
 }
