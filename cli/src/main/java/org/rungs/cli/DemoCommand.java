@@ -4,6 +4,7 @@ import java.io.UncheckedIOException;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
+import java.util.Map;
 import java.util.Set;
 import java.util.concurrent.Callable;
 import org.rungs.examples.Demo;
@@ -68,14 +69,7 @@ final class DemoCommand implements Callable<Integer> {
                         + "' continues it, or run the demo again");
                 return Main.INTERRUPTED;
             }
-            System.out.println();
-            System.out.println("Estimates against the values the demo data were drawn from:");
-            System.out.print(Demo.compare(outcome, demo.truth(), model.attraction().on()));
-            if (outcome.advice() != null) {
-                // said after the summary too, but a newcomer reads the end of the demo's output
-                System.out.println();
-                System.out.println(outcome.advice());
-            }
+            printAgainstTruth(outcome, demo.truth(), model.attraction().on());
             Runs.writeReport(out);
             if (outcome.interrupted()) {
                 System.err.println("rungs demo: stopped early; the files hold the draws kept so far; 'rungs fit --resume "
@@ -85,6 +79,18 @@ final class DemoCommand implements Callable<Integer> {
         } catch (SurveyInputException | IllegalArgumentException | UncheckedIOException e) {
             System.err.println("rungs demo: " + e.getMessage());
             return Main.INPUT_ERROR;
+        }
+    }
+
+    /** The demo's closing table of estimates against the true values, then the fit's advice, if any. */
+    static void printAgainstTruth(FitOutcome outcome, Map<String, Double> truth, boolean attractionFitted) {
+        System.out.println();
+        System.out.println("Estimates against the values the demo data were drawn from:");
+        System.out.print(Demo.compare(outcome, truth, attractionFitted));
+        if (outcome.advice() != null) {
+            // said after the summary too, but a newcomer reads the end of the demo's output
+            System.out.println();
+            System.out.println(outcome.advice());
         }
     }
 

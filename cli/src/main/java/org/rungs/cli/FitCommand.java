@@ -7,11 +7,13 @@ import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.concurrent.Callable;
+import org.rungs.examples.Demo;
 import org.rungs.models.ModelSpec;
 import org.rungs.models.survey.Scale;
 import org.rungs.models.survey.SurveySpec;
 import org.rungs.sampler.SamplerSettings;
 import org.rungs.sampler.run.CheckpointPolicy;
+import org.rungs.sampler.run.FitOutcome;
 import org.rungs.sampler.run.FitRequest;
 import org.rungs.sampler.run.SavedFit;
 import picocli.CommandLine;
@@ -125,7 +127,7 @@ final class FitCommand implements Callable<Integer> {
             return Main.INPUT_ERROR;
         }
         List<String> arguments = spec.commandLine().getParseResult().expandedArgs();
-        return Runs.fit(request, report, CheckpointPolicy.start(arguments, checkpointSeconds));
+        return Runs.fit(request, report, CheckpointPolicy.start(arguments, checkpointSeconds), outcome -> { });
     }
 
     /** Rebuilds the saved fit's command from its arguments, with its file, seed and this folder. */
@@ -184,7 +186,24 @@ final class FitCommand implements Callable<Integer> {
             System.err.println("rungs fit: " + e.getMessage());
             return Main.INPUT_ERROR;
         }
-        return Runs.fit(request, report, CheckpointPolicy.resume(checkpointSeconds, arguments));
+        boolean attraction = request.model().attraction().on();
+        Path demoFile = request.file();
+        return Runs.fit(request, report, CheckpointPolicy.resume(checkpointSeconds, arguments),
+                outcome -> compareWithDemoTruth(outcome, demoFile, attraction));
+    }
+
+    /** A continued demo ends as the demo does, with its estimates against the true values (none for other fits). */
+    private void compareWithDemoTruth(FitOutcome outcome, Path surveyFile, boolean attraction) {
+        Map<String, Double> truth;
+        try {
+            truth = Demo.readTruth(resume, surveyFile);
+        } catch (IllegalArgumentException | java.io.UncheckedIOException e) {
+            System.err.println("rungs fit: the demo's true values are not compared: " + e.getMessage());
+            return;
+        }
+        if (!truth.isEmpty()) {
+            DemoCommand.printAgainstTruth(outcome, truth, attraction);
+        }
     }
 
     /** {@code arguments} with their {@code option} (if any) replaced by {@code option=value}. */

@@ -4,6 +4,7 @@ import java.io.UncheckedIOException;
 import java.nio.file.Path;
 import java.util.concurrent.atomic.AtomicBoolean;
 import java.util.function.BiFunction;
+import java.util.function.Consumer;
 import java.util.function.ToIntFunction;
 import org.rungs.models.survey.SurveyInputException;
 import org.rungs.sampler.run.CheckpointPolicy;
@@ -19,11 +20,15 @@ final class Runs {
     /**
      * Runs or resumes the fit, saving its chains as {@code policy} says; on Ctrl-C the chains are
      * saved, what was kept is written and summarised, and the exit code is 130. With
-     * {@code report}, also writes report.html into the output folder.
+     * {@code report}, also writes report.html into the output folder. {@code epilogue} prints what
+     * follows the fit's own output when it kept draws.
      */
-    static int fit(FitRequest request, boolean report, CheckpointPolicy policy) {
+    static int fit(FitRequest request, boolean report, CheckpointPolicy policy, Consumer<FitOutcome> epilogue) {
         try (Interruption interruption = new Interruption()) {
             FitOutcome outcome = FitJob.run(request, System.out, System.err, interruption.flag(), policy);
+            if (!outcome.summaries().isEmpty()) {
+                epilogue.accept(outcome);
+            }
             if (report) {
                 writeReport(request.out());
             }

@@ -265,6 +265,11 @@ final class CommandLineTest {
         for (String name : List.of("draws.csv", "summary.csv", "derived_draws.csv", "coefficients.csv")) {
             assertEquals(Files.readString(fresh.resolve(name)), Files.readString(demo.resolve(name)), name);
         }
+        // the continued demo ends as the demo does: its estimates against the true values read back from demo-truth.csv
+        String heading = "Estimates against the values the demo data were drawn from:";
+        assertTrue(continued.out().contains(heading), continued.out());
+        assertEquals(thinned.out().substring(thinned.out().indexOf(heading)),
+                continued.out().substring(continued.out().indexOf(heading)).replace(demo.toString(), fresh.toString()));
     }
 
     @Test

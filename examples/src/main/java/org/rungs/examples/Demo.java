@@ -1,5 +1,10 @@
 package org.rungs.examples;
 
+import java.io.BufferedReader;
+import java.io.IOException;
+import java.io.UncheckedIOException;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.LinkedHashMap;
 import java.util.List;
@@ -63,6 +68,44 @@ public final class Demo {
         options.put("threads", settings.threads());
         options.put("cross_validate", crossValidate);
         return new Prepared(new FitRequest(file, spec, model, settings, out, true, options, crossValidate), data.truth());
+    }
+
+    /**
+     * The true values of the demo whose files are in {@code folder}, as {@link #prepare} wrote
+     * them ({@link SimulatedSurvey#writeTruth}), or an empty map when the folder holds no demo: a
+     * fit continued there by 'rungs fit --resume' compares its estimates with them as the demo does.
+     *
+     * @throws IllegalArgumentException naming the row of a line that is not 'parameter,value'
+     */
+    public static Map<String, Double> readTruth(Path folder, Path surveyFile) {
+        Path file = folder.resolve(TRUTH_FILE);
+        if (!surveyFile.getFileName().toString().equals(SURVEY_FILE) || !Files.isRegularFile(file)) {
+            return Map.of();
+        }
+        Map<String, Double> truth = new LinkedHashMap<>();
+        try (BufferedReader in = Files.newBufferedReader(file, StandardCharsets.UTF_8)) {
+            String line = in.readLine();
+            int row = 1;
+            if (!"parameter,value".equals(line)) {
+                throw new IllegalArgumentException(file + ", row 1: expected the header 'parameter,value', found '" + line + "'");
+            }
+            while ((line = in.readLine()) != null) {
+                row++;
+                int comma = line.indexOf(',');
+                try {
+                    if (comma <= 0) {
+                        throw new NumberFormatException();
+                    }
+                    truth.put(line.substring(0, comma), Double.parseDouble(line.substring(comma + 1)));
+                } catch (NumberFormatException e) {
+                    throw new IllegalArgumentException(file + ", row " + row + ": expected a parameter's name and its true"
+                            + " value, found '" + line + "'");
+                }
+            }
+        } catch (IOException e) {
+            throw new UncheckedIOException("could not read " + file + ": " + e.getMessage(), e);
+        }
+        return truth;
     }
 
     /** Common parameters and the per-group corrected means; group thresholds are counted, not shown. */
