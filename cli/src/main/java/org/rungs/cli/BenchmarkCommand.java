@@ -22,21 +22,21 @@ final class BenchmarkCommand implements Callable<Integer> {
             description = "Numbers of respondents to time. Default: ${DEFAULT-VALUE}.")
     int[] sizes;
 
-    @Option(names = "--sweeps", defaultValue = "200",
+    @Option(names = "--sweeps", paramLabel = "N", defaultValue = "200",
             description = "Sweeps (half warm-up) at the largest size; smaller sizes run proportionally more. Default: ${DEFAULT-VALUE}.")
     int sweeps;
 
-    @Option(names = "--seed", defaultValue = "20261202", description = "Seed of the data and the sampler. Default: ${DEFAULT-VALUE}.")
+    @Option(names = "--seed", paramLabel = "SEED", defaultValue = "20261202", description = "Seed of the data and the sampler. Default: ${DEFAULT-VALUE}.")
     long seed;
 
     @Option(names = "--ess-sizes", split = ",", defaultValue = "10000,100000", paramLabel = "N",
             description = "Numbers of respondents of the bulk-ESS fits (2 chains, 2 threads). Default: ${DEFAULT-VALUE}.")
     int[] essSizes;
 
-    @Option(names = "--ess-warmup", defaultValue = "500", description = "Warm-up per chain of the ESS fits. Default: ${DEFAULT-VALUE}.")
+    @Option(names = "--ess-warmup", paramLabel = "N", defaultValue = "500", description = "Warm-up per chain of the ESS fits. Default: ${DEFAULT-VALUE}.")
     int essWarmup;
 
-    @Option(names = "--ess-draws", defaultValue = "1000", description = "Kept draws per chain of the ESS fits. Default: ${DEFAULT-VALUE}.")
+    @Option(names = "--ess-draws", paramLabel = "N", defaultValue = "1000", description = "Kept draws per chain of the ESS fits. Default: ${DEFAULT-VALUE}.")
     int essDraws;
 
     @Option(names = "--models", split = ",", defaultValue = "plain,coarse,complete,education", paramLabel = "MODEL",

@@ -40,13 +40,13 @@ final class CalibrateCommand implements Callable<Integer> {
     @Option(names = "--scale", defaultValue = "0..4", paramLabel = "L..U", description = "The rating scale. Default: ${DEFAULT-VALUE}.")
     String scale;
 
-    @Option(names = "--groups", defaultValue = "3", description = "Number of groups. Default: ${DEFAULT-VALUE}.")
+    @Option(names = "--groups", paramLabel = "G", defaultValue = "3", description = "Number of groups. Default: ${DEFAULT-VALUE}.")
     int groups;
 
-    @Option(names = "--respondents", defaultValue = "40", description = "Respondents per group. Default: ${DEFAULT-VALUE}.")
+    @Option(names = "--respondents", paramLabel = "N", defaultValue = "40", description = "Respondents per group. Default: ${DEFAULT-VALUE}.")
     int respondents;
 
-    @Option(names = "--covariates", defaultValue = "1", description = "Numeric level covariates (standard normal before standardising). Default: ${DEFAULT-VALUE}.")
+    @Option(names = "--covariates", paramLabel = "N", defaultValue = "1", description = "Numeric level covariates (standard normal before standardising). Default: ${DEFAULT-VALUE}.")
     int covariates;
 
     @Option(names = "--thresholds", paramLabel = "MODE", defaultValue = "by-group",
@@ -86,7 +86,7 @@ final class CalibrateCommand implements Callable<Integer> {
             description = "Draws kept at equal spacing for the ranks; a rank lies in 0..L. Default: ${DEFAULT-VALUE}.")
     int rankDraws;
 
-    @Option(names = "--alpha", defaultValue = "0.01",
+    @Option(names = "--alpha", paramLabel = "A", defaultValue = "0.01",
             description = "False-alarm rate of the verdicts over all quantities together (Bonferroni). Default: ${DEFAULT-VALUE}.")
     double alpha;
 

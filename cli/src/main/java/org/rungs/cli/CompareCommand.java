@@ -12,10 +12,11 @@ import picocli.CommandLine.Parameters;
 /** {@code rungs compare DIR DIR...}: fits of different models to the same rows, by leave-one-out predictive accuracy. */
 @Command(name = "compare",
         mixinStandardHelpOptions = true,
-        description = {"Compares fits of different models to the same rows of the same file (say with and without "
-                + "--attraction) by their leave-one-out predictive accuracy: each fit must have been run with "
-                + "--cross-validate, on the same --rating column and --scale. Prints per fit elpd_loo with its standard error, p_loo, and the difference from the "
-                + "best fit with the standard error of that difference, paired respondent by respondent."})
+        description = {"Compare fits of different models to the same rows by leave-one-out predictive accuracy.",
+                "The fits (say with and without --attraction) must have been run with --cross-validate on the same "
+                        + "file, --rating column and --scale. Prints per fit elpd_loo with its standard error, p_loo, "
+                        + "and the difference from the best fit with the standard error of that difference, paired "
+                        + "respondent by respondent."})
 public final class CompareCommand implements Callable<Integer> {
     @Parameters(arity = "2..*", paramLabel = "DIR", description = "Fit folders written by 'rungs fit --cross-validate'.")
     List<Path> dirs;

@@ -40,11 +40,11 @@ final class RecoverCommand implements Callable<Integer> {
             description = "Response-style classes of the fitted model (MODEL.md 4): coarse or none. Default: ${DEFAULT-VALUE}.")
     String styleClasses;
 
-    @Option(names = "--groups", defaultValue = "" + DemoTruth.DEMO_GROUPS,
+    @Option(names = "--groups", paramLabel = "G", defaultValue = "" + DemoTruth.DEMO_GROUPS,
             description = "Regions kept from the demo's twelve, 2 to 12. Default: ${DEFAULT-VALUE}.")
     int groups;
 
-    @Option(names = "--respondents", defaultValue = "" + DemoTruth.DEMO_RESPONDENTS,
+    @Option(names = "--respondents", paramLabel = "N", defaultValue = "" + DemoTruth.DEMO_RESPONDENTS,
             description = "Respondents per region. Default: ${DEFAULT-VALUE}, as in the demo.")
     int respondents;
 

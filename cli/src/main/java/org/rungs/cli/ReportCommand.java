@@ -10,9 +10,9 @@ import picocli.CommandLine.Parameters;
 /** {@code rungs report DIR}: writes the self-contained HTML report of a finished fit. */
 @Command(name = "report",
         mixinStandardHelpOptions = true,
-        description = {"Writes report.html into a fit folder: one self-contained page (charts inline, no network needed) "
-                + "with what was fitted, convergence, distributions, corrected means, coarse shares, attraction, "
-                + "covariate effects and cautions."})
+        description = {"Write report.html, a self-contained page of charts, into a fit folder.",
+                "The page (charts inline, no network needed) shows what was fitted, convergence, distributions, "
+                        + "corrected means, coarse shares, attraction, covariate effects and cautions."})
 public final class ReportCommand implements Callable<Integer> {
     @Parameters(index = "0", paramLabel = "DIR", description = "Fit folder written by 'rungs fit' or 'rungs demo'.")
     Path dir;

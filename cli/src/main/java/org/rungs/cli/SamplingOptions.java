@@ -50,13 +50,13 @@ final class SamplingOptions {
                     + "rows can be compared with 'rungs compare'. Takes some seconds per 10,000 respondents.")
     boolean crossValidate;
 
-    @Option(names = "--chains", defaultValue = "4", description = "Number of chains. Default: ${DEFAULT-VALUE}.")
+    @Option(names = "--chains", paramLabel = "N", defaultValue = "4", description = "Number of chains. Default: ${DEFAULT-VALUE}.")
     int chains;
 
-    @Option(names = "--warmup", defaultValue = "1000", description = "Warm-up iterations per chain. Default: ${DEFAULT-VALUE}.")
+    @Option(names = "--warmup", paramLabel = "N", defaultValue = "1000", description = "Warm-up iterations per chain. Default: ${DEFAULT-VALUE}.")
     int warmup;
 
-    @Option(names = "--draws", defaultValue = "1000", description = "Kept draws per chain. Default: ${DEFAULT-VALUE}.")
+    @Option(names = "--draws", paramLabel = "N", defaultValue = "1000", description = "Kept draws per chain. Default: ${DEFAULT-VALUE}.")
     int draws;
 
     @Option(names = "--thin", paramLabel = "K",
@@ -65,10 +65,10 @@ final class SamplingOptions {
                     + "Default: 1 (the demo: " + DEMO_THIN + ").")
     Integer thin;
 
-    @Option(names = "--seed", description = "Random seed; with none, one is chosen, printed and recorded in run.json.")
+    @Option(names = "--seed", paramLabel = "SEED", description = "Random seed; with none, one is chosen, printed and recorded in run.json (the demo: 1).")
     Long seed;
 
-    @Option(names = "--threads", description = "Worker threads (never changes the draws); they take turns on the chains, so that the chains end "
+    @Option(names = "--threads", paramLabel = "N", description = "Worker threads (never changes the draws); they take turns on the chains, so that the chains end "
                     + "together. Default: the number of cores, at most the chains.")
     Integer threads;
 

@@ -19,7 +19,7 @@ final class SimulateCommand implements Callable<Integer> {
     @Option(names = "--out", required = true, paramLabel = "DIR", description = "Output folder.")
     Path out;
 
-    @Option(names = "--seed", defaultValue = "" + DemoScenario.SEED, description = "Seed of the respondents drawn. Default: ${DEFAULT-VALUE}.")
+    @Option(names = "--seed", paramLabel = "SEED", defaultValue = "" + DemoScenario.SEED, description = "Seed of the respondents drawn. Default: ${DEFAULT-VALUE}.")
     long seed;
 
     @Option(names = "--overwrite", description = "Replace files in a non-empty output folder.")

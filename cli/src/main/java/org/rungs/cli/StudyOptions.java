@@ -5,23 +5,23 @@ import picocli.CommandLine.Option;
 
 /** The options of a study of many simulated fits ({@code calibrate}, {@code recover}): each fit's chains, how many fits, where they go. */
 final class StudyOptions {
-    @Option(names = "--chains", defaultValue = "2", description = "Chains per fit. Default: ${DEFAULT-VALUE}.")
+    @Option(names = "--chains", paramLabel = "N", defaultValue = "2", description = "Chains per fit. Default: ${DEFAULT-VALUE}.")
     int chains;
 
-    @Option(names = "--warmup", defaultValue = "500", description = "Warm-up iterations per chain. Default: ${DEFAULT-VALUE}.")
+    @Option(names = "--warmup", paramLabel = "N", defaultValue = "500", description = "Warm-up iterations per chain. Default: ${DEFAULT-VALUE}.")
     int warmup;
 
-    @Option(names = "--draws", defaultValue = "1000", description = "Kept iterations per chain. Default: ${DEFAULT-VALUE}.")
+    @Option(names = "--draws", paramLabel = "N", defaultValue = "1000", description = "Kept iterations per chain. Default: ${DEFAULT-VALUE}.")
     int draws;
 
-    @Option(names = "--replications", defaultValue = "100",
+    @Option(names = "--replications", paramLabel = "N", defaultValue = "100",
             description = "Simulated data sets, each fitted once (calibrate --shard: over all shards). Default: ${DEFAULT-VALUE}.")
     int replications;
 
-    @Option(names = "--seed", defaultValue = "1", description = "Base seed; replication r depends on (seed, r) only. Default: ${DEFAULT-VALUE}.")
+    @Option(names = "--seed", paramLabel = "SEED", defaultValue = "1", description = "Base seed; replication r depends on (seed, r) only. Default: ${DEFAULT-VALUE}.")
     long seed;
 
-    @Option(names = "--threads", description = "Replications fitted at once, each fit on one thread. Default: the number of cores.")
+    @Option(names = "--threads", paramLabel = "N", description = "Replications fitted at once, each fit on one thread. Default: the number of cores.")
     Integer threads;
 
     @Option(names = "--out", paramLabel = "DIR", description = "Output folder (required); a rerun with the same folder resumes.")
