@@ -50,10 +50,18 @@ import org.rungs.sampler.SamplerSettings;
  */
 public final class FitJob {
     /**
-     * Draws used for the derived quantities (spread evenly over the chains): their cost is that of
-     * a sweep with ~35 normal-function calls per respondent, so they are thinned.
+     * Draws used for the derived quantities (spread evenly over the chains): every draw of the
+     * default 4 x 1,000. Each costs about a sweep (~35 normal-function calls per respondent), so
+     * longer runs are thinned to this. With 1,000 the demo's derived verdict was noise on some
+     * seeds (a few shares at R-hat 1.011 to 1.015 that all 4,000 draws put at 1.00x; BENCHMARKS.md,
+     * forty-second session) for about 5 s less on 2 cores.
      */
-    static final int DERIVED_DRAWS = 1000;
+    static final int DERIVED_DRAWS = 4000;
+    /**
+     * Draws of the leave-one-out cross-validation (PSIS-LOO), every fourth of the default 4 x 1,000:
+     * its cost per draw is that of a derived draw, and it is summed over respondents, not read for R-hat.
+     */
+    static final int CROSS_VALIDATION_DRAWS = 1000;
     /** Fewer kept iterations than this (an early interruption) leave no derived quantities. */
     private static final int MIN_DERIVED_ITERATIONS = 4;
     /** How the verdict on the derived quantities names them: they are not parameters. */
@@ -189,13 +197,13 @@ public final class FitJob {
         }
         CrossValidation crossValidation = null;
         if (request.crossValidate() && result.draws().iterations() >= MIN_DERIVED_ITERATIONS) {
-            err.println(String.format(Locale.ROOT, "rungs: cross-validating %,d respondents at the %,d derived draws (PSIS-LOO)...",
-                    survey.size(), derived.draws().iterations() * derived.draws().chains()));
+            err.println(String.format(Locale.ROOT, "rungs: cross-validating %,d respondents (PSIS-LOO)...", survey.size()));
             long started = System.nanoTime();
             CrossValidation cv = CrossValidation.compute(survey, result.draws(), result.layout(), request.model(),
-                    DERIVED_DRAWS, request.settings().threads());
+                    CROSS_VALIDATION_DRAWS, request.settings().threads());
             folder.write("cross_validation.csv", cv::write);
-            err.println(String.format(Locale.ROOT, "rungs: cross-validated in %.1f s", (System.nanoTime() - started) / 1e9));
+            err.println(String.format(Locale.ROOT, "rungs: cross-validated at %,d draws in %.1f s", cv.draws(),
+                    (System.nanoTime() - started) / 1e9));
             crossValidation = cv;
         }
         // Ctrl-C after the chains ended cuts the corrected quantities short: the fit counts as interrupted

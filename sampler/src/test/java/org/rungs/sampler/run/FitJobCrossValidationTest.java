@@ -71,13 +71,17 @@ class FitJobCrossValidationTest {
     }
 
     private static String fit(Path file, Path out, boolean coarse, int threads) throws Exception {
+        return fit(file, out, coarse, threads, 300, 250);
+    }
+
+    private static String fit(Path file, Path out, boolean coarse, int threads, int warmup, int draws) throws Exception {
         SurveySpec.Builder spec = SurveySpec.builder("rating", SCALE).group("region").level("income");
         if (coarse) {
             spec.style("schooling");
         }
         ModelSpec model = new ModelSpec(ThresholdMode.BY_GROUP, Priors.defaults(),
                 coarse ? StyleClasses.coarse(null) : StyleClasses.none(), NumberAttraction.none());
-        FitRequest request = new FitRequest(file, spec.build(), model, new SamplerSettings(2, 300, 250, 11, threads), out,
+        FitRequest request = new FitRequest(file, spec.build(), model, new SamplerSettings(2, warmup, draws, 11, threads), out,
                 false, Map.of(), true);
         ByteArrayOutputStream stdout = new ByteArrayOutputStream();
         FitJob.run(request, new PrintStream(stdout, true, StandardCharsets.UTF_8),
@@ -126,6 +130,20 @@ class FitJobCrossValidationTest {
         CrossValidationComparison.Fit worse = compared.get(1);
         assertTrue(-worse.difference() > 4 * worse.differenceSe(), worse.toString());
         assertFalse(CrossValidationComparison.format(compared).isEmpty());
+    }
+
+    /**
+     * The derived quantities use every kept draw up to FitJob.DERIVED_DRAWS (4,000), the
+     * cross-validation every second one here, to stay within its 1,000.
+     */
+    @Test
+    void theDerivedQuantitiesUseEveryDrawAndTheCrossValidationAThousandAtMost(@TempDir Path dir) throws Exception {
+        Path out = dir.resolve("long");
+        String console = fit(survey(dir), out, false, 2, 100, 600);
+        String run = Files.readString(out.resolve("run.json"));
+        assertTrue(run.contains("\"derived_draws\": 1200"), run);
+        assertEquals(1 + 1200, Files.readAllLines(out.resolve("derived_draws.csv")).size());
+        assertTrue(console.contains("Leave-one-out cross-validation (PSIS, 600 draws)"), console);
     }
 
     @Test
