@@ -84,19 +84,37 @@ public final class DerivedQuantities {
             }
         }
         boolean coarse = spec.styleClasses().coarse();
-        RoundingChannel channel = null;
-        StylePartition partition = StylePartition.empty();
-        if (coarse) {
-            channel = RoundingChannel.of(survey.scale(), spec.styleClasses().points(survey.scale()));
-            partition = StylePartition.of(survey.style(), survey.size(), weight);
-        }
+        RoundingChannel channel = coarse
+                ? RoundingChannel.of(survey.scale(), spec.styleClasses().points(survey.scale())) : null;
+        StylePartition partition = partition(survey, spec);
         boolean attraction = layout.attractionSet().length > 0;
-        DerivedColumns columns = new DerivedColumns(survey.groupLabels(), survey.scale(), survey.level(), coarse,
-                attraction, partition.levels);
+        DerivedColumns columns = columns(survey, layout, spec, partition);
         Draws derived = evaluate(survey, draws, layout, columns, channel, partition, groupWeight, reportedMeans, used,
                 seed, threads);
         return new DerivedResult(derived, survey.groupLabels(), survey.scale(), used, counts, shares, reportedMeans,
                 coarse, attraction, partition.levels);
+    }
+
+    /**
+     * The draws {@link #compute} may use so that its table holds at most {@code values} numbers:
+     * {@code most}, fewer when the derived quantities are many (many groups), never fewer than
+     * {@code least}.
+     */
+    public static int drawsWithin(Survey survey, ParameterLayout layout, ModelSpec spec, int most, int least,
+            long values) {
+        int width = columns(survey, layout, spec, partition(survey, spec)).names.size();
+        return (int) Math.max(least, Math.min(most, values / Math.max(1, width)));
+    }
+
+    private static StylePartition partition(Survey survey, ModelSpec spec) {
+        return spec.styleClasses().coarse() ? StylePartition.of(survey.style(), survey.size(), survey.weight())
+                : StylePartition.empty();
+    }
+
+    private static DerivedColumns columns(Survey survey, ParameterLayout layout, ModelSpec spec,
+            StylePartition partition) {
+        return new DerivedColumns(survey.groupLabels(), survey.scale(), survey.level(), spec.styleClasses().coarse(),
+                layout.attractionSet().length > 0, partition.levels);
     }
 
     /**

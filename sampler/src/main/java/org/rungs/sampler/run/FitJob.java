@@ -58,6 +58,14 @@ public final class FitJob {
      */
     static final int DERIVED_DRAWS = 4000;
     /**
+     * The most numbers in the table of derived draws (24 MB, derived_draws.csv about 50 MB): the
+     * demo's 475 quantities, or 643 with attraction, keep 4,000 draws; 150 groups (5,850) keep
+     * {@link #DERIVED_DRAWS_LEAST}, where 4,000 wrote 346 MB.
+     */
+    static final long DERIVED_VALUES = 3_000_000;
+    /** The fewest draws of the derived quantities, however many they are. */
+    static final int DERIVED_DRAWS_LEAST = 1000;
+    /**
      * Draws of the leave-one-out cross-validation (PSIS-LOO), every fourth of the default 4 x 1,000:
      * its cost per draw is that of a derived draw, and it is summed over respondents, not read for R-hat.
      */
@@ -185,8 +193,10 @@ public final class FitJob {
         DerivedResult derived = null;
         Comparison comparison = null;
         if (result.draws().iterations() >= MIN_DERIVED_ITERATIONS) {
+            int derivedDraws = DerivedQuantities.drawsWithin(survey, result.layout(), request.model(), DERIVED_DRAWS,
+                    DERIVED_DRAWS_LEAST, DERIVED_VALUES);
             derived = DerivedQuantities.compute(survey, result.draws(), result.layout(), request.model(),
-                    DERIVED_DRAWS, request.settings().seed(), request.settings().threads());
+                    derivedDraws, request.settings().seed(), request.settings().threads());
             derivedSummaries = Summaries.of(derived.draws());
             comparison = writeDerived(request, survey, folder, derived, derivedSummaries, record, err, stop);
         } else {

@@ -449,6 +449,19 @@ class DerivedQuantitiesTest {
 
     // ---- (4) threads and thinning ----
 
+    /** The draws a table of at most so many numbers allows: as many as asked, down to the least, by the columns compute writes. */
+    @Test
+    void theDrawsWithinABudgetFollowTheColumnsComputeWrites() {
+        Survey survey = survey(WEIGHT);
+        ModelSpec spec = coarseModel();
+        ParameterLayout layout = ParameterLayout.of(survey, spec);
+        int width = DerivedQuantities.compute(survey, varied(layout, 1, 2), layout, spec, 2, 5, 1).draws().parameterCount();
+        assertEquals(4000, DerivedQuantities.drawsWithin(survey, layout, spec, 4000, 1000, 4000L * width));
+        assertEquals(3999, DerivedQuantities.drawsWithin(survey, layout, spec, 4000, 1000, 4000L * width - 1));
+        assertEquals(2500, DerivedQuantities.drawsWithin(survey, layout, spec, 4000, 1000, 2500L * width));
+        assertEquals(1000, DerivedQuantities.drawsWithin(survey, layout, spec, 4000, 1000, 10L * width));
+    }
+
     @Test
     void resultsDoNotDependOnThreadsAndUseTheSameIterationsInEveryChain() {
         Survey survey = survey(WEIGHT);
