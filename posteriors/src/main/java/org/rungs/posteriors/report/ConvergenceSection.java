@@ -64,8 +64,15 @@ final class ConvergenceSection {
     /** The prefix of run.json's warning that carries the derived quantities' verdict (FitJob writes it when one is flagged). */
     static final String DERIVED_WARNING = "derived quantities: ";
 
-    /** The derived quantities' verdict line from run.json's warnings, or null when none was flagged. */
+    /**
+     * The derived quantities' verdict line from run.json ("derived_verdict"; in folders written
+     * before it, the warning FitJob writes when one is flagged), or null when there is none.
+     */
     static String derivedVerdict(FitFolder fit) {
+        String line = fit.text("derived_verdict", null);
+        if (line != null) {
+            return line;
+        }
         for (Object warning : fit.list("warnings")) {
             if (warning instanceof String w && w.startsWith(DERIVED_WARNING)) {
                 return w.substring(DERIVED_WARNING.length());

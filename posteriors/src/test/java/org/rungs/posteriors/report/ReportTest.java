@@ -234,6 +234,16 @@ class ReportTest {
         html = Files.readString(Report.write(dir));
         assertTrue(html.contains("<p id=\"verdict\" class=\"ok\">"), "within chance: readable");
         assertTrue(html.contains("have their own check: Converged within chance"), html);
+        // run.json since the forty-second session: the verdict always, so a converged one is said too
+        Files.writeString(run, original.replace("\"warnings\": [", "\"derived_verdict\": \"All 9 derived quantities"
+                + " converged (R-hat <= 1.01, bulk and tail ESS >= 100 per chain).\", \"warnings\": ["));
+        html = Files.readString(Report.write(dir));
+        assertTrue(html.contains("<p id=\"verdict\" class=\"ok\">"), html);
+        assertTrue(html.contains("have their own check: All 9 derived quantities converged"), html);
+        Files.writeString(run, original.replace("\"warnings\": [", "\"derived_verdict\": \"Not converged: 1 of 9"
+                + " derived quantities flagged: intended_mean.\", \"warnings\": ["));
+        html = Files.readString(Report.write(dir));
+        assertTrue(html.contains("<p id=\"verdict\" class=\"alarm\">"), html);
     }
 
     @Test

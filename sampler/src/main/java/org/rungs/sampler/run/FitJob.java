@@ -245,6 +245,10 @@ public final class FitJob {
         if (crossValidation != null) {
             record.put("cross_validation", crossValidation.record());
         }
+        if (!derivedSummaries.isEmpty()) {
+            // the report shows it either way: the page's corrected figures are derived quantities
+            record.put("derived_verdict", ConvergenceVerdict.of(derivedSummaries).line(DERIVED_NOUN));
+        }
         if (derivedSummaries.stream().anyMatch(ParameterSummary::flagged)) {
             record.warn("derived quantities: " + ConvergenceVerdict.of(derivedSummaries).line(DERIVED_NOUN));
         }

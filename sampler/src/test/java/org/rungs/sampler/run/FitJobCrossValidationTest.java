@@ -142,6 +142,8 @@ class FitJobCrossValidationTest {
         String console = fit(survey(dir), out, false, 2, 100, 600);
         String run = Files.readString(out.resolve("run.json"));
         assertTrue(run.contains("\"derived_draws\": 1200"), run);
+        // the report reads the derived quantities' verdict from run.json, converged or not
+        assertTrue(run.matches("(?s).*\"derived_verdict\": \"(All|Converged within|Not converged)[^\"]* derived quantities.*"), run);
         assertEquals(1 + 1200, Files.readAllLines(out.resolve("derived_draws.csv")).size());
         assertTrue(console.contains("Leave-one-out cross-validation (PSIS, 600 draws)"), console);
     }
