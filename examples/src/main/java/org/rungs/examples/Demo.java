@@ -138,12 +138,26 @@ public final class Demo {
                 inside++;
             }
             if (shown(s.name())) {
-                sb.append(String.format(Locale.ROOT, "%-34s %9.3f %9.3f   [%7.3f, %7.3f]%s%n", s.name(), t, s.mean(),
-                        s.q05(), s.q95(), covered ? "" : "  outside"));
+                sb.append(row(s.name(), t, s.mean(), s.q05(), s.q95(), covered));
             }
         }
         sb.append(coverage(inside, total, attractionFitted));
         return sb.toString();
+    }
+
+    /**
+     * One line of the table, with three decimals, or as many as show the row's largest value to
+     * three significant digits (an effect per year of age, -0.004, would read -0.004 against an
+     * interval of [-0.003, -0.002] and not show why it lies outside).
+     */
+    static String row(String name, double truth, double mean, double q05, double q95, boolean covered) {
+        double largest = Math.max(Math.max(Math.abs(truth), Math.abs(mean)), Math.max(Math.abs(q05), Math.abs(q95)));
+        int decimals = largest >= 0.1 || largest == 0 || !Double.isFinite(largest)
+                ? 3 : Math.min(9, 2 - (int) Math.floor(Math.log10(largest)));
+        String number = "%9." + decimals + "f";
+        String interval = "%8." + decimals + "f";
+        return String.format(Locale.ROOT, "%-34s " + number + " " + number + " [" + interval + ", " + interval + "]%s%n",
+                name, truth, mean, q05, q95, covered ? "" : "  outside");
     }
 
     /** The coverage line under the table; whether the fit left out the number attraction that the demo data carry changes what to expect. */
