@@ -62,6 +62,11 @@ final class Chain implements Checkpointed {
         return of(order, spec, byGroup, warmup, rng, maxRange, AttractionTradeUpdate.RIDGES);
     }
 
+    /** Whether the sweep starts with the joint step: with the coarse class or numbers of attraction. */
+    static boolean hasJointStep(ModelSpec spec, Scale scale) {
+        return spec.styleClasses().coarse() || spec.attraction().resolve(scale, spec.styleClasses()).length > 0;
+    }
+
     /** For tests: ridges is the number of ridge moves per sweep of {@link AttractionTradeUpdate}. */
     static Chain of(SurveyOrder order, ModelSpec spec, boolean byGroup, int warmup, RestorableUniformRandomProvider rng,
                     double maxRange, double ridges) {
@@ -76,7 +81,7 @@ final class Chain implements Checkpointed {
         ChainState state = new ChainState(order, byGroup, channel, attracted);
         InitialValues.apply(state, priors.styleMean().mean(), rng);
         List<Update> sweep = new ArrayList<>();
-        if (channel != null || state.attractionOn()) {
+        if (hasJointStep(spec, scale)) {
             JointHamiltonianUpdate joint = JointHamiltonianUpdate.of(state, priors, warmup, rng);
             sweep.add(joint);
             CollapsedSpreadUpdate spreads = joint.sparseMetric() ? CollapsedSpreadUpdate.of(state, priors, rng)

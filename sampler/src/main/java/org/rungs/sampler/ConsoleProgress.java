@@ -18,7 +18,8 @@ import java.util.Locale;
  * has, at the chain's own recent cost (its last whole part, its dearest iteration left out as a
  * one-off, else its current part). A chain resumed from a checkpoint has no time for the parts
  * an earlier run made. Costs that change in parts no chain has reached (the dearer second half
- * of warm-up, seen from the first) cannot be foreseen.
+ * of warm-up, seen from the first) cannot be foreseen: until a chain has run a whole part past
+ * the iteration where the fitter said they rise ({@link #dearerFrom}), the line says "at least".
  *
  * <p>The time left is then the running time left of all chains shared by the threads at work
  * (as many as the fitter runs, fewer when fewer chains are left), but never less than the
@@ -38,6 +39,8 @@ public final class ConsoleProgress implements ProgressListener {
     private long lastPrint;
     private int total = 1;
     private int threads = 1;
+    /** The iteration from which iterations cost more, as the fitter said; none by default. */
+    private int dearerFrom = Integer.MAX_VALUE;
     private final int[] done;
     private final boolean[] warming;
     /** Per chain and part: nanoseconds of running time timed, and the iterations they cover. */
@@ -98,6 +101,11 @@ public final class ConsoleProgress implements ProgressListener {
     @Override
     public synchronized void threads(int threads) {
         this.threads = Math.max(1, threads);
+    }
+
+    @Override
+    public synchronized void dearerFrom(int iteration) {
+        this.dearerFrom = iteration;
     }
 
     private void maybePrint(long now, boolean chainEnded) {
@@ -162,9 +170,23 @@ public final class ConsoleProgress implements ProgressListener {
         }
         double left = secondsLeft();
         if (sum < (long) total * chains && !Double.isNaN(left)) {
-            sb.append(" | about ").append(formatSeconds(left)).append(" left");
+            sb.append(foreseen() ? " | about " : " | at least ").append(formatSeconds(left)).append(" left");
         }
         return sb.toString();
+    }
+
+    /** Whether the dearer iterations are priced: none ahead, or some chain has run a whole part of them. */
+    private boolean foreseen() {
+        if (dearerFrom >= total) {
+            return true;
+        }
+        int priced = start(Math.min(PARTS, part(dearerFrom) + 2));
+        for (int d : done) {
+            if (d >= priced) {
+                return true;
+            }
+        }
+        return false;
     }
 
     /** The estimated wall time left in seconds (see the class comment); NaN before any iteration is timed. */

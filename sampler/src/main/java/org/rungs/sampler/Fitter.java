@@ -98,6 +98,9 @@ public final class Fitter {
         ChainCheckpoint[] opened = new ChainCheckpoint[settings.chains()];
         Turns turns = new Turns(settings.chains());
         progress.threads(threads);
+        if (Chain.hasJointStep(spec, survey.scale()) && settings.warmup() >= 2) {
+            progress.dearerFrom(JointHamiltonianUpdate.buildAt(settings.warmup()));
+        }
         for (int chain = 0; chain < settings.chains(); chain++) {
             // every resumed chain's position is shown from the start, a finished one as done,
             // though a thread may reach it only after a stretch of the others

@@ -141,6 +141,11 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
     private long leapfrogSteps;
     private long walls;
 
+    /** The warm-up sweep at which the step is first built, and from which it runs: half-way. */
+    static int buildAt(int warmup) {
+        return warmup / 2;
+    }
+
     private JointHamiltonianUpdate(ChainState state, Priors priors, int warmup, UniformRandomProvider rng, int denseUpTo) {
         this.state = state;
         this.posterior = new CollapsedPosterior(state, priors);
@@ -148,7 +153,7 @@ final class JointHamiltonianUpdate implements Update, Checkpointed {
         this.normal = ZigguratSampler.NormalizedGaussian.of(rng);
         this.dimension = posterior.dimension();
         this.size = state.size;
-        this.buildAt = warmup >= 2 ? warmup / 2 : Integer.MAX_VALUE;
+        this.buildAt = warmup >= 2 ? buildAt(warmup) : Integer.MAX_VALUE;
         this.warmup = warmup;
         this.refitAt = warmup >= 8 ? warmup * 3 / 4 : Integer.MAX_VALUE;
         this.lastRefitAt = warmup >= 16 ? warmup * 7 / 8 : Integer.MAX_VALUE;

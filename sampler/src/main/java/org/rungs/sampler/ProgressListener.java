@@ -33,6 +33,13 @@ public interface ProgressListener {
     default void threads(int threads) {
     }
 
+    /**
+     * From iteration {@code iteration} (0-based) on, the chains' iterations cost more than before
+     * (the joint step starts half-way through warm-up); called before the threads start.
+     */
+    default void dearerFrom(int iteration) {
+    }
+
     /** A listener that ignores everything. */
     ProgressListener NONE = (chain, done, total, warmingUp) -> { };
 }

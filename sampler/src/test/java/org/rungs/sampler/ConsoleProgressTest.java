@@ -270,4 +270,27 @@ class ConsoleProgressTest {
         assertEquals("2 min", ConsoleProgress.formatSeconds(100));
         assertEquals("1.5 h", ConsoleProgress.formatSeconds(5400));
     }
+
+    /**
+     * Until a chain has run a whole part of the dearer iterations the fitter announced, the
+     * estimate cannot price them, and the line says "at least"; then "about". Without an
+     * announcement it says "about" throughout.
+     */
+    @Test
+    void theLineSaysAtLeastUntilTheDearerIterationsArePriced() {
+        ConsoleProgress announced = progress(1, 1);
+        ConsoleProgress silent = progress(1, 1);
+        announced.dearerFrom(150);
+        // 300 iterations in 100 parts of 3: iteration 150 (0-based) is in part 50, so part 51, iterations
+        // 153 to 155, prices them once 156 are done
+        for (int k = 1; k <= 156; k++) {
+            long running = k * SECOND / 10;
+            announced.record(0, k, 300, k <= 200, running);
+            silent.record(0, k, 300, k <= 200, running);
+            if (k == 100 || k == 155 || k == 156) {
+                assertTrue(announced.line().contains(k < 156 ? " | at least " : " | about "), announced.line());
+                assertTrue(silent.line().contains(" | about "), silent.line());
+            }
+        }
+    }
 }
