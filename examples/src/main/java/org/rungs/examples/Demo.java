@@ -92,20 +92,26 @@ public final class Demo {
             while ((line = in.readLine()) != null) {
                 row++;
                 int comma = line.indexOf(',');
-                try {
-                    if (comma <= 0) {
-                        throw new NumberFormatException();
-                    }
-                    truth.put(line.substring(0, comma), Double.parseDouble(line.substring(comma + 1)));
-                } catch (NumberFormatException e) {
+                Double value = comma > 0 ? number(line.substring(comma + 1)) : null;
+                if (value == null) {
                     throw new IllegalArgumentException(file + ", row " + row + ": expected a parameter's name and its true"
                             + " value, found '" + line + "'");
                 }
+                truth.put(line.substring(0, comma), value);
             }
         } catch (IOException e) {
             throw new UncheckedIOException("could not read " + file + ": " + e.getMessage(), e);
         }
         return truth;
+    }
+
+    /** The number {@code text} holds, or null. */
+    private static Double number(String text) {
+        try {
+            return Double.parseDouble(text);
+        } catch (NumberFormatException e) {
+            return null;
+        }
     }
 
     /** Common parameters and the per-group corrected means; group thresholds are counted, not shown. */

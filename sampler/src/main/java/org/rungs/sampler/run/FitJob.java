@@ -245,12 +245,13 @@ public final class FitJob {
         if (crossValidation != null) {
             record.put("cross_validation", crossValidation.record());
         }
+        String derivedVerdict = ConvergenceVerdict.of(derivedSummaries).line(DERIVED_NOUN);
         if (!derivedSummaries.isEmpty()) {
             // the report shows it either way: the page's corrected figures are derived quantities
-            record.put("derived_verdict", ConvergenceVerdict.of(derivedSummaries).line(DERIVED_NOUN));
+            record.put("derived_verdict", derivedVerdict);
         }
         if (derivedSummaries.stream().anyMatch(ParameterSummary::flagged)) {
-            record.warn("derived quantities: " + ConvergenceVerdict.of(derivedSummaries).line(DERIVED_NOUN));
+            record.warn("derived quantities: " + derivedVerdict);
         }
         // flags within chance (ConvergenceVerdict) leave the estimates readable: no advice to run longer
         boolean converged = FitOutcome.converged(summaries, derivedSummaries);
@@ -267,7 +268,7 @@ public final class FitJob {
         out.print(SummaryTable.format(summaries));
         out.println(verdict);
         if (derived != null) {
-            out.println("Derived quantities: " + ConvergenceVerdict.of(derivedSummaries).line(DERIVED_NOUN));
+            out.println("Derived quantities: " + derivedVerdict);
             out.println();
             out.print(GroupTable.format(derived, derivedSummaries));
         }
