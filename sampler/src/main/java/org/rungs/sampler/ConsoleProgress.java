@@ -309,7 +309,8 @@ public final class ConsoleProgress implements ProgressListener {
         return (int) (((long) p * total + PARTS - 1) / PARTS);
     }
 
-    static String formatSeconds(double seconds) {
+    /** Seconds as "42 s", "7 min" or "1.5 h". */
+    public static String formatSeconds(double seconds) {
         if (seconds < 90) {
             return String.format(Locale.ROOT, "%.0f s", seconds);
         }

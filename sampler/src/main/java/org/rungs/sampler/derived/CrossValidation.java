@@ -66,6 +66,12 @@ public final class CrossValidation {
      */
     public static CrossValidation compute(Survey survey, Draws draws, ParameterLayout layout, ModelSpec spec,
             int maxDraws, int threads) {
+        return compute(survey, draws, layout, spec, maxDraws, threads, WorkProgress.NONE);
+    }
+
+    /** As above, telling {@code progress} of the respondents cross-validated, a block at a time. */
+    public static CrossValidation compute(Survey survey, Draws draws, ParameterLayout layout, ModelSpec spec,
+            int maxDraws, int threads, WorkProgress progress) {
         int chains = draws.chains();
         int[] used = DerivedQuantities.usedIterations(chains, draws.iterations(), maxDraws);
         int groups = survey.groupCount();
@@ -94,6 +100,7 @@ public final class CrossValidation {
         double[] mcse = new double[n];
         int block = 256;
         AtomicInteger next = new AtomicInteger();
+        AtomicInteger finished = new AtomicInteger();
         Runnable worker = () -> {
             LeaveOneOut loo = new LeaveOneOut(chains, used.length);
             double[] logLikelihood = new double[s];
@@ -129,6 +136,7 @@ public final class CrossValidation {
                     paretoK[i] = loo.paretoK();
                     mcse[i] = loo.mcse();
                 }
+                progress.done(finished.addAndGet(Math.min(n, from + block) - from), n);
             }
         };
         DerivedQuantities.run(worker, Math.max(1, Math.min(threads, (n + block - 1) / block)));

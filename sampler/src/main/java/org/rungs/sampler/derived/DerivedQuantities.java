@@ -61,6 +61,12 @@ public final class DerivedQuantities {
      */
     public static DerivedResult compute(Survey survey, Draws draws, ParameterLayout layout, ModelSpec spec,
             int maxDraws, long seed, int threads) {
+        return compute(survey, draws, layout, spec, maxDraws, seed, threads, WorkProgress.NONE);
+    }
+
+    /** As above, telling {@code progress} of every draw evaluated. */
+    public static DerivedResult compute(Survey survey, Draws draws, ParameterLayout layout, ModelSpec spec,
+            int maxDraws, long seed, int threads, WorkProgress progress) {
         int[] used = usedIterations(draws, layout, maxDraws, threads);
         int groups = survey.groupCount();
         int m = survey.scale().categories();
@@ -90,7 +96,7 @@ public final class DerivedQuantities {
         boolean attraction = layout.attractionSet().length > 0;
         DerivedColumns columns = columns(survey, layout, spec, partition);
         Draws derived = evaluate(survey, draws, layout, columns, channel, partition, groupWeight, reportedMeans, used,
-                seed, threads);
+                seed, threads, progress);
         return new DerivedResult(derived, survey.groupLabels(), survey.scale(), used, counts, shares, reportedMeans,
                 coarse, attraction, partition.levels);
     }
@@ -127,7 +133,7 @@ public final class DerivedQuantities {
         DerivedColumns columns = DerivedColumns.effects(survey.groupLabels(), survey.scale(), survey.level());
         // no random numbers are drawn for the effects, so the seed is immaterial
         return evaluate(survey, draws, layout, columns, null, StylePartition.empty(), groupWeights(survey),
-                new double[survey.groupCount()], used, 0, threads);
+                new double[survey.groupCount()], used, 0, threads, WorkProgress.NONE);
     }
 
     private static int[] usedIterations(Draws draws, ParameterLayout layout, int maxDraws, int threads) {
@@ -156,10 +162,11 @@ public final class DerivedQuantities {
     /** Every used draw of every chain evaluated into {@code columns}, shared out over {@code threads} workers. */
     private static Draws evaluate(Survey survey, Draws draws, ParameterLayout layout, DerivedColumns columns,
             RoundingChannel channel, StylePartition partition, double[] groupWeight, double[] reportedMeans, int[] used,
-            long seed, int threads) {
+            long seed, int threads, WorkProgress progress) {
         Draws derived = new Draws(columns.names, draws.chains(), used.length);
         int total = draws.chains() * used.length;
         AtomicInteger next = new AtomicInteger();
+        AtomicInteger finished = new AtomicInteger();
         Runnable worker = () -> {
             DrawEvaluator evaluator = new DrawEvaluator(survey, layout, columns, channel, partition, groupWeight,
                     reportedMeans);
@@ -170,6 +177,7 @@ public final class DerivedQuantities {
                 evaluator.evaluate(draws, chain, used[u],
                         RandomSource.XO_RO_SHI_RO_128_PP.create(drawSeed(seed, chain, used[u])), row);
                 derived.putRow(chain, u, row);
+                progress.done(finished.incrementAndGet(), total);
             }
         };
         run(worker, Math.min(threads, total));

@@ -195,8 +195,11 @@ public final class FitJob {
         if (result.draws().iterations() >= MIN_DERIVED_ITERATIONS) {
             int derivedDraws = DerivedQuantities.drawsWithin(survey, result.layout(), request.model(), DERIVED_DRAWS,
                     DERIVED_DRAWS_LEAST, DERIVED_VALUES);
+            err.println(String.format(Locale.ROOT, "rungs: computing the corrected quantities from up to %,d draws...",
+                    derivedDraws));
             derived = DerivedQuantities.compute(survey, result.draws(), result.layout(), request.model(),
-                    derivedDraws, request.settings().seed(), request.settings().threads());
+                    derivedDraws, request.settings().seed(), request.settings().threads(),
+                    new StepProgress(err, "corrected quantities, draws"));
             derivedSummaries = Summaries.of(derived.draws());
             comparison = writeDerived(request, survey, folder, derived, derivedSummaries, record, err, stop);
         } else {
@@ -210,7 +213,7 @@ public final class FitJob {
             err.println(String.format(Locale.ROOT, "rungs: cross-validating %,d respondents (PSIS-LOO)...", survey.size()));
             long started = System.nanoTime();
             CrossValidation cv = CrossValidation.compute(survey, result.draws(), result.layout(), request.model(),
-                    CROSS_VALIDATION_DRAWS, request.settings().threads());
+                    CROSS_VALIDATION_DRAWS, request.settings().threads(), new StepProgress(err, "cross-validation, respondents"));
             folder.write("cross_validation.csv", cv::write);
             err.println(String.format(Locale.ROOT, "rungs: cross-validated at %,d draws in %.1f s", cv.draws(),
                     (System.nanoTime() - started) / 1e9));
